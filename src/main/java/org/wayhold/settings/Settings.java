@@ -1,0 +1,41 @@
+package org.wayhold.settings;
+
+import java.util.Map;
+
+/**
+ * Everything {@code config/wayhold.yaml} configures.
+ *
+ * @param vehicles profiles by name; the profile named {@code default} serves vehicles without their own
+ */
+public record Settings(ServerSettings server, FilterSettings filter, GatingSettings gating,
+                       OutageSettings outage, OrderingSettings ordering, HistorySettings history,
+                       Map<String, VehicleProfile> vehicles) {
+
+    public static final String DEFAULT_PROFILE = "default";
+
+    public Settings {
+        java.util.Objects.requireNonNull(server, "server");
+        java.util.Objects.requireNonNull(filter, "filter");
+        java.util.Objects.requireNonNull(gating, "gating");
+        java.util.Objects.requireNonNull(outage, "outage");
+        java.util.Objects.requireNonNull(ordering, "ordering");
+        java.util.Objects.requireNonNull(history, "history");
+        java.util.HashMap<String, VehicleProfile> v = new java.util.HashMap<>();
+        v.put(DEFAULT_PROFILE, VehicleProfile.defaults());
+        if (vehicles != null) {
+            v.putAll(vehicles);
+        }
+        vehicles = Map.copyOf(v);
+    }
+
+    /** The profile for a vehicle id: its own when configured, else {@code default}. */
+    public VehicleProfile profileFor(String vehicleId) {
+        VehicleProfile p = vehicles.get(vehicleId);
+        return p != null ? p : vehicles.get(DEFAULT_PROFILE);
+    }
+
+    public static Settings defaults() {
+        return new Settings(ServerSettings.defaults(), FilterSettings.defaults(), GatingSettings.defaults(),
+                OutageSettings.defaults(), OrderingSettings.defaults(), HistorySettings.defaults(), Map.of());
+    }
+}
