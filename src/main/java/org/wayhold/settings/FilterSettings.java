@@ -51,15 +51,15 @@ public record FilterSettings(
         double headingInitMinDistanceM) {
 
     public FilterSettings {
-        Check.positive("filter.wheel_speed_noise_mps", wheelSpeedNoiseMps);
+        Check.nonNegative("filter.wheel_speed_noise_mps", wheelSpeedNoiseMps);
         Check.positive("filter.wheel_speed_rate_hz", wheelSpeedRateHz);
-        Check.positive("filter.gyro_noise_rad_per_s", gyroNoiseRadPerS);
+        Check.nonNegative("filter.gyro_noise_rad_per_s", gyroNoiseRadPerS);
         Check.positive("filter.gyro_rate_hz", gyroRateHz);
         Check.nonNegative("filter.gyro_bias_random_walk_rad_per_s_per_sqrt_s", gyroBiasRandomWalkRadPerSPerSqrtS);
         Check.nonNegative("filter.speed_scale_random_walk_per_sqrt_s", speedScaleRandomWalkPerSqrtS);
-        Check.positive("filter.initial_yaw_sigma_rad", initialYawSigmaRad);
-        Check.positive("filter.initial_gyro_bias_sigma_rad_per_s", initialGyroBiasSigmaRadPerS);
-        Check.positive("filter.initial_speed_scale_sigma", initialSpeedScaleSigma);
+        Check.nonNegative("filter.initial_yaw_sigma_rad", initialYawSigmaRad);
+        Check.nonNegative("filter.initial_gyro_bias_sigma_rad_per_s", initialGyroBiasSigmaRadPerS);
+        Check.nonNegative("filter.initial_speed_scale_sigma", initialSpeedScaleSigma);
         Check.positive("filter.gnss_floor_m", gnssFloorM);
         Check.positive("filter.gnss_range_error_m", gnssRangeErrorM);
         Check.positive("filter.gnss_default_sigma_m", gnssDefaultSigmaM);

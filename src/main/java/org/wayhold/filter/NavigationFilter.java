@@ -1,0 +1,782 @@
+package org.wayhold.filter;
+
+import static org.wayhold.filter.StateIndex.EAST;
+import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
+import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
+import static org.wayhold.filter.StateIndex.GYRO_BIAS;
+import static org.wayhold.filter.StateIndex.NORTH;
+import static org.wayhold.filter.StateIndex.SIZE;
+import static org.wayhold.filter.StateIndex.SPEED_SCALE;
+import static org.wayhold.filter.StateIndex.YAW;
+
+import java.util.Arrays;
+import org.wayhold.geo.Angles;
+import org.wayhold.sample.FixType;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.settings.FilterSettings;
+import org.wayhold.settings.GatingSettings;
+import org.wayhold.settings.OutageSettings;
+import org.wayhold.settings.VehicleProfile;
+
+/**
+ * The extended Kalman filter of one vehicle: wheel speed and yaw rate drive the prediction, GNSS
+ * fixes correct it.
+ *
+ * <p>Events must arrive in time order (the {@code ordering} package sees to that). Each event first
+ * calls {@link #predictTo(double)} with its time; inputs are held from one reading to the next
+ * (zero-order hold). Times are seconds relative to the session epoch.
+ *
+ * <p>Covariance updates use the Joseph form, P = (I - K H) P (I - K H)' + K R K', which keeps P
+ * symmetric and positive semi-definite for any gain (Bucy and Joseph, <i>Filtering for Stochastic
+ * Processes with Applications to Guidance</i>, 1968; Brown and Hwang, 4th ed., sec. 4.2). After every
+ * update P is symmetrised; a non-positive variance is repaired and counted.
+ *
+ * <p>Instances are mutable and not thread-safe: one writer per vehicle. {@link #copy()} and
+ * {@link #restore(NavigationFilter)} take and return to checkpoints for re-filtering late samples.
+ */
+public final class NavigationFilter {
+
+    /** Wheel speeds below this magnitude count as zero (m/s): quantised sensors report exactly 0. */
+    private static final double ZERO_SPEED_MPS = 1e-3;
+    /** Displacement-based initial yaw needs the wheels to say the vehicle is moving (m/s). */
+    private static final double MOVING_SPEED_MPS = 0.5;
+    /** Steps longer than this are split, so the linearised covariance stays close (s). */
+    private static final double MAX_STEP_S = 0.1;
+    /**
+     * Random walk of the height between fixes (m^2/s): a road climbs a few percent, so at motorway
+     * speed the height changes by up to about 0.5 m/s (common practice, not a published figure).
+     */
+    private static final double UP_RANDOM_WALK_M2_PER_S = 0.25;
+
+    private final FilterSettings settings;
+    private final VehicleProfile profile;
+    private final double gateThreshold;
+    private final double gapS;
+    private final int reacquireFixes;
+
+    private final double[] x = new double[SIZE];
+    private final double[] p = new double[SIZE * SIZE];
+    private boolean initialized;
+    private double tRel = Double.NaN;
+
+    private double upM;
+    private double varUpM2 = Double.POSITIVE_INFINITY;
+
+    private double wheelSpeedMps;
+    private double yawRateRadPerS;
+    private boolean hasYawRate;
+    private double zeroSpeedSinceTRel = Double.NaN;
+    private boolean standstill;
+
+    private double correlatedVarM2;
+    private double odometerM;
+    private double lastUsedFixTRel = Double.NaN;
+    private double lastFixTRel = Double.NaN;
+    private double odometerAtLastUsedFixM = Double.NaN;
+    private GnssOutcome lastOutcome;
+
+    /** Initial position anchor while the yaw is still unknown. */
+    private double anchorEastM = Double.NaN;
+    private double anchorNorthM = Double.NaN;
+
+    /** Reacquisition: fixes held back after a gap or a gated fix. */
+    private Probation probation = Probation.NONE;
+    private final double[][] pending;
+    private int pendingCount;
+
+    private long fixesUsed;
+    private long fixesGated;
+    private long fixesPending;
+    private long fixesDropped;
+    private long fixesUnusable;
+    private long velocityGated;
+    private long covarianceRepairs;
+
+    // Work arrays, allocated once so a step allocates nothing.
+    private final double[] xNext = new double[SIZE];
+    private final double[] f = new double[SIZE * SIZE];
+    private final double[] tmp = new double[SIZE * SIZE];
+    private final double[] inputJac = new double[6];
+    private final double[] h = new double[2 * SIZE];
+    private final double[] r = new double[4];
+    private final double[] nu = new double[2];
+    private final double[] ph = new double[SIZE * 2];
+    private final double[] k = new double[SIZE * 2];
+    private final double[] sInv = new double[4];
+
+    private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
+
+    /** Per held fix: east innovation, north innovation, white variance, P_ee, P_nn, time. */
+    private static final int PENDING_FIELDS = 6;
+
+    public NavigationFilter(FilterSettings settings, GatingSettings gating, OutageSettings outage,
+                            VehicleProfile profile) {
+        this.settings = settings;
+        this.profile = profile;
+        this.gateThreshold = ChiSquare.quantile2Dof(gating.chiSquareProbability());
+        this.gapS = outage.gapS();
+        this.reacquireFixes = gating.reacquireFixes();
+        this.pending = new double[reacquireFixes][PENDING_FIELDS];
+        double sigma = settings.gnssDefaultSigmaM();
+        this.correlatedVarM2 = settings.gnssCorrelatedShare() * sigma * sigma;
+    }
+
+    /** A deep copy, for checkpoints. */
+    public NavigationFilter copy() {
+        NavigationFilter c = new NavigationFilter(this);
+        return c;
+    }
+
+    private NavigationFilter(NavigationFilter o) {
+        this.settings = o.settings;
+        this.profile = o.profile;
+        this.gateThreshold = o.gateThreshold;
+        this.gapS = o.gapS;
+        this.reacquireFixes = o.reacquireFixes;
+        this.pending = new double[reacquireFixes][PENDING_FIELDS];
+        restore(o);
+    }
+
+    /** Makes this filter an exact copy of {@code o}, which must share its settings. */
+    public void restore(NavigationFilter o) {
+        System.arraycopy(o.x, 0, x, 0, SIZE);
+        System.arraycopy(o.p, 0, p, 0, SIZE * SIZE);
+        initialized = o.initialized;
+        tRel = o.tRel;
+        upM = o.upM;
+        varUpM2 = o.varUpM2;
+        wheelSpeedMps = o.wheelSpeedMps;
+        yawRateRadPerS = o.yawRateRadPerS;
+        hasYawRate = o.hasYawRate;
+        zeroSpeedSinceTRel = o.zeroSpeedSinceTRel;
+        standstill = o.standstill;
+        correlatedVarM2 = o.correlatedVarM2;
+        odometerM = o.odometerM;
+        lastUsedFixTRel = o.lastUsedFixTRel;
+        lastFixTRel = o.lastFixTRel;
+        odometerAtLastUsedFixM = o.odometerAtLastUsedFixM;
+        lastOutcome = o.lastOutcome;
+        anchorEastM = o.anchorEastM;
+        anchorNorthM = o.anchorNorthM;
+        probation = o.probation;
+        pendingCount = o.pendingCount;
+        for (int i = 0; i < pendingCount; i++) {
+            System.arraycopy(o.pending[i], 0, pending[i], 0, PENDING_FIELDS);
+        }
+        fixesUsed = o.fixesUsed;
+        fixesGated = o.fixesGated;
+        fixesPending = o.fixesPending;
+        fixesDropped = o.fixesDropped;
+        fixesUnusable = o.fixesUnusable;
+        velocityGated = o.velocityGated;
+        covarianceRepairs = o.covarianceRepairs;
+    }
+
+    /**
+     * Starts the filter from a given state and covariance, for tests and for callers that know the
+     * initial pose by other means.
+     *
+     * @param tRelS time (s since epoch)
+     * @param state state vector, layout {@link StateIndex} (copied)
+     * @param cov   covariance, row-major SIZE x SIZE (copied)
+     */
+    public void initialize(double tRelS, double[] state, double[] cov) {
+        System.arraycopy(state, 0, x, 0, SIZE);
+        System.arraycopy(cov, 0, p, 0, SIZE * SIZE);
+        tRel = tRelS;
+        initialized = true;
+        lastUsedFixTRel = tRelS;
+        odometerAtLastUsedFixM = odometerM;
+    }
+
+    /**
+     * Propagates the state to {@code tRelS} with the held inputs.
+     *
+     * @param tRelS time (s since epoch), not before the current time
+     */
+    public void predictTo(double tRelS) {
+        if (Double.isNaN(tRel)) {
+            tRel = tRelS;
+            return;
+        }
+        double dt = tRelS - tRel;
+        if (dt < 0.0) {
+            throw new IllegalStateException("time went back by " + (-dt) + " s: samples must be ordered");
+        }
+        while (dt > 0.0) {
+            double step = Math.min(dt, MAX_STEP_S);
+            propagate(step);
+            dt -= step;
+        }
+        tRel = tRelS;
+    }
+
+    /** Holds a new wheel speed from now on (m/s, signed). Call after {@link #predictTo}. */
+    public void setWheelSpeed(double speedMps) {
+        wheelSpeedMps = speedMps;
+        if (Math.abs(speedMps) < ZERO_SPEED_MPS) {
+            if (Double.isNaN(zeroSpeedSinceTRel)) {
+                zeroSpeedSinceTRel = tRel;
+            }
+            standstill = tRel - zeroSpeedSinceTRel >= settings.standstillAfterS();
+        } else {
+            zeroSpeedSinceTRel = Double.NaN;
+            standstill = false;
+        }
+    }
+
+    /**
+     * Holds a new yaw rate from now on (rad/s, counter-clockwise positive). Call after
+     * {@link #predictTo}. At a standstill the reading observes the gyro bias directly (zero angular
+     * rate update).
+     */
+    public void setYawRate(double rateRadPerS) {
+        yawRateRadPerS = rateRadPerS;
+        hasYawRate = true;
+        if (Math.abs(wheelSpeedMps) < ZERO_SPEED_MPS && !Double.isNaN(zeroSpeedSinceTRel)) {
+            // The standstill time is re-checked here too: the wheel-speed stream may be slower.
+            standstill = tRel - zeroSpeedSinceTRel >= settings.standstillAfterS();
+        }
+        if (initialized && standstill) {
+            zeroRateUpdate(rateRadPerS);
+        }
+    }
+
+    private void zeroRateUpdate(double rateRadPerS) {
+        // Measurement: rate = bias + white noise, so H picks the bias state.
+        Arrays.fill(h, 0, SIZE, 0.0);
+        h[GYRO_BIAS] = 1.0;
+        double sigma = settings.gyroNoiseRadPerS();
+        r[0] = Math.max(sigma * sigma, 1e-12);
+        nu[0] = rateRadPerS - x[GYRO_BIAS];
+        applyUpdate(1);
+    }
+
+    private void propagate(double dt) {
+        odometerM += Math.abs(x[SPEED_SCALE] * wheelSpeedMps) * dt;
+        if (!initialized) {
+            return;
+        }
+        double tau = settings.gnssCorrelationTimeS();
+        double decay = Math.exp(-dt / tau);
+        MotionModel.step(x, wheelSpeedMps, yawRateRadPerS, dt, standstill, decay, xNext, f, inputJac);
+        System.arraycopy(xNext, 0, x, 0, SIZE);
+        x[YAW] = Angles.wrapPi(x[YAW]);
+
+        // P = F P F'
+        multiply(f, p, tmp);
+        multiplyTransposed(tmp, f, p);
+
+        // Q: input noise mapped through the input Jacobian G: a white input of density q held over dt
+        // has variance q / dt, so Q += G G' q / dt (G already carries the factor dt).
+        if (!standstill) {
+            double qWheel = settings.wheelSpeedNoiseMps() * settings.wheelSpeedNoiseMps()
+                    / settings.wheelSpeedRateHz();
+            addOuter(inputJac, 0, qWheel / dt);
+            double qGyro = settings.gyroNoiseRadPerS() * settings.gyroNoiseRadPerS() / settings.gyroRateHz();
+            addOuter(inputJac, 3, qGyro / dt);
+        }
+        double rwBias = settings.gyroBiasRandomWalkRadPerSPerSqrtS();
+        p[GYRO_BIAS * SIZE + GYRO_BIAS] += rwBias * rwBias * dt;
+        double rwScale = settings.speedScaleRandomWalkPerSqrtS();
+        p[SPEED_SCALE * SIZE + SPEED_SCALE] += rwScale * rwScale * dt;
+        // Gauss-Markov driving noise keeps the steady-state variance: sigma^2 (1 - exp(-2 dt / tau)).
+        double qGm = correlatedVarM2 * (1.0 - decay * decay);
+        p[GNSS_ERR_EAST * SIZE + GNSS_ERR_EAST] += qGm;
+        p[GNSS_ERR_NORTH * SIZE + GNSS_ERR_NORTH] += qGm;
+
+        if (Double.isFinite(varUpM2) && !standstill) {
+            varUpM2 += UP_RANDOM_WALK_M2_PER_S * dt;
+        }
+    }
+
+    /** Adds v v' * scale to the (east, north, yaw) block of P, v = three entries of g from offset. */
+    private void addOuter(double[] g, int offset, double scale) {
+        for (int i = 0; i < 3; i++) {
+            double gi = g[offset + i] * scale;
+            if (gi == 0.0) {
+                continue;
+            }
+            for (int j = 0; j < 3; j++) {
+                p[i * SIZE + j] += gi * g[offset + j];
+            }
+        }
+    }
+
+    /**
+     * The 1-sigma horizontal error per axis the filter assumes for a fix (m): {@code sigma_h} when
+     * given, else HDOP times the configured range error, else the configured default; scaled by the
+     * fix type and never below the configured floor.
+     */
+    public double horizontalSigmaM(GnssFix fix) {
+        double sigma;
+        if (fix.hasSigmaH()) {
+            sigma = fix.sigmaHM();
+        } else if (fix.hasHdop()) {
+            sigma = fix.hdop() * settings.gnssRangeErrorM();
+        } else {
+            sigma = settings.gnssDefaultSigmaM();
+        }
+        sigma *= settings.fixScale(fix.fix());
+        return Math.max(sigma, settings.gnssFloorM());
+    }
+
+    /**
+     * Corrects the state with a fix already converted to the session's ENU frame. Call
+     * {@link #predictTo} with the fix time first.
+     *
+     * @param fix    the fix (for its accuracy, type, speed and course)
+     * @param eastM  fix east (m, ENU)
+     * @param northM fix north (m, ENU)
+     * @param upM    fix up (m, ENU), NaN when the fix has no height
+     * @return the decision, never null
+     */
+    public GnssOutcome updateGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+        lastFixTRel = tRel;
+        GnssOutcome outcome = decideGnss(fix, eastM, northM, fixUpM);
+        lastOutcome = outcome;
+        switch (outcome.kind()) {
+            case ACCEPTED, REACQUIRED, INITIALIZING -> {
+                fixesUsed++;
+                lastUsedFixTRel = tRel;
+                odometerAtLastUsedFixM = odometerM;
+            }
+            case GATED -> fixesGated++;
+            case PENDING -> fixesPending++;
+            case UNUSABLE -> fixesUnusable++;
+            default -> throw new IllegalStateException("unhandled outcome " + outcome.kind());
+        }
+        return outcome;
+    }
+
+    private GnssOutcome decideGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+        if (fix.fix() == FixType.NONE) {
+            return new GnssOutcome(GnssOutcome.Kind.UNUSABLE, Double.NaN, Double.NaN);
+        }
+        double sigma = horizontalSigmaM(fix);
+        double var = sigma * sigma;
+        double share = settings.gnssCorrelatedShare();
+        if (!initialized) {
+            return initializeFrom(fix, eastM, northM, fixUpM, var);
+        }
+        correlatedVarM2 = share * var;
+        double whiteVar = (1.0 - share) * var;
+        updateUp(fix, fixUpM, sigma);
+
+        if (probation == Probation.NONE && tRel - lastUsedFixTRel > gapS) {
+            probation = Probation.AFTER_GAP;
+            pendingCount = 0;
+        }
+        double nis = positionInnovation(eastM, northM, whiteVar);
+        boolean passes = nis <= gateThreshold;
+        GnssOutcome.Kind kind;
+        if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
+            if (passes) {
+                applyUpdate(2);
+                probation = Probation.NONE;
+                pendingCount = 0;
+                kind = GnssOutcome.Kind.ACCEPTED;
+            } else {
+                probation = Probation.AFTER_GATE;
+                pendingCount = 0;
+                hold(whiteVar);
+                kind = GnssOutcome.Kind.GATED;
+            }
+        } else {
+            hold(whiteVar);
+            if (pendingCount >= reacquireFixes) {
+                // Enough consecutive fixes agree: take the newest, whatever the gate says, so a filter
+                // that drifted further than its covariance admits is pulled back.
+                applyUpdate(2);
+                probation = Probation.NONE;
+                pendingCount = 0;
+                kind = GnssOutcome.Kind.REACQUIRED;
+            } else {
+                kind = passes || probation == Probation.AFTER_GAP ? GnssOutcome.Kind.PENDING
+                        : GnssOutcome.Kind.GATED;
+            }
+        }
+        if (kind == GnssOutcome.Kind.ACCEPTED || kind == GnssOutcome.Kind.REACQUIRED) {
+            velocityUpdate(fix);
+        }
+        return new GnssOutcome(kind, nis, gateThreshold);
+    }
+
+    /**
+     * Fills H, R and the innovation of a position fix and returns its normalised innovation squared.
+     * The antenna sits at the lever arm (forward, left) rotated by the yaw; the fix also carries the
+     * correlated GNSS error: h(x) = (east, north) + R(yaw) (forward, left) + (error east, error north).
+     */
+    private double positionInnovation(double eastM, double northM, double whiteVar) {
+        double c = Math.cos(x[YAW]);
+        double s = Math.sin(x[YAW]);
+        double fwd = profile.leverArmForwardM();
+        double left = profile.leverArmLeftM();
+        double antEast = x[EAST] + fwd * c - left * s + x[GNSS_ERR_EAST];
+        double antNorth = x[NORTH] + fwd * s + left * c + x[GNSS_ERR_NORTH];
+        Arrays.fill(h, 0.0);
+        h[EAST] = 1.0;
+        h[YAW] = -fwd * s - left * c;
+        h[GNSS_ERR_EAST] = 1.0;
+        h[SIZE + NORTH] = 1.0;
+        h[SIZE + YAW] = fwd * c - left * s;
+        h[SIZE + GNSS_ERR_NORTH] = 1.0;
+        r[0] = whiteVar;
+        r[1] = 0.0;
+        r[2] = 0.0;
+        r[3] = whiteVar;
+        nu[0] = eastM - antEast;
+        nu[1] = northM - antNorth;
+        innovationCovarianceInverse(2);
+        return nu[0] * (sInv[0] * nu[0] + sInv[1] * nu[1]) + nu[1] * (sInv[2] * nu[0] + sInv[3] * nu[1]);
+    }
+
+    /**
+     * Holds the current fix's innovation for the agreement test. Consecutive fixes share the
+     * prediction error, so the difference of two innovations has covariance R1 + R2 plus the process
+     * noise added between them; a difference outside the chi-square gate means they disagree, and the
+     * older ones are dropped.
+     */
+    private void hold(double whiteVar) {
+        double pee = p[EAST * SIZE + EAST];
+        double pnn = p[NORTH * SIZE + NORTH];
+        // Newest first: a disagreement drops that fix and every older one.
+        for (int i = pendingCount - 1; i >= 0; i--) {
+            double[] q = pending[i];
+            double de = nu[0] - q[0];
+            double dn = nu[1] - q[1];
+            double vee = whiteVar + q[2] + Math.abs(pee - q[3]);
+            double vnn = whiteVar + q[2] + Math.abs(pnn - q[4]);
+            if (de * de / vee + dn * dn / vnn > gateThreshold) {
+                int drop = i + 1;
+                fixesDropped += drop;
+                for (int j = 0; j < pendingCount - drop; j++) {
+                    double[] kept = pending[j + drop];
+                    pending[j + drop] = pending[j];
+                    pending[j] = kept;
+                }
+                pendingCount -= drop;
+                break;
+            }
+        }
+        if (pendingCount == reacquireFixes) {
+            // Full and all agree: shift out the oldest.
+            double[] first = pending[0];
+            System.arraycopy(pending, 1, pending, 0, reacquireFixes - 1);
+            pending[reacquireFixes - 1] = first;
+            pendingCount--;
+        }
+        double[] slot = pending[pendingCount++];
+        slot[0] = nu[0];
+        slot[1] = nu[1];
+        slot[2] = whiteVar;
+        slot[3] = pee;
+        slot[4] = pnn;
+        slot[5] = tRel;
+    }
+
+    /**
+     * Course and speed over the ground, when the fix carries them and the vehicle moves fast enough
+     * for the course to mean something. Course noise shrinks with speed (its error is roughly a
+     * velocity error divided by the speed).
+     */
+    private void velocityUpdate(GnssFix fix) {
+        if (!fix.hasSpeed() || !fix.hasCourse() || standstill) {
+            return;
+        }
+        double minSpeed = settings.gnssVelocityMinSpeedMps();
+        if (fix.speedMps() < minSpeed || Math.abs(wheelSpeedMps) < MOVING_SPEED_MPS) {
+            return;
+        }
+        double courseYaw = Angles.headingDegToYawRad(fix.courseDeg());
+        if (wheelSpeedMps < 0.0) {
+            courseYaw = Angles.wrapPi(courseYaw + Math.PI);
+        }
+        double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
+                / fix.speedMps();
+        double speedSigma = settings.gnssSpeedSigmaMps();
+        double absWheel = Math.abs(wheelSpeedMps);
+        Arrays.fill(h, 0.0);
+        h[YAW] = 1.0;
+        h[SIZE + SPEED_SCALE] = absWheel;
+        r[0] = courseSigma * courseSigma;
+        r[1] = 0.0;
+        r[2] = 0.0;
+        r[3] = speedSigma * speedSigma;
+        nu[0] = Angles.wrapPi(courseYaw - x[YAW]);
+        nu[1] = fix.speedMps() - x[SPEED_SCALE] * absWheel;
+        innovationCovarianceInverse(2);
+        double nis = nu[0] * (sInv[0] * nu[0] + sInv[1] * nu[1]) + nu[1] * (sInv[2] * nu[0] + sInv[3] * nu[1]);
+        if (nis > gateThreshold) {
+            velocityGated++;
+            return;
+        }
+        applyUpdate(2);
+    }
+
+    private void updateUp(GnssFix fix, double fixUpM, double sigmaH) {
+        if (Double.isNaN(fixUpM)) {
+            return;
+        }
+        // Vertical GNSS error is commonly about 1.5 times the horizontal one (common practice).
+        double sigmaV = fix.hasSigmaV() ? Math.max(fix.sigmaVM(), settings.gnssFloorM()) : 1.5 * sigmaH;
+        double rv = sigmaV * sigmaV;
+        if (!Double.isFinite(varUpM2)) {
+            upM = fixUpM;
+            varUpM2 = rv;
+            return;
+        }
+        double gain = varUpM2 / (varUpM2 + rv);
+        upM += gain * (fixUpM - upM);
+        varUpM2 = (1.0 - gain) * varUpM2;
+    }
+
+    /**
+     * Until a yaw exists the filter only remembers where the vehicle was. The yaw comes from the GNSS
+     * course when the vehicle moves fast enough, else from the displacement between fixes once it
+     * exceeds the configured distance while the wheels say the vehicle moves.
+     */
+    private GnssOutcome initializeFrom(GnssFix fix, double eastM, double northM, double fixUpM, double var) {
+        updateUp(fix, fixUpM, Math.sqrt(var));
+        double yaw = Double.NaN;
+        double yawVar = Double.NaN;
+        double minSpeed = settings.gnssVelocityMinSpeedMps();
+        if (fix.hasCourse() && fix.hasSpeed() && fix.speedMps() >= minSpeed
+                && Math.abs(wheelSpeedMps) >= MOVING_SPEED_MPS) {
+            yaw = Angles.headingDegToYawRad(fix.courseDeg());
+            if (wheelSpeedMps < 0.0) {
+                yaw = Angles.wrapPi(yaw + Math.PI);
+            }
+            double sigma = Math.max(settings.initialYawSigmaRad(),
+                    Math.toRadians(settings.gnssCourseSigmaDeg()) * minSpeed / fix.speedMps());
+            yawVar = sigma * sigma;
+        } else if (!Double.isNaN(anchorEastM) && Math.abs(wheelSpeedMps) >= MOVING_SPEED_MPS) {
+            double de = eastM - anchorEastM;
+            double dn = northM - anchorNorthM;
+            double dist = Math.hypot(de, dn);
+            if (dist >= settings.headingInitMinDistanceM()) {
+                yaw = Math.atan2(dn, de);
+                if (wheelSpeedMps < 0.0) {
+                    yaw = Angles.wrapPi(yaw + Math.PI);
+                }
+                // Two fixes, each with variance var per axis, across dist: the direction's error.
+                double sigma = Math.atan2(Math.sqrt(2.0 * var), dist);
+                yawVar = Math.max(sigma * sigma, settings.initialYawSigmaRad() * settings.initialYawSigmaRad());
+            }
+        }
+        if (Double.isNaN(yaw)) {
+            if (Double.isNaN(anchorEastM) || Math.abs(wheelSpeedMps) < MOVING_SPEED_MPS) {
+                anchorEastM = eastM;
+                anchorNorthM = northM;
+            }
+            return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+        }
+        double share = settings.gnssCorrelatedShare();
+        double corrVar = share * var;
+        correlatedVarM2 = corrVar;
+        Arrays.fill(x, 0.0);
+        Arrays.fill(p, 0.0);
+        // The fix is position + correlated error + white noise; with the error's estimate at zero, the
+        // position error is (error + noise) and the error state's error is -(error): their covariance
+        // is -sigma_corr^2.
+        double c = Math.cos(yaw);
+        double s = Math.sin(yaw);
+        double fwd = profile.leverArmForwardM();
+        double left = profile.leverArmLeftM();
+        x[EAST] = eastM - (fwd * c - left * s);
+        x[NORTH] = northM - (fwd * s + left * c);
+        x[YAW] = Angles.wrapPi(yaw);
+        x[GYRO_BIAS] = 0.0;
+        x[SPEED_SCALE] = 1.0;
+        p[EAST * SIZE + EAST] = var;
+        p[NORTH * SIZE + NORTH] = var;
+        p[EAST * SIZE + GNSS_ERR_EAST] = -corrVar;
+        p[GNSS_ERR_EAST * SIZE + EAST] = -corrVar;
+        p[NORTH * SIZE + GNSS_ERR_NORTH] = -corrVar;
+        p[GNSS_ERR_NORTH * SIZE + NORTH] = -corrVar;
+        p[GNSS_ERR_EAST * SIZE + GNSS_ERR_EAST] = corrVar;
+        p[GNSS_ERR_NORTH * SIZE + GNSS_ERR_NORTH] = corrVar;
+        p[YAW * SIZE + YAW] = yawVar;
+        double b0 = settings.initialGyroBiasSigmaRadPerS();
+        p[GYRO_BIAS * SIZE + GYRO_BIAS] = b0 * b0;
+        double s0 = settings.initialSpeedScaleSigma();
+        p[SPEED_SCALE * SIZE + SPEED_SCALE] = s0 * s0;
+        initialized = true;
+        probation = Probation.NONE;
+        pendingCount = 0;
+        return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+    }
+
+    /** S = H P H' + R for the first m rows of H; stores PH' in {@code ph} and S^-1 in {@code sInv}. */
+    private void innovationCovarianceInverse(int m) {
+        // PH' (SIZE x m)
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = 0; j < m; j++) {
+                double acc = 0.0;
+                for (int l = 0; l < SIZE; l++) {
+                    acc += p[i * SIZE + l] * h[j * SIZE + l];
+                }
+                ph[i * 2 + j] = acc;
+            }
+        }
+        if (m == 1) {
+            double s00 = r[0];
+            for (int l = 0; l < SIZE; l++) {
+                s00 += h[l] * ph[l * 2];
+            }
+            sInv[0] = 1.0 / s00;
+            return;
+        }
+        // S = H PH' + R (2 x 2), inverted in closed form.
+        double s00 = r[0];
+        double s01 = r[1];
+        double s10 = r[2];
+        double s11 = r[3];
+        for (int l = 0; l < SIZE; l++) {
+            s00 += h[l] * ph[l * 2];
+            s01 += h[l] * ph[l * 2 + 1];
+            s10 += h[SIZE + l] * ph[l * 2];
+            s11 += h[SIZE + l] * ph[l * 2 + 1];
+        }
+        double det = s00 * s11 - s01 * s10;
+        sInv[0] = s11 / det;
+        sInv[1] = -s01 / det;
+        sInv[2] = -s10 / det;
+        sInv[3] = s00 / det;
+    }
+
+    /**
+     * Applies an update whose H (first m rows), R and innovation are filled, with the gain
+     * K = P H' S^-1 and the Joseph-form covariance update.
+     */
+    private void applyUpdate(int m) {
+        innovationCovarianceInverse(m);
+        // K = P H' S^-1 (SIZE x m)
+        for (int i = 0; i < SIZE; i++) {
+            if (m == 1) {
+                k[i * 2] = ph[i * 2] * sInv[0];
+            } else {
+                k[i * 2] = ph[i * 2] * sInv[0] + ph[i * 2 + 1] * sInv[2];
+                k[i * 2 + 1] = ph[i * 2] * sInv[1] + ph[i * 2 + 1] * sInv[3];
+            }
+        }
+        // x = x + K nu
+        for (int i = 0; i < SIZE; i++) {
+            double dx = k[i * 2] * nu[0];
+            if (m == 2) {
+                dx += k[i * 2 + 1] * nu[1];
+            }
+            x[i] += dx;
+        }
+        x[YAW] = Angles.wrapPi(x[YAW]);
+        // A = I - K H, stored in f
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = 0; j < SIZE; j++) {
+                double kh = k[i * 2] * h[j];
+                if (m == 2) {
+                    kh += k[i * 2 + 1] * h[SIZE + j];
+                }
+                f[i * SIZE + j] = (i == j ? 1.0 : 0.0) - kh;
+            }
+        }
+        // P = A P A' + K R K'
+        multiply(f, p, tmp);
+        multiplyTransposed(tmp, f, p);
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = 0; j < SIZE; j++) {
+                double krk;
+                if (m == 1) {
+                    krk = k[i * 2] * r[0] * k[j * 2];
+                } else {
+                    double a0 = k[i * 2] * r[0] + k[i * 2 + 1] * r[2];
+                    double a1 = k[i * 2] * r[1] + k[i * 2 + 1] * r[3];
+                    krk = a0 * k[j * 2] + a1 * k[j * 2 + 1];
+                }
+                p[i * SIZE + j] += krk;
+            }
+        }
+        symmetrizeAndCheck();
+    }
+
+    private void symmetrizeAndCheck() {
+        boolean repaired = false;
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = i + 1; j < SIZE; j++) {
+                double avg = 0.5 * (p[i * SIZE + j] + p[j * SIZE + i]);
+                p[i * SIZE + j] = avg;
+                p[j * SIZE + i] = avg;
+            }
+            if (!(p[i * SIZE + i] >= 0.0)) {
+                p[i * SIZE + i] = 1e-12;
+                repaired = true;
+            }
+        }
+        if (repaired) {
+            covarianceRepairs++;
+        }
+    }
+
+    /** c = a b for SIZE x SIZE row-major matrices. */
+    private static void multiply(double[] a, double[] b, double[] c) {
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = 0; j < SIZE; j++) {
+                double acc = 0.0;
+                for (int l = 0; l < SIZE; l++) {
+                    acc += a[i * SIZE + l] * b[l * SIZE + j];
+                }
+                c[i * SIZE + j] = acc;
+            }
+        }
+    }
+
+    /** c = a b' for SIZE x SIZE row-major matrices. */
+    private static void multiplyTransposed(double[] a, double[] b, double[] c) {
+        for (int i = 0; i < SIZE; i++) {
+            for (int j = 0; j < SIZE; j++) {
+                double acc = 0.0;
+                for (int l = 0; l < SIZE; l++) {
+                    acc += a[i * SIZE + l] * b[j * SIZE + l];
+                }
+                c[i * SIZE + j] = acc;
+            }
+        }
+    }
+
+    public boolean initialized() {
+        return initialized;
+    }
+
+    /** Time of the estimate (s since epoch), NaN before the first event. */
+    public double tRel() {
+        return tRel;
+    }
+
+    /** A copy of the state vector, layout {@link StateIndex}. */
+    public double[] state() {
+        return x.clone();
+    }
+
+    /** A copy of the covariance, row-major SIZE x SIZE. */
+    public double[] covariance() {
+        return p.clone();
+    }
+
+    /** The chi-square gate applied to fixes (unitless). */
+    public double gateThreshold() {
+        return gateThreshold;
+    }
+
+    /** An immutable copy of the current estimate. */
+    public FilterSnapshot snapshot() {
+        double speed = x[SPEED_SCALE] * wheelSpeedMps;
+        double rate = standstill || !hasYawRate ? 0.0 : yawRateRadPerS - x[GYRO_BIAS];
+        return new FilterSnapshot(tRel, initialized, x[EAST], x[NORTH], Double.isFinite(varUpM2) ? upM : 0.0,
+                x[YAW], x[GYRO_BIAS], initialized ? x[SPEED_SCALE] : 1.0, x[GNSS_ERR_EAST], x[GNSS_ERR_NORTH],
+                p[EAST * SIZE + EAST], p[EAST * SIZE + NORTH], p[NORTH * SIZE + NORTH], p[YAW * SIZE + YAW],
+                p[GYRO_BIAS * SIZE + GYRO_BIAS], p[SPEED_SCALE * SIZE + SPEED_SCALE],
+                Double.isFinite(varUpM2) ? varUpM2 : Double.NaN, initialized ? speed : wheelSpeedMps, rate,
+                standstill, odometerM, lastUsedFixTRel, lastFixTRel, lastOutcome, odometerAtLastUsedFixM,
+                new FilterCounts(fixesUsed, fixesGated, fixesPending, fixesDropped, fixesUnusable, velocityGated,
+                        covarianceRepairs));
+    }
+}

@@ -1,0 +1,236 @@
+package org.wayhold.ordering;
+
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Collections;
+import java.util.Deque;
+import java.util.Iterator;
+import java.util.List;
+import java.util.Locale;
+import org.wayhold.sample.Sample;
+import org.wayhold.settings.OrderingSettings;
+
+/**
+ * Applies a vehicle's samples to a {@link Replayable} in time order although they may arrive out of
+ * order.
+ *
+ * <p>It keeps the samples of the last {@code max_lag_s} and checkpoints of the consumer every
+ * {@link #CHECKPOINT_INTERVAL_S}. A batch whose earliest sample is older than the newest applied one
+ * returns the consumer to the newest checkpoint before that sample and re-applies the kept samples
+ * merged with the new ones, so the outcome is identical to in-order processing. A batch costs at most
+ * one such rewind. Not thread-safe: one writer per vehicle.
+ *
+ * @param <C> the consumer's checkpoint type
+ */
+public final class ReorderBuffer<C> {
+
+    /** Spacing of checkpoints on the vehicle's clock (s): a rewind re-applies at most this much more. */
+    public static final double CHECKPOINT_INTERVAL_S = 0.25;
+
+    private final Replayable<C> consumer;
+    private final double maxLagS;
+    private final double maxForwardJumpS;
+
+    /** Applied samples since the oldest checkpoint, in order. */
+    private final ArrayList<Sample> kept = new ArrayList<>();
+    /** Checkpoints, oldest first; each knows how many kept samples preceded it. */
+    private final Deque<Mark<C>> marks = new ArrayDeque<>();
+    private final int markLimit;
+    private Sample newest;
+    private long duplicates;
+    private long rejected;
+    private long rewinds;
+
+    private record Mark<C>(C state, int keptBefore, double lastT) {
+    }
+
+    public ReorderBuffer(Replayable<C> consumer, OrderingSettings settings) {
+        this.consumer = consumer;
+        this.maxLagS = settings.maxLagS();
+        this.maxForwardJumpS = settings.maxForwardJumpS();
+        // Twice the checkpoints the window needs, so trimming inside a long batch is amortised.
+        this.markLimit = 2 * (int) Math.ceil(maxLagS / CHECKPOINT_INTERVAL_S) + 8;
+    }
+
+    /**
+     * Admits a batch of samples of one vehicle.
+     *
+     * @return one admission per sample, in the order given
+     */
+    public List<Admission> submit(List<? extends Sample> batch) {
+        Admission[] result = new Admission[batch.size()];
+        Integer[] order = new Integer[batch.size()];
+        for (int i = 0; i < order.length; i++) {
+            order[i] = i;
+        }
+        Arrays.sort(order, (a, b) -> SampleOrder.BY_TIME_THEN_TYPE.compare(batch.get(a), batch.get(b)));
+
+        List<Sample> fresh = new ArrayList<>();
+        double newestT = newest == null ? Double.NaN : newest.t();
+        for (Integer idx : order) {
+            Sample s = batch.get(idx);
+            Admission a = admit(s, newestT, fresh);
+            result[idx] = a;
+            if (a.kind() == Admission.Kind.APPLIED) {
+                fresh.add(s);
+                if (Double.isNaN(newestT) || s.t() > newestT) {
+                    newestT = s.t();
+                }
+            } else if (a.kind() == Admission.Kind.DUPLICATE) {
+                duplicates++;
+            } else {
+                rejected++;
+            }
+        }
+        if (!fresh.isEmpty()) {
+            merge(fresh);
+            trim();
+        }
+        return List.of(result);
+    }
+
+    private Admission admit(Sample s, double newestT, List<Sample> fresh) {
+        if (!Double.isNaN(newestT)) {
+            double lateS = newestT - s.t();
+            if (lateS > maxLagS) {
+                return Admission.rejected(String.format(Locale.ROOT,
+                        "t: late by %.3f s, more than the reorder window of %.3f s", lateS, maxLagS));
+            }
+            if (-lateS > maxForwardJumpS) {
+                return Admission.rejected(String.format(Locale.ROOT,
+                        "t: %.3f s ahead of the session's newest sample, more than the allowed %.3f s",
+                        -lateS, maxForwardJumpS));
+            }
+        }
+        if (containsEqual(kept, s) || containsEqual(fresh, s)) {
+            return Admission.DUPLICATE;
+        }
+        return Admission.APPLIED;
+    }
+
+    /** True when an equal sample is in the sorted list (binary search on the order, then equals). */
+    private static boolean containsEqual(List<Sample> sorted, Sample s) {
+        int i = Collections.binarySearch(sorted, s, SampleOrder.BY_TIME_THEN_TYPE);
+        if (i < 0) {
+            return false;
+        }
+        for (int j = i; j >= 0 && SampleOrder.BY_TIME_THEN_TYPE.compare(sorted.get(j), s) == 0; j--) {
+            if (sorted.get(j).equals(s)) {
+                return true;
+            }
+        }
+        for (int j = i + 1; j < sorted.size() && SampleOrder.BY_TIME_THEN_TYPE.compare(sorted.get(j), s) == 0; j++) {
+            if (sorted.get(j).equals(s)) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    private void merge(List<Sample> fresh) {
+        Sample first = fresh.get(0);
+        if (newest == null || SampleOrder.BY_TIME_THEN_TYPE.compare(first, newest) >= 0) {
+            for (Sample s : fresh) {
+                applyAndKeep(s);
+            }
+            return;
+        }
+        // Return to the newest checkpoint whose last applied sample is not after the earliest new one.
+        rewinds++;
+        Mark<C> mark = null;
+        Iterator<Mark<C>> it = marks.descendingIterator();
+        while (it.hasNext()) {
+            Mark<C> m = it.next();
+            if (m.keptBefore == 0 || SampleOrder.BY_TIME_THEN_TYPE.compare(kept.get(m.keptBefore - 1), first) <= 0) {
+                mark = m;
+                break;
+            }
+        }
+        if (mark == null) {
+            throw new IllegalStateException("no checkpoint before t = " + first.t() + " s; trim kept too little");
+        }
+        while (marks.peekLast() != mark) {
+            marks.removeLast();
+        }
+        consumer.restore(mark.state);
+        List<Sample> replay = new ArrayList<>(kept.subList(mark.keptBefore, kept.size()));
+        kept.subList(mark.keptBefore, kept.size()).clear();
+        newest = mark.keptBefore == 0 ? null : kept.get(mark.keptBefore - 1);
+        // Merge: at equal order keys the sample applied earlier goes first (arrival order).
+        int a = 0;
+        int b = 0;
+        while (a < replay.size() || b < fresh.size()) {
+            Sample next;
+            if (b >= fresh.size()
+                    || (a < replay.size() && SampleOrder.BY_TIME_THEN_TYPE.compare(replay.get(a), fresh.get(b)) <= 0)) {
+                next = replay.get(a++);
+            } else {
+                next = fresh.get(b++);
+            }
+            applyAndKeep(next);
+        }
+    }
+
+    private void applyAndKeep(Sample s) {
+        Mark<C> last = marks.peekLast();
+        if (last == null || s.t() - last.lastT >= CHECKPOINT_INTERVAL_S) {
+            double lastT = newest == null ? Double.NEGATIVE_INFINITY : newest.t();
+            if (last == null || last.keptBefore != kept.size()) {
+                marks.addLast(new Mark<>(consumer.checkpoint(), kept.size(), lastT));
+            }
+        }
+        consumer.apply(s);
+        kept.add(s);
+        newest = s;
+        if (marks.size() > markLimit) {
+            trim();
+        }
+    }
+
+    /**
+     * Drops checkpoints and samples no late sample can need: keeps the newest checkpoint at or before
+     * (newest - max_lag) and everything after it.
+     */
+    private void trim() {
+        double horizon = newest.t() - maxLagS;
+        while (marks.size() > 1) {
+            Iterator<Mark<C>> it = marks.iterator();
+            it.next();
+            Mark<C> second = it.next();
+            if (second.lastT <= horizon) {
+                marks.removeFirst();
+            } else {
+                break;
+            }
+        }
+        Mark<C> oldest = marks.peekFirst();
+        int drop = oldest.keptBefore;
+        if (drop > 0) {
+            kept.subList(0, drop).clear();
+            Deque<Mark<C>> shifted = new ArrayDeque<>(marks.size());
+            for (Mark<C> m : marks) {
+                shifted.addLast(new Mark<>(m.state, m.keptBefore - drop, m.lastT));
+            }
+            marks.clear();
+            marks.addAll(shifted);
+        }
+    }
+
+    /** Time of the newest applied sample (s, vehicle clock), NaN before any. */
+    public double newestT() {
+        return newest == null ? Double.NaN : newest.t();
+    }
+
+    public long duplicates() {
+        return duplicates;
+    }
+
+    public long rejected() {
+        return rejected;
+    }
+
+    public long rewinds() {
+        return rewinds;
+    }
+}

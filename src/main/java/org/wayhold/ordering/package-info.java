@@ -1,0 +1,9 @@
+/**
+ * Per-vehicle time ordering. Samples of one vehicle may arrive out of order (GNSS latency, separate
+ * HTTP batches per stream); samples up to {@code max_lag_s} older than the newest are applied in time
+ * order by returning to a checkpoint and re-filtering, so the result equals in-order processing.
+ *
+ * <p>Times are seconds on the vehicle's clock. Order is by time, then by sample type (wheel speed,
+ * yaw rate, GNSS, reference), then by arrival.
+ */
+package org.wayhold.ordering;

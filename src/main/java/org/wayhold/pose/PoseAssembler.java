@@ -1,0 +1,78 @@
+package org.wayhold.pose;
+
+import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.GnssOutcome;
+import org.wayhold.geo.Angles;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.geo.LocalFrame;
+import org.wayhold.settings.OutageSettings;
+
+/**
+ * Turns a filter snapshot into a pose: navigation state, outage, ellipse, geodetic position.
+ *
+ * <p>The state follows the contract: {@code initializing} until a position and a yaw exist;
+ * {@code aided} while the last usable fix is at most the gap old and the last fix was not rejected;
+ * {@code degraded} while fixes arrive but are rejected or unusable; {@code bridging} while no usable
+ * fix has come for longer than the gap and the 95% radius is within the alert limit; {@code unreliable}
+ * once that radius passes the alert limit with no usable fix.
+ */
+public final class PoseAssembler {
+
+    private final OutageSettings outage;
+
+    public PoseAssembler(OutageSettings outage) {
+        this.outage = outage;
+    }
+
+    /** The navigation state of a snapshot with its ellipse. */
+    public NavState classify(FilterSnapshot s, Ellipse95 ellipse) {
+        if (!s.initialized()) {
+            return NavState.INITIALIZING;
+        }
+        double sinceUsed = s.tRel() - s.lastUsedFixTRel();
+        boolean lastRejected = s.lastOutcome() != null
+                && (s.lastOutcome().kind() == GnssOutcome.Kind.GATED
+                || s.lastOutcome().kind() == GnssOutcome.Kind.UNUSABLE);
+        boolean fixesArriving = s.tRel() - s.lastFixTRel() <= outage.gapS();
+        if (sinceUsed <= outage.gapS()) {
+            return lastRejected ? NavState.DEGRADED : NavState.AIDED;
+        }
+        if (ellipse.semiMajorM() > outage.alertLimitM()) {
+            return NavState.UNRELIABLE;
+        }
+        return lastRejected && fixesArriving ? NavState.DEGRADED : NavState.BRIDGING;
+    }
+
+    /**
+     * Builds the pose of a snapshot.
+     *
+     * @param s      the filter's snapshot
+     * @param epochT the session epoch (s, vehicle clock) that the snapshot's times are relative to
+     * @param frame  the session's ENU frame, null before the first fix
+     */
+    public Pose assemble(FilterSnapshot s, double epochT, LocalFrame frame) {
+        Ellipse95 ellipse = Ellipse95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2());
+        NavState state = classify(s, ellipse);
+        Outage out = Outage.NONE;
+        if (s.initialized() && s.tRel() - s.lastUsedFixTRel() > outage.gapS()) {
+            out = new Outage(true, epochT + s.lastUsedFixTRel(), s.tRel() - s.lastUsedFixTRel(),
+                    s.odometerM() - s.odometerAtLastUsedFixM());
+        }
+        double lat = Double.NaN;
+        double lon = Double.NaN;
+        double alt = Double.NaN;
+        Geodetic origin = null;
+        if (frame != null) {
+            Geodetic g = frame.toGeodetic(s.eastM(), s.northM(), s.upM());
+            lat = g.latDeg();
+            lon = g.lonDeg();
+            alt = g.altM();
+            origin = frame.origin();
+        }
+        double headingSigmaDeg = Math.toDegrees(Math.sqrt(Math.max(s.varYawRad2(), 0.0)));
+        return new Pose(epochT + s.tRel(), lat, lon, alt, s.eastM(), s.northM(), s.upM(),
+                Angles.yawRadToHeadingDeg(s.yawRad()), s.speedMps(), s.yawRateRadPerS(), s.covEastEastM2(),
+                s.covEastNorthM2(), s.covNorthNorthM2(), headingSigmaDeg, ellipse, state, out,
+                s.gyroBiasRadPerS(), s.speedScale(), origin);
+    }
+}

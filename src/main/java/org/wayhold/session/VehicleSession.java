@@ -1,0 +1,207 @@
+package org.wayhold.session;
+
+import java.util.List;
+import java.util.Optional;
+import java.util.concurrent.CopyOnWriteArrayList;
+import java.util.function.Consumer;
+import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.NavigationFilter;
+import org.wayhold.geo.Enu;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.geo.LocalFrame;
+import org.wayhold.ordering.Admission;
+import org.wayhold.ordering.ReorderBuffer;
+import org.wayhold.ordering.Replayable;
+import org.wayhold.pose.Pose;
+import org.wayhold.pose.PoseAssembler;
+import org.wayhold.pose.PoseHistory;
+import org.wayhold.sample.FixType;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.ReferencePoint;
+import org.wayhold.sample.Sample;
+import org.wayhold.sample.WheelSpeed;
+import org.wayhold.sample.YawRate;
+import org.wayhold.settings.Settings;
+
+/**
+ * One vehicle: samples in, in time order, through the filter, to poses and a bounded history.
+ *
+ * <p>Thread-safety: {@link #submit} and the history queries are serialised on this object (one
+ * writer per vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest.
+ */
+public final class VehicleSession {
+
+    private final String vehicleId;
+    private final Settings settings;
+    private final Geodetic configuredOrigin;
+    private final PoseAssembler assembler;
+    private final PoseHistory history;
+    private final Pipeline pipeline;
+    private final ReorderBuffer<Checkpoint> ordering;
+    private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+
+    private double epochT = Double.NaN;
+    private volatile Pose latest;
+    private volatile long version;
+    private final long[] appliedByType = new long[4];
+
+    /**
+     * @param vehicleId        the vehicle's id
+     * @param settings         filter, gating, outage, ordering and history settings
+     * @param configuredOrigin ENU origin to use instead of the first fix, or null
+     */
+    public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin) {
+        this.vehicleId = vehicleId;
+        this.settings = settings;
+        this.configuredOrigin = configuredOrigin;
+        this.assembler = new PoseAssembler(settings.outage());
+        this.history = new PoseHistory(settings.history().maxPoses());
+        this.pipeline = new Pipeline(new NavigationFilter(settings.filter(), settings.gating(), settings.outage(),
+                settings.profileFor(vehicleId)));
+        this.ordering = new ReorderBuffer<>(pipeline, settings.ordering());
+    }
+
+    public String vehicleId() {
+        return vehicleId;
+    }
+
+    /**
+     * Admits a batch of samples.
+     *
+     * @return one admission per sample, in the order given
+     */
+    public synchronized List<Admission> submit(List<? extends Sample> samples) {
+        if (samples.isEmpty()) {
+            return List.of();
+        }
+        if (Double.isNaN(epochT)) {
+            double first = Double.POSITIVE_INFINITY;
+            for (Sample s : samples) {
+                first = Math.min(first, s.t());
+            }
+            epochT = Math.floor(first);
+        }
+        List<Admission> result = ordering.submit(samples);
+        refreshLatest();
+        return result;
+    }
+
+    private void refreshLatest() {
+        if (Double.isNaN(epochT) || Double.isNaN(pipeline.filter.tRel())) {
+            return;
+        }
+        latest = assembler.assemble(pipeline.filter.snapshot(), epochT, pipeline.frame);
+        version++;
+    }
+
+    /** Registers a listener called with every pose added to the history (from the writer's thread). */
+    public void addListener(Consumer<Pose> listener) {
+        listeners.add(listener);
+    }
+
+    public void removeListener(Consumer<Pose> listener) {
+        listeners.remove(listener);
+    }
+
+    /** The newest pose, empty before the first sample. */
+    public Optional<Pose> latest() {
+        return Optional.ofNullable(latest);
+    }
+
+    /** Changes whenever {@link #latest()} may have changed (for HTTP entity tags). */
+    public long version() {
+        return version;
+    }
+
+    /** The newest pose at or before {@code tS} from the history. */
+    public synchronized Optional<Pose> at(double tS) {
+        return history.at(tS);
+    }
+
+    /** Poses from the history with fromS <= t <= toS. */
+    public synchronized List<Pose> track(double fromS, double toS) {
+        return history.between(fromS, toS);
+    }
+
+    /** A consistent set of counters for metrics and the vehicle list. */
+    public synchronized SessionStats stats() {
+        FilterSnapshot s = pipeline.filter.snapshot();
+        return new SessionStats(appliedByType[0], appliedByType[1], appliedByType[2], appliedByType[3],
+                ordering.duplicates(), ordering.rejected(), ordering.rewinds(), s.counts(), history.size());
+    }
+
+    /** Everything a checkpoint must bring back. */
+    private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
+                              long[] appliedByType) {
+    }
+
+    /** The in-order part: time ordering calls it sample by sample. */
+    private final class Pipeline implements Replayable<Checkpoint> {
+        private final NavigationFilter filter;
+        private LocalFrame frame;
+        private double lastHistoryTRel = Double.NEGATIVE_INFINITY;
+
+        Pipeline(NavigationFilter filter) {
+            this.filter = filter;
+        }
+
+        @Override
+        public void apply(Sample sample) {
+            double tRel = sample.t() - epochT;
+            filter.predictTo(tRel);
+            boolean fix = false;
+            if (sample instanceof WheelSpeed w) {
+                filter.setWheelSpeed(w.speedMps());
+                appliedByType[0]++;
+            } else if (sample instanceof YawRate y) {
+                filter.setYawRate(y.yawRateRadPerS());
+                appliedByType[1]++;
+            } else if (sample instanceof GnssFix g) {
+                applyFix(g);
+                fix = true;
+                appliedByType[2]++;
+            } else if (sample instanceof ReferencePoint) {
+                // Reference points are for scoring only and never reach the filter.
+                appliedByType[3]++;
+                return;
+            }
+            if (frame != null && (fix || tRel - lastHistoryTRel >= settings.history().intervalS())) {
+                Pose pose = assembler.assemble(filter.snapshot(), epochT, frame);
+                history.add(pose);
+                lastHistoryTRel = tRel;
+                for (Consumer<Pose> l : listeners) {
+                    l.accept(pose);
+                }
+            }
+        }
+
+        private void applyFix(GnssFix g) {
+            if (frame == null && g.fix() != FixType.NONE) {
+                frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
+                        : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
+            }
+            if (frame == null) {
+                filter.updateGnss(g, Double.NaN, Double.NaN, Double.NaN);
+                return;
+            }
+            double alt = g.hasAlt() ? g.altM() : frame.origin().altM();
+            Enu enu = frame.toEnu(g.latDeg(), g.lonDeg(), alt);
+            filter.updateGnss(g, enu.eastM(), enu.northM(), g.hasAlt() ? enu.upM() : Double.NaN);
+        }
+
+        @Override
+        public Checkpoint checkpoint() {
+            return new Checkpoint(filter.copy(), frame, lastHistoryTRel, appliedByType.clone());
+        }
+
+        @Override
+        public void restore(Checkpoint c) {
+            filter.restore(c.filter);
+            frame = c.frame;
+            lastHistoryTRel = c.lastHistoryTRel;
+            System.arraycopy(c.appliedByType, 0, appliedByType, 0, appliedByType.length);
+            double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
+            history.truncateAfter(t);
+        }
+    }
+}
