@@ -117,8 +117,8 @@ public final class NavigationFilter {
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
-    /** Per held fix: east innovation, north innovation, white variance, P_ee, P_nn, time. */
-    private static final int PENDING_FIELDS = 6;
+    /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
+    private static final int PENDING_FIELDS = 5;
 
     public NavigationFilter(FilterSettings settings, GatingSettings gating, OutageSettings outage,
                             VehicleProfile profile) {
@@ -450,21 +450,23 @@ public final class NavigationFilter {
 
     /**
      * Holds the current fix's innovation for the agreement test. Consecutive fixes share the
-     * prediction error, so the difference of two innovations has covariance R1 + R2 plus the process
-     * noise added between them; a difference outside the chi-square gate means they disagree, and the
-     * older ones are dropped.
+     * prediction error, so the difference of two innovations only carries the fixes' white noise, the
+     * change of the correlated GNSS error between them, and the error of the relative motion the wheels
+     * and gyro predicted: distance driven times the yaw and scale uncertainty. A difference outside the
+     * chi-square gate means they disagree, and the older ones are dropped.
      */
     private void hold(double whiteVar) {
-        double pee = p[EAST * SIZE + EAST];
-        double pnn = p[NORTH * SIZE + NORTH];
+        double relVarPerM2 = Math.max(p[YAW * SIZE + YAW], 0.0) + Math.max(p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0);
         // Newest first: a disagreement drops that fix and every older one.
         for (int i = pendingCount - 1; i >= 0; i--) {
             double[] q = pending[i];
             double de = nu[0] - q[0];
             double dn = nu[1] - q[1];
-            double vee = whiteVar + q[2] + Math.abs(pee - q[3]);
-            double vnn = whiteVar + q[2] + Math.abs(pnn - q[4]);
-            if (de * de / vee + dn * dn / vnn > gateThreshold) {
+            double driven = odometerM - q[3];
+            double gmChange = 2.0 * correlatedVarM2
+                    * (1.0 - Math.exp(-(tRel - q[4]) / settings.gnssCorrelationTimeS()));
+            double v = whiteVar + q[2] + driven * driven * relVarPerM2 + gmChange;
+            if ((de * de + dn * dn) / v > gateThreshold) {
                 int drop = i + 1;
                 fixesDropped += drop;
                 for (int j = 0; j < pendingCount - drop; j++) {
@@ -487,9 +489,8 @@ public final class NavigationFilter {
         slot[0] = nu[0];
         slot[1] = nu[1];
         slot[2] = whiteVar;
-        slot[3] = pee;
-        slot[4] = pnn;
-        slot[5] = tRel;
+        slot[3] = odometerM;
+        slot[4] = tRel;
     }
 
     /**
