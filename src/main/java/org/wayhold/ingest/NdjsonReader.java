@@ -5,6 +5,7 @@ import com.fasterxml.jackson.core.JsonFactoryBuilder;
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonProcessingException;
 import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.core.StreamReadFeature;
 import com.fasterxml.jackson.core.json.JsonReadFeature;
 import java.io.BufferedInputStream;
 import java.io.IOException;
@@ -50,9 +51,14 @@ public final class NdjsonReader {
 
     private static final byte[] UTF8_BOM = {(byte) 0xEF, (byte) 0xBB, (byte) 0xBF};
 
-    /** Non-numeric numbers are allowed so they reach the decoder and are rejected by field name. */
+    /**
+     * Non-numeric numbers are allowed so they reach the decoder and are rejected by field name. The fast
+     * double parser (Lemire's algorithm as ported in jackson-core) gives the same correctly rounded double
+     * as {@link Double#parseDouble(String)}, in a fraction of the time.
+     */
     private static final JsonFactory FACTORY = new JsonFactoryBuilder()
             .enable(JsonReadFeature.ALLOW_NON_NUMERIC_NUMBERS)
+            .enable(StreamReadFeature.USE_FAST_DOUBLE_PARSER)
             .build();
 
     private final int maxLineBytes;
