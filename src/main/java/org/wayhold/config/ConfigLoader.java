@@ -302,12 +302,10 @@ public final class ConfigLoader {
             JsonNode profiles = mapping(key);
             // Learn the profile keys even when no vehicle is configured, for knownKeys().
             new Section(pathOf(key) + ".*", MissingNode.getInstance(), source, leaves).read(build);
+            Section byName = new Section(pathOf(key), profiles, source, new ArrayList<>());
             Map<String, VehicleProfile> result = new LinkedHashMap<>();
-            Iterator<Map.Entry<String, JsonNode>> entries = profiles.fields();
-            while (entries.hasNext()) {
-                Map.Entry<String, JsonNode> e = entries.next();
-                result.put(e.getKey(), new Section(pathOf(key), profiles, source, new ArrayList<>())
-                        .section(e.getKey(), build));
+            for (Map.Entry<String, JsonNode> e : profiles.properties()) {
+                result.put(e.getKey(), byName.section(e.getKey(), build));
             }
             return result;
         }

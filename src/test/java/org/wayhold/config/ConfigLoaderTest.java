@@ -9,7 +9,6 @@ import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.Iterator;
 import java.util.List;
 import java.util.Map;
 import java.util.function.Function;
@@ -70,9 +69,7 @@ class ConfigLoaderTest {
     }
 
     private static void flatten(String prefix, JsonNode node, List<String> out) {
-        Iterator<Map.Entry<String, JsonNode>> fields = node.fields();
-        while (fields.hasNext()) {
-            Map.Entry<String, JsonNode> e = fields.next();
+        for (Map.Entry<String, JsonNode> e : node.properties()) {
             String path = prefix.isEmpty() ? e.getKey() : prefix + "." + e.getKey();
             if (e.getValue().isObject()) {
                 flatten(path, e.getValue(), out);
