@@ -82,7 +82,8 @@ public final class NavigationFilter {
     private double lastUsedFixTRel = Double.NaN;
     private double lastFixTRel = Double.NaN;
     private double odometerAtLastUsedFixM = Double.NaN;
-    private GnssOutcome lastOutcome;
+    private GnssOutcome.Kind lastKind;
+    private double lastNis = Double.NaN;
 
     /** Initial position anchor while the yaw is still unknown. */
     private double anchorEastM = Double.NaN;
@@ -166,7 +167,8 @@ public final class NavigationFilter {
         lastUsedFixTRel = o.lastUsedFixTRel;
         lastFixTRel = o.lastFixTRel;
         odometerAtLastUsedFixM = o.odometerAtLastUsedFixM;
-        lastOutcome = o.lastOutcome;
+        lastKind = o.lastKind;
+        lastNis = o.lastNis;
         anchorEastM = o.anchorEastM;
         anchorNorthM = o.anchorNorthM;
         anchorOdometerM = o.anchorOdometerM;
@@ -345,10 +347,20 @@ public final class NavigationFilter {
      * @return the decision, never null
      */
     public GnssOutcome updateGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+        GnssOutcome.Kind kind = correct(fix, eastM, northM, fixUpM);
+        return outcome(kind, lastNis);
+    }
+
+    /**
+     * As {@link #updateGnss} but returns only the decision, allocating nothing: the hot path of
+     * replays. The normalised innovation squared is {@link #lastNis()}.
+     */
+    public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double fixUpM) {
         lastFixTRel = tRel;
-        GnssOutcome outcome = decideGnss(fix, eastM, northM, fixUpM);
-        lastOutcome = outcome;
-        switch (outcome.kind()) {
+        lastNis = Double.NaN;
+        GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, fixUpM);
+        lastKind = kind;
+        switch (kind) {
             case ACCEPTED, REACQUIRED, INITIALIZING -> {
                 fixesUsed++;
                 lastUsedFixTRel = tRel;
@@ -357,14 +369,23 @@ public final class NavigationFilter {
             case GATED -> fixesGated++;
             case PENDING -> fixesPending++;
             case UNUSABLE -> fixesUnusable++;
-            default -> throw new IllegalStateException("unhandled outcome " + outcome.kind());
+            default -> throw new IllegalStateException("unhandled outcome " + kind);
         }
-        return outcome;
+        return kind;
     }
 
-    private GnssOutcome decideGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+    /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
+    public double lastNis() {
+        return lastNis;
+    }
+
+    private GnssOutcome outcome(GnssOutcome.Kind kind, double nis) {
+        return new GnssOutcome(kind, nis, Double.isNaN(nis) ? Double.NaN : gateThreshold);
+    }
+
+    private GnssOutcome.Kind decideGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
         if (fix.fix() == FixType.NONE) {
-            return new GnssOutcome(GnssOutcome.Kind.UNUSABLE, Double.NaN, Double.NaN);
+            return GnssOutcome.Kind.UNUSABLE;
         }
         double sigma = horizontalSigmaM(fix);
         double var = sigma * sigma;
@@ -381,6 +402,7 @@ public final class NavigationFilter {
             pendingCount = 0;
         }
         double nis = positionInnovation(eastM, northM, whiteVar);
+        lastNis = nis;
         boolean passes = nis <= gateThreshold;
         GnssOutcome.Kind kind;
         if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
@@ -399,7 +421,7 @@ public final class NavigationFilter {
             hold(whiteVar);
             if (pendingCount >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible())) {
                 reset(eastM, northM);
-                return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, nis, gateThreshold);
+                return GnssOutcome.Kind.INITIALIZING;
             }
             if (pendingCount >= reacquireFixes) {
                 // Enough consecutive fixes agree: take the newest, whatever the gate says, so a filter
@@ -416,7 +438,7 @@ public final class NavigationFilter {
         if (kind == GnssOutcome.Kind.ACCEPTED || kind == GnssOutcome.Kind.REACQUIRED) {
             velocityUpdate(fix);
         }
-        return new GnssOutcome(kind, nis, gateThreshold);
+        return kind;
     }
 
     /**
@@ -554,7 +576,7 @@ public final class NavigationFilter {
      * course when the vehicle moves fast enough, else from the displacement between fixes once it
      * exceeds the configured distance while the wheels say the vehicle moves.
      */
-    private GnssOutcome initializeFrom(GnssFix fix, double eastM, double northM, double fixUpM, double var) {
+    private GnssOutcome.Kind initializeFrom(GnssFix fix, double eastM, double northM, double fixUpM, double var) {
         updateUp(fix, fixUpM, Math.sqrt(var));
         double yaw = Double.NaN;
         double yawVar = Double.NaN;
@@ -595,7 +617,7 @@ public final class NavigationFilter {
                 anchorNorthM = northM;
                 anchorOdometerM = odometerM;
             }
-            return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+            return GnssOutcome.Kind.INITIALIZING;
         }
         double share = settings.gnssCorrelatedShare();
         double corrVar = share * var;
@@ -632,7 +654,7 @@ public final class NavigationFilter {
         initialized = true;
         probation = Probation.NONE;
         pendingCount = 0;
-        return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+        return GnssOutcome.Kind.INITIALIZING;
     }
 
     /**
@@ -847,7 +869,8 @@ public final class NavigationFilter {
                 p[EAST * SIZE + EAST], p[EAST * SIZE + NORTH], p[NORTH * SIZE + NORTH], p[YAW * SIZE + YAW],
                 p[GYRO_BIAS * SIZE + GYRO_BIAS], p[SPEED_SCALE * SIZE + SPEED_SCALE],
                 Double.isFinite(varUpM2) ? varUpM2 : Double.NaN, initialized ? speed : wheelSpeedMps, rate,
-                standstill, odometerM, lastUsedFixTRel, lastFixTRel, lastOutcome, odometerAtLastUsedFixM,
+                standstill, odometerM, lastUsedFixTRel, lastFixTRel,
+                lastKind == null ? null : outcome(lastKind, lastNis), odometerAtLastUsedFixM,
                 new FilterCounts(fixesUsed, fixesGated, fixesPending, fixesDropped, fixesUnusable, velocityGated,
                         covarianceRepairs, resets));
     }

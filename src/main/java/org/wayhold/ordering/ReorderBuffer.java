@@ -189,8 +189,9 @@ public final class ReorderBuffer<C> {
     }
 
     /**
-     * Drops checkpoints and samples no late sample can need: keeps the newest checkpoint at or before
-     * (newest - max_lag) and everything after it.
+     * Drops checkpoints and samples no late sample can need: keeps the newest checkpoint whose last
+     * sample lies strictly before (newest - max_lag) and everything after it. Strictly: a sample exactly
+     * max_lag late is still admitted and may rank before a sample of the same time.
      */
     private void trim() {
         double horizon = newest.t() - maxLagS;
@@ -198,7 +199,7 @@ public final class ReorderBuffer<C> {
             Iterator<Mark<C>> it = marks.iterator();
             it.next();
             Mark<C> second = it.next();
-            if (second.lastT <= horizon) {
+            if (second.lastT < horizon) {
                 marks.removeFirst();
             } else {
                 break;
