@@ -18,8 +18,9 @@ class Wgs84Test {
     /** The project's accuracy target for the ECEF-to-geodetic inverse. */
     private static final double ROUND_TRIP_M = 1e-4;
 
+    /** Degrees, minutes, seconds of a non-negative angle to decimal degrees; negate the result for S or W. */
     static double dms(double deg, double min, double sec) {
-        return Math.signum(deg) * (Math.abs(deg) + min / 60.0 + sec / 3600.0);
+        return deg + min / 60.0 + sec / 3600.0;
     }
 
     @Test
