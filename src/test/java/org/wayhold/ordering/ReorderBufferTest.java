@@ -143,4 +143,35 @@ class ReorderBufferTest {
         assertThat(b.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
         assertThat(buffer.newestT()).isEqualTo(1001.5);
     }
+
+    /**
+     * Regression test for a bug in ReorderBuffer (fails on the code as of this commit, kept failing on
+     * purpose): trim() keeps the newest checkpoint whose last sample is at or before newest - max_lag
+     * ({@code second.lastT <= horizon}, ReorderBuffer.java line 201) and then shifts its keptBefore to 0;
+     * merge() takes any checkpoint with keptBefore == 0 as "before every sample" (line 145). A sample
+     * exactly max_lag late with the same time as that checkpoint's last sample but a lower type rank is
+     * then applied after it, out of order. Suggested fix: trim with {@code second.lastT < horizon}, so the
+     * kept checkpoint's last sample is strictly older than anything still admissible.
+     */
+    @Test
+    void aSampleExactlyMaxLagLateTakesItsPlaceBeforeALaterRankedSampleOfTheSameTime() {
+        // Times on a 0.25 s grid (exact in binary) so a checkpoint's last sample can sit exactly at
+        // newest - max_lag. The wheel speed at 1010.0 s arrives when the newest sample is 1012.0 s: it is
+        // exactly 2 s late, so it is admitted, and in time order it goes before the yaw rate of 1010.0 s
+        // (inputs rank wheel speed, then yaw rate).
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        List<Sample> all = new ArrayList<>();
+        for (int k = 0; k <= 48; k++) {
+            all.add(new YawRate(1000.0 + 0.25 * k, 0.01 * k));
+        }
+        buffer.submit(all);
+        WheelSpeed late = new WheelSpeed(1010.0, 5.0);
+        List<Admission> a = buffer.submit(List.of(late));
+        assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
+        List<Sample> expected = new ArrayList<>(all);
+        expected.add(late);
+        expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
+        assertThat(rec.applied).isEqualTo(expected);
+    }
 }
