@@ -5,6 +5,7 @@ import com.fasterxml.jackson.core.JsonFactoryBuilder;
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonProcessingException;
 import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.core.StreamReadFeature;
 import com.fasterxml.jackson.core.json.JsonReadFeature;
 import java.io.BufferedInputStream;
 import java.io.IOException;
@@ -24,7 +25,8 @@ import org.wayhold.settings.ServerSettings;
  *
  * <p>The input is split into lines here and each line gets its own streaming parser, so a malformed
  * line costs only itself: it is rejected with its 1-based line number and reading goes on with the next
- * line. Only one line is held in memory at a time, and never more than {@code maxLineBytes} of it.
+ * line. Memory use is bounded whatever the input size: a 64 KiB read buffer plus at most one line of
+ * {@code maxLineBytes}.
  *
  * <p>What is accepted and what is rejected:
  * <ul>
@@ -50,9 +52,14 @@ public final class NdjsonReader {
 
     private static final byte[] UTF8_BOM = {(byte) 0xEF, (byte) 0xBB, (byte) 0xBF};
 
-    /** Non-numeric numbers are allowed so they reach the decoder and are rejected by field name. */
+    /**
+     * Non-numeric numbers are allowed so they reach the decoder and are rejected by field name. The fast
+     * double parser (Lemire's algorithm as ported in jackson-core) gives the same correctly rounded double
+     * as {@link Double#parseDouble(String)}, in a fraction of the time.
+     */
     private static final JsonFactory FACTORY = new JsonFactoryBuilder()
             .enable(JsonReadFeature.ALLOW_NON_NUMERIC_NUMBERS)
+            .enable(StreamReadFeature.USE_FAST_DOUBLE_PARSER)
             .build();
 
     private final int maxLineBytes;

@@ -149,6 +149,7 @@ public final class OutageReplay {
         double lastErrEast;
         double lastErrNorth;
         double lastError;
+        double lastNees;
 
         Branch(OutageWindow window, NavigationFilter filter, double epochT, ReferenceTrack reference,
                boolean keepTrace) {
@@ -191,6 +192,7 @@ public final class OutageReplay {
             // NEES = e' P^-1 e with the 2x2 inverse in closed form.
             double nees = (c * de * de - 2.0 * b * de * dn + a * dn * dn) / det;
             neesSum += nees;
+            lastNees = nees;
             if (nees <= Ellipse95.SCALE_2DOF_95) {
                 inside++;
             }
@@ -225,7 +227,7 @@ public final class OutageReplay {
                     && (Double.isNaN(timeToUnreliable) || timeToUnreliable > timeToAlert);
             double pct = distance > 0.0 ? 100.0 * lastError / distance : Double.NaN;
             return new WindowScore(window, distance, lastError, maxError, pct, count == 0 ? Double.NaN
-                    : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, timeToAlert,
+                    : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, lastNees, timeToAlert,
                     timeToUnreliable, missed, along, cross, s.eastM(), s.northM(), count);
         }
     }

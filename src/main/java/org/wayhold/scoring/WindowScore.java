@@ -10,6 +10,7 @@ package org.wayhold.scoring;
  * @param errorPct         final error as a percentage of the distance (%), NaN when the distance is 0
  * @param inside95         fraction of evaluation times the reference lay inside the 95% ellipse (0..1)
  * @param meanNees         mean normalised estimation error squared of the horizontal position (unitless)
+ * @param finalNees        normalised estimation error squared at the end of the window (unitless)
  * @param timeToAlertS     time from the start until the error first passed the alert limit (s), NaN if never
  * @param timeToUnreliableS time from the start until the state turned {@code unreliable} (s), NaN if never
  * @param missedAlert      true when the error passed the alert limit before the state turned {@code unreliable}
@@ -20,7 +21,7 @@ package org.wayhold.scoring;
  * @param samples          evaluation times in the window (count)
  */
 public record WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
-                          double errorPct, double inside95, double meanNees, double timeToAlertS,
+                          double errorPct, double inside95, double meanNees, double finalNees, double timeToAlertS,
                           double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
                           double crossTrackErrorM, double endEastM, double endNorthM, int samples) {
 }

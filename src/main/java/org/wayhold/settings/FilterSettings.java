@@ -116,7 +116,7 @@ public record FilterSettings(
                 Math.toRadians(5.0), Math.toRadians(0.5), 0.03,
                 0.3, 4.0, 3.0, defaultFixScale(),
                 0.6, 40.0,
-                3.0, 0.15, 1.5,
+                3.0, 0.15, 3.0,
                 0.5, 5.0);
     }
 }

@@ -3,6 +3,7 @@ package org.wayhold.simulate;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
+import org.wayhold.geo.Angles;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.sample.FixType;
@@ -161,7 +162,7 @@ public final class DriveSimulator {
                 double uHdop = rnd.receiver.uniform(0.0, 1.0);
                 int satsDrop = rnd.receiver.uniformInt(0, 2);
 
-                if (!inside(tunnels, i, 0)) {
+                if (!inside(tunnels, i)) {
                     double ts = i * Route.TICK_S;
                     double hdop = 0.8 + 0.4 * (0.5 + 0.5 * StrictMath.sin(2 * Math.PI * ts / HDOP_PERIOD_S + hdopPhase));
                     int sats = 8 + (int) Math.round(4 * (0.5 + 0.5 * StrictMath.sin(
@@ -169,13 +170,13 @@ public final class DriveSimulator {
                     FixType fix = FixType.THREE_D;
                     GnssFault.Kind kind = null;
                     double sizeM = 0.0;
-                    if (inside(tunnels, i, -multipathTicks) && multipathTicks > 0) {
+                    if (justAfter(tunnels, i, multipathTicks)) {
                         kind = GnssFault.Kind.EXIT_MULTIPATH;
                         sizeM = gs.multipathMinM() + uSize * (gs.multipathMaxM() - gs.multipathMinM());
                         hdop = 2.0 + 2.0 * uHdop;
                         sats = 4 + satsDrop;
                         fix = sats == 4 ? FixType.TWO_D : FixType.THREE_D;
-                    } else if (inside(canyons, i, 0)) {
+                    } else if (inside(canyons, i)) {
                         hdop = 1.5 + 1.5 * uHdop;
                         sats = 5 + satsDrop;
                         if (uDrop < gs.canyonDropProbability()) {
@@ -204,7 +205,7 @@ public final class DriveSimulator {
             if (i % refTicks == 0) {
                 Geodetic g = frame.toGeodetic(truth.eastM(i), truth.northM(i), 0.0);
                 samples.add(new ReferencePoint(t, g.latDeg(), g.lonDeg(), g.altM(),
-                        headingDeg(route.yawRad(k, i))));
+                        Angles.yawRadToHeadingDeg(route.yawRad(k, i))));
             }
         }
 
@@ -229,16 +230,26 @@ public final class DriveSimulator {
         double ve = tr.speedMps() * StrictMath.cos(tr.yawRad()) - tr.yawRateRadPerS() * rN + velNoiseE;
         double vn = tr.speedMps() * StrictMath.sin(tr.yawRad()) + tr.yawRateRadPerS() * rE + velNoiseN;
         double speed = Math.hypot(ve, vn);
-        double course = speed >= gs.courseMinSpeedMps() && speed > 0.0 ? headingDeg(StrictMath.atan2(vn, ve))
+        double course = speed >= gs.courseMinSpeedMps() && speed > 0.0 ? Angles.yawRadToHeadingDeg(StrictMath.atan2(vn, ve))
                 : Double.NaN;
         return new GnssFix(t, g.latDeg(), g.lonDeg(), g.altM(), sigmaHM, gs.verticalNoiseM(), fixType, sats, hdop,
                 speed, course);
     }
 
-    /** Whether tick i lies in one of the windows shifted by {@code shift} ticks (negative: after the end). */
-    private static boolean inside(List<long[]> windows, long i, long shift) {
+    /** Whether tick i lies in one of the {@code [start, end)} windows. */
+    private static boolean inside(List<long[]> windows, long i) {
         for (long[] w : windows) {
-            if (shift == 0 ? (i >= w[0] && i < w[1]) : (i >= w[1] && i < w[1] - shift)) {
+            if (i >= w[0] && i < w[1]) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Whether tick i lies in the first {@code ticks} ticks after the end of one of the windows. */
+    private static boolean justAfter(List<long[]> windows, long i, long ticks) {
+        for (long[] w : windows) {
+            if (i >= w[1] && i < w[1] + ticks) {
                 return true;
             }
         }
@@ -268,15 +279,5 @@ public final class DriveSimulator {
             return Math.rint(value * whole) / whole;
         }
         return Math.rint(value / quantum) * quantum;
-    }
-
-    /** Yaw (rad, counter-clockwise from east) to heading (deg, clockwise from north, [0, 360)). */
-    private static double headingDeg(double yawRad) {
-        double h = 90.0 - Math.toDegrees(yawRad);
-        h = h % 360.0;
-        if (h < 0.0) {
-            h += 360.0;
-        }
-        return h == 360.0 ? 0.0 : h;
     }
 }
