@@ -26,7 +26,7 @@ import org.wayhold.settings.Settings;
  * </ul>
  * Script (times from the start): fixes without course at first, so the heading needs 5 m of
  * displacement; a fix 60 m off at 20 s; a fix without a solution at 30 s; no fixes from 60 s to 420 s;
- * fixes again after that (three must agree before the first is used, the default).
+ * fixes again after that (three must agree before one is used: set explicitly below).
  */
 class NavStateTransitionTest {
 
@@ -38,7 +38,9 @@ class NavStateTransitionTest {
     void scriptedDriveWalksThroughEveryStateAsTheContractDefinesThem() {
         // Gate at 1 - 1e-9 (threshold 41.4) instead of the default 0.999, so that over the ~2000 fixes of
         // the script only the planted fault is gated, not the one-in-a-thousand honest fix the default
-        // gate rejects by design. Everything else is the default.
+        // gate rejects by design. Reacquisition after the gap needs 3 agreeing fixes (stated here rather
+        // than taken from the default, so the script's expectations do not move with it). Everything
+        // else is the default.
         Settings d = Settings.defaults();
         Settings settings = new Settings(d.server(), d.filter(), new GatingSettings(1.0 - 1e-9, 3), d.outage(),
                 d.ordering(), d.history(), java.util.Map.of());
