@@ -85,6 +85,8 @@ public final class ScoringRun {
             if (!(evalStepS > 0.0) || Double.isInfinite(evalStepS)) {
                 throw new IllegalArgumentException("eval_step: must be a positive number of s, was " + evalStepS);
             }
+            WindowPlan.requireWholeSteps("skip", schedule.skipS(), GRID_STEP_S);
+            WindowPlan.requireWholeSteps("every", schedule.everyS(), GRID_STEP_S);
             if (threads < 1) {
                 throw new IllegalArgumentException("threads: must be at least 1, was " + threads);
             }

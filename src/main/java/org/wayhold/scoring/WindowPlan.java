@@ -168,6 +168,11 @@ public record WindowPlan(List<OutageWindow> windows, int skipped) {
         return z ^ (z >>> 31);
     }
 
+    /** Throws unless {@code valueS} is a whole number of grid steps, naming the option. */
+    public static void requireWholeSteps(String name, double valueS, double stepS) {
+        wholeSteps(name, valueS, stepS);
+    }
+
     private static int wholeSteps(String name, double valueS, double stepS) {
         double steps = valueS / stepS;
         long r = Math.round(steps);
