@@ -45,6 +45,8 @@ public final class NavigationFilter {
     private static final double MOVING_SPEED_MPS = 0.5;
     /** Steps longer than this are split, so the linearised covariance stays close (s). */
     private static final double MAX_STEP_S = 0.1;
+    /** Inputs are extended along their trend at most this far past the latest reading (s). */
+    private static final double MAX_EXTRAPOLATION_S = 0.1;
     /**
      * Random walk of the height between fixes (m^2/s): a road climbs a few percent, so at motorway
      * speed the height changes by up to about 0.5 m/s (common practice, not a published figure).
@@ -75,7 +77,13 @@ public final class NavigationFilter {
     private double varUpM2 = Double.POSITIVE_INFINITY;
 
     private double wheelSpeedMps;
+    private double wheelSpeedTRel = Double.NaN;
+    private double previousWheelSpeedMps;
+    private double previousWheelSpeedTRel = Double.NaN;
     private double yawRateRadPerS;
+    private double yawRateTRel = Double.NaN;
+    private double previousYawRateRadPerS;
+    private double previousYawRateTRel = Double.NaN;
     private boolean hasYawRate;
     private double zeroSpeedSinceTRel = Double.NaN;
     private boolean standstill;
@@ -122,7 +130,7 @@ public final class NavigationFilter {
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
     /** Version of the layout {@link #writeState} writes. */
-    private static final int STATE_FORMAT = 1;
+    private static final int STATE_FORMAT = 2;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     private static final int PENDING_FIELDS = 5;
@@ -164,7 +172,13 @@ public final class NavigationFilter {
         upM = o.upM;
         varUpM2 = o.varUpM2;
         wheelSpeedMps = o.wheelSpeedMps;
+        wheelSpeedTRel = o.wheelSpeedTRel;
+        previousWheelSpeedMps = o.previousWheelSpeedMps;
+        previousWheelSpeedTRel = o.previousWheelSpeedTRel;
         yawRateRadPerS = o.yawRateRadPerS;
+        yawRateTRel = o.yawRateTRel;
+        previousYawRateRadPerS = o.previousYawRateRadPerS;
+        previousYawRateTRel = o.previousYawRateTRel;
         hasYawRate = o.hasYawRate;
         zeroSpeedSinceTRel = o.zeroSpeedSinceTRel;
         standstill = o.standstill;
@@ -209,7 +223,8 @@ public final class NavigationFilter {
         out.writeBoolean(initialized);
         double[] scalars = {tRel, upM, varUpM2, wheelSpeedMps, yawRateRadPerS, zeroSpeedSinceTRel, correlatedVarM2,
             odometerM, lastUsedFixTRel, lastFixTRel, odometerAtLastUsedFixM, lastNis, anchorEastM, anchorNorthM,
-            anchorOdometerM};
+            anchorOdometerM, wheelSpeedTRel, previousWheelSpeedMps, previousWheelSpeedTRel, yawRateTRel,
+            previousYawRateRadPerS, previousYawRateTRel};
         out.writeInt(scalars.length);
         for (double v : scalars) {
             out.writeDouble(v);
@@ -250,8 +265,8 @@ public final class NavigationFilter {
         }
         initialized = in.readBoolean();
         int n = in.readInt();
-        if (n != 15) {
-            throw new IOException("filter state: " + n + " scalars, expected 15");
+        if (n != 21) {
+            throw new IOException("filter state: " + n + " scalars, expected 21");
         }
         tRel = in.readDouble();
         upM = in.readDouble();
@@ -268,6 +283,12 @@ public final class NavigationFilter {
         anchorEastM = in.readDouble();
         anchorNorthM = in.readDouble();
         anchorOdometerM = in.readDouble();
+        wheelSpeedTRel = in.readDouble();
+        previousWheelSpeedMps = in.readDouble();
+        previousWheelSpeedTRel = in.readDouble();
+        yawRateTRel = in.readDouble();
+        previousYawRateRadPerS = in.readDouble();
+        previousYawRateTRel = in.readDouble();
         hasYawRate = in.readBoolean();
         standstill = in.readBoolean();
         int kind = in.readInt();
@@ -327,17 +348,41 @@ public final class NavigationFilter {
         if (dt < 0.0) {
             throw new IllegalStateException("time went back by " + (-dt) + " s: samples must be ordered");
         }
+        double from = tRel;
         while (dt > 0.0) {
             double step = Math.min(dt, MAX_STEP_S);
-            propagate(step);
+            propagate(step, from + 0.5 * step);
+            from += step;
             dt -= step;
         }
         tRel = tRelS;
     }
 
+    /**
+     * An input's value at {@code tMidRel}: the latest reading extended along the line through the last
+     * two readings, at most one reading interval (and {@link #MAX_EXTRAPOLATION_S}) ahead. A held value
+     * lags a changing input by half a reading interval on average, which adds up while the vehicle
+     * accelerates or enters a turn; the line does not, and its noise telescopes over consecutive steps
+     * (the weights 1.5 and -0.5 of two readings sum to 1), so the integrated noise is that of holding.
+     */
+    private static double extended(double value, double valueT, double previous, double previousT, double tMidRel) {
+        double interval = valueT - previousT;
+        if (!(interval > 0.0)) {
+            return value;
+        }
+        double ahead = Math.min(tMidRel - valueT, Math.min(interval, MAX_EXTRAPOLATION_S));
+        if (ahead <= 0.0) {
+            return value;
+        }
+        return value + (value - previous) / interval * ahead;
+    }
+
     /** Holds a new wheel speed from now on (m/s, signed). Call after {@link #predictTo}. */
     public void setWheelSpeed(double speedMps) {
+        previousWheelSpeedMps = wheelSpeedMps;
+        previousWheelSpeedTRel = wheelSpeedTRel;
         wheelSpeedMps = speedMps;
+        wheelSpeedTRel = tRel;
         if (Math.abs(speedMps) < ZERO_SPEED_MPS) {
             if (Double.isNaN(zeroSpeedSinceTRel)) {
                 zeroSpeedSinceTRel = tRel;
@@ -355,7 +400,10 @@ public final class NavigationFilter {
      * rate update).
      */
     public void setYawRate(double rateRadPerS) {
+        previousYawRateRadPerS = yawRateRadPerS;
+        previousYawRateTRel = yawRateTRel;
         yawRateRadPerS = rateRadPerS;
+        yawRateTRel = tRel;
         hasYawRate = true;
         if (Math.abs(wheelSpeedMps) < ZERO_SPEED_MPS && !Double.isNaN(zeroSpeedSinceTRel)) {
             // The standstill time is re-checked here too: the wheel-speed stream may be slower.
@@ -376,14 +424,21 @@ public final class NavigationFilter {
         applyUpdate(1);
     }
 
-    private void propagate(double dt) {
-        odometerM += Math.abs((initialized ? x[SPEED_SCALE] : keptScale()) * wheelSpeedMps) * dt;
+    private void propagate(double dt, double tMidRel) {
+        double wheel = extended(wheelSpeedMps, wheelSpeedTRel, previousWheelSpeedMps, previousWheelSpeedTRel,
+                tMidRel);
+        if (wheel * wheelSpeedMps <= 0.0) {
+            // Never extend through zero: a stop or a change of direction shows in the readings first.
+            wheel = wheelSpeedMps;
+        }
+        double rate = extended(yawRateRadPerS, yawRateTRel, previousYawRateRadPerS, previousYawRateTRel, tMidRel);
+        odometerM += Math.abs((initialized ? x[SPEED_SCALE] : keptScale()) * wheel) * dt;
         if (!initialized) {
             return;
         }
         double tau = settings.gnssCorrelationTimeS();
         double decay = Math.exp(-dt / tau);
-        MotionModel.step(x, wheelSpeedMps, yawRateRadPerS, dt, standstill, decay, xNext, f, inputJac);
+        MotionModel.step(x, wheel, rate, dt, standstill, decay, xNext, f, inputJac);
         System.arraycopy(xNext, 0, x, 0, SIZE);
         x[YAW] = Angles.wrapPi(x[YAW]);
 

@@ -175,6 +175,12 @@ class NonlinearModelVsHipparchusTest {
         private int cursor;
         private double heldWheel;
         private double heldRate;
+        private double wheelT = Double.NaN;
+        private double prevWheel;
+        private double prevWheelT = Double.NaN;
+        private double rateT = Double.NaN;
+        private double prevRate;
+        private double prevRateT = Double.NaN;
         private double corrVar;
 
         VehicleProcess(List<Event> inputs, FilterSettings fs) {
@@ -193,20 +199,26 @@ class NonlinearModelVsHipparchusTest {
             while (cursor < inputs.size() && inputs.get(cursor).t() <= fix.getTime()) {
                 Event ev = inputs.get(cursor++);
                 if (ev.t() > t) {
-                    RealMatrix[] fq = step(x, ev.t() - t);
+                    RealMatrix[] fq = step(x, t, ev.t() - t);
                     // Phi = F Phi; Q = F Q F' + Q_step
                     phi = fq[0].multiply(phi);
                     q = fq[0].multiply(q).multiplyTransposed(fq[0]).add(fq[1]);
                     t = ev.t();
                 }
                 if (ev.kind() == Kind.WHEEL) {
+                    prevWheel = heldWheel;
+                    prevWheelT = wheelT;
                     heldWheel = ev.value();
+                    wheelT = ev.t();
                 } else {
+                    prevRate = heldRate;
+                    prevRateT = rateT;
                     heldRate = ev.value();
+                    rateT = ev.t();
                 }
             }
             if (fix.getTime() > t) {
-                RealMatrix[] fq = step(x, fix.getTime() - t);
+                RealMatrix[] fq = step(x, t, fix.getTime() - t);
                 phi = fq[0].multiply(phi);
                 q = fq[0].multiply(q).multiplyTransposed(fq[0]).add(fq[1]);
             }
@@ -227,12 +239,33 @@ class NonlinearModelVsHipparchusTest {
         }
 
         /**
-         * One step of dt with the held inputs; updates x in place and returns {F, Q_step}.
+         * The value of an input at time tm, by the rule NavigationFilter documents: the straight line
+         * through the last two readings, followed at most one reading interval and 0.1 s past the
+         * latest reading; before two readings exist, the latest one.
          */
-        private RealMatrix[] step(double[] x, double dt) {
-            double omega = heldRate - x[B];
+        private static double onTrend(double latest, double latestT, double previous, double previousT, double tm) {
+            double interval = latestT - previousT;
+            if (!(interval > 0.0)) {
+                return latest;
+            }
+            double ahead = Math.min(tm - latestT, Math.min(interval, 0.1));
+            return ahead <= 0.0 ? latest : latest + (latest - previous) * ahead / interval;
+        }
+
+        /**
+         * One step of dt from t with the inputs taken at the step's midpoint; updates x in place and
+         * returns {F, Q_step}.
+         */
+        private RealMatrix[] step(double[] x, double t, double dt) {
+            double mid = t + 0.5 * dt;
+            double wheel = onTrend(heldWheel, wheelT, prevWheel, prevWheelT, mid);
+            if (wheel * heldWheel <= 0.0) {
+                wheel = heldWheel;
+            }
+            double rate = onTrend(heldRate, rateT, prevRate, prevRateT, mid);
+            double omega = rate - x[B];
             double theta = omega * dt;
-            double v = x[S] * heldWheel;
+            double v = x[S] * wheel;
             double half = 0.5 * theta;
             double sc = sinc(half);
             double u = x[Y] + half;
@@ -249,8 +282,8 @@ class NonlinearModelVsHipparchusTest {
             RealMatrix f = MatrixUtils.createRealIdentityMatrix(N);
             f.setEntry(E, Y, -dn);
             f.setEntry(NO, Y, de);
-            f.setEntry(E, S, heldWheel * dt * sc * cu);
-            f.setEntry(NO, S, heldWheel * dt * sc * su);
+            f.setEntry(E, S, wheel * dt * sc * cu);
+            f.setEntry(NO, S, wheel * dt * sc * su);
             // theta = (rate - bias) dt: d/d(bias) = -dt d/d(theta)
             f.setEntry(E, B, -dt * deDTheta);
             f.setEntry(NO, B, -dt * dnDTheta);
