@@ -72,7 +72,8 @@ public final class LocalFrame {
         double cosLat = Math.cos(lat);
         double e2 = Wgs84.FIRST_ECCENTRICITY_SQUARED;
         double n = Wgs84.SEMI_MAJOR_AXIS_M / Math.sqrt(1.0 - e2 * sinLat * sinLat);
-        // ECEF of the point (EPSG 9602), then its difference from the origin.
+        // ECEF of the point (EPSG 9602, as in Ellipsoid.toEcef, written out here so that the per-fix
+        // path allocates only its result), then its difference from the origin.
         double r = (n + altM) * cosLat;
         double dx = r * Math.cos(lon) - originEcef.xM();
         double dy = r * Math.sin(lon) - originEcef.yM();

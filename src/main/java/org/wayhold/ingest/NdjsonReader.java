@@ -25,7 +25,8 @@ import org.wayhold.settings.ServerSettings;
  *
  * <p>The input is split into lines here and each line gets its own streaming parser, so a malformed
  * line costs only itself: it is rejected with its 1-based line number and reading goes on with the next
- * line. Only one line is held in memory at a time, and never more than {@code maxLineBytes} of it.
+ * line. Memory use is bounded whatever the input size: a 64 KiB read buffer plus at most one line of
+ * {@code maxLineBytes}.
  *
  * <p>What is accepted and what is rejected:
  * <ul>

@@ -6,11 +6,12 @@ import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.function.Consumer;
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.NavigationFilter;
-import org.wayhold.geo.Enu;
+import org.wayhold.filter.SampleFeeder;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.ordering.Admission;
 import org.wayhold.ordering.ReorderBuffer;
+import org.wayhold.ordering.SampleOrder;
 import org.wayhold.ordering.Replayable;
 import org.wayhold.pose.Pose;
 import org.wayhold.pose.PoseAssembler;
@@ -19,8 +20,6 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
-import org.wayhold.sample.WheelSpeed;
-import org.wayhold.sample.YawRate;
 import org.wayhold.settings.Settings;
 
 /**
@@ -147,25 +146,18 @@ public final class VehicleSession {
 
         @Override
         public void apply(Sample sample) {
-            double tRel = sample.t() - epochT;
-            filter.predictTo(tRel);
-            boolean fix = false;
-            if (sample instanceof WheelSpeed w) {
-                filter.setWheelSpeed(w.speedMps());
-                appliedByType[0]++;
-            } else if (sample instanceof YawRate y) {
-                filter.setYawRate(y.yawRateRadPerS());
-                appliedByType[1]++;
-            } else if (sample instanceof GnssFix g) {
-                applyFix(g);
-                fix = true;
-                appliedByType[2]++;
-            } else if (sample instanceof ReferencePoint) {
-                // Reference points are for scoring only and never reach the filter.
-                appliedByType[3]++;
+            if (frame == null && sample instanceof GnssFix g && g.fix() != FixType.NONE) {
+                frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
+                        : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
+            }
+            SampleFeeder.feed(filter, sample, epochT, frame);
+            appliedByType[SampleOrder.rank(sample)]++;
+            if (sample instanceof ReferencePoint) {
+                // Reference points are for scoring only: they reach the filter only as time.
                 return;
             }
-            if (frame != null && (fix || tRel - lastHistoryTRel >= settings.history().intervalS())) {
+            double tRel = sample.t() - epochT;
+            if (frame != null && (sample instanceof GnssFix || tRel - lastHistoryTRel >= settings.history().intervalS())) {
                 Pose pose = assembler.assemble(filter.snapshot(), epochT, frame);
                 history.add(pose);
                 lastHistoryTRel = tRel;
@@ -173,20 +165,6 @@ public final class VehicleSession {
                     l.accept(pose);
                 }
             }
-        }
-
-        private void applyFix(GnssFix g) {
-            if (frame == null && g.fix() != FixType.NONE) {
-                frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
-                        : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
-            }
-            if (frame == null) {
-                filter.updateGnss(g, Double.NaN, Double.NaN, Double.NaN);
-                return;
-            }
-            double alt = g.hasAlt() ? g.altM() : frame.origin().altM();
-            Enu enu = frame.toEnu(g.latDeg(), g.lonDeg(), alt);
-            filter.updateGnss(g, enu.eastM(), enu.northM(), g.hasAlt() ? enu.upM() : Double.NaN);
         }
 
         @Override

@@ -3,6 +3,7 @@ package org.wayhold.simulate;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
+import org.wayhold.geo.Angles;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.sample.FixType;
@@ -204,7 +205,7 @@ public final class DriveSimulator {
             if (i % refTicks == 0) {
                 Geodetic g = frame.toGeodetic(truth.eastM(i), truth.northM(i), 0.0);
                 samples.add(new ReferencePoint(t, g.latDeg(), g.lonDeg(), g.altM(),
-                        headingDeg(route.yawRad(k, i))));
+                        Angles.yawRadToHeadingDeg(route.yawRad(k, i))));
             }
         }
 
@@ -229,7 +230,7 @@ public final class DriveSimulator {
         double ve = tr.speedMps() * StrictMath.cos(tr.yawRad()) - tr.yawRateRadPerS() * rN + velNoiseE;
         double vn = tr.speedMps() * StrictMath.sin(tr.yawRad()) + tr.yawRateRadPerS() * rE + velNoiseN;
         double speed = Math.hypot(ve, vn);
-        double course = speed >= gs.courseMinSpeedMps() && speed > 0.0 ? headingDeg(StrictMath.atan2(vn, ve))
+        double course = speed >= gs.courseMinSpeedMps() && speed > 0.0 ? Angles.yawRadToHeadingDeg(StrictMath.atan2(vn, ve))
                 : Double.NaN;
         return new GnssFix(t, g.latDeg(), g.lonDeg(), g.altM(), sigmaHM, gs.verticalNoiseM(), fixType, sats, hdop,
                 speed, course);
@@ -268,15 +269,5 @@ public final class DriveSimulator {
             return Math.rint(value * whole) / whole;
         }
         return Math.rint(value / quantum) * quantum;
-    }
-
-    /** Yaw (rad, counter-clockwise from east) to heading (deg, clockwise from north, [0, 360)). */
-    private static double headingDeg(double yawRad) {
-        double h = 90.0 - Math.toDegrees(yawRad);
-        h = h % 360.0;
-        if (h < 0.0) {
-            h += 360.0;
-        }
-        return h == 360.0 ? 0.0 : h;
     }
 }

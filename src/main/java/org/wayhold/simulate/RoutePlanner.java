@@ -22,12 +22,12 @@ final class RoutePlanner {
     private static final double TURN_RAMP_S = 2.0;
     /** Smallest turn radius whatever the speed (m): a tight urban corner. */
     private static final double MIN_RADIUS_M = 25.0;
-    /** Acceleration used to start and stop (m/s^2): brisk but ordinary driving. */
-    private static final double START_STOP_ACCEL_MPS2 = 1.5;
+    /** Acceleration used to start and stop (m/s^2): about 0.2 g, firm but ordinary driving. */
+    private static final double START_STOP_ACCEL_MPS2 = 2.0;
     /** Acceleration into and out of the reversing speed (m/s^2): a gentle parking manoeuvre. */
     private static final double REVERSE_ACCEL_MPS2 = 0.75;
     /** Rest at the start and between reversing and driving on (s). */
-    private static final double PAUSE_S = 3.0;
+    private static final double PAUSE_S = 2.0;
     /** Angle of the turns the first stretch must hold (rad). */
     private static final double FORCED_TURN_RAD = Math.PI / 2.0;
 
@@ -69,7 +69,10 @@ final class RoutePlanner {
         }
         double totalS = grid(rs.durationS());
         double startS = PAUSE_S + rs.maxSpeedMps() / START_STOP_ACCEL_MPS2 + GRID_S;
-        double firstMinS = Math.max(rs.warmUpS(), startS + stopBlockMaxS() + 2.0 * forcedTurnMaxS() + 5.0);
+        boolean warmUp = rs.warmUpS() > 0.0;
+        double firstMinS = warmUp
+                ? Math.max(rs.warmUpS(), startS + stopBlockMaxS() + 2.0 * forcedTurnMaxS() + 5.0)
+                : startS + stopBlockMaxS() + 2.0;
         double zonesSumS = zonesS.stream().mapToDouble(Double::doubleValue).sum();
         double neededS = firstMinS + zonesSumS + zonesS.size() * rs.minGapS();
         if (zonesS.isEmpty()) {
@@ -102,7 +105,7 @@ final class RoutePlanner {
         }
 
         long firstEnd = ticks(gapsS[0]);
-        buildFirstStretch(firstEnd);
+        buildFirstStretch(firstEnd, warmUp);
         long at = firstEnd;
         for (int i = 0; i < zonesS.size(); i++) {
             Style style = zoneStyles.get(i);
@@ -129,18 +132,26 @@ final class RoutePlanner {
         return b.build();
     }
 
-    /** Start from rest, a left or right turn, the standstill with reversing, the opposite turn. */
-    private void buildFirstStretch(long endTick) {
+    /**
+     * Start from rest, drive, stand still and reverse, drive on. With a warm-up, a left or right turn
+     * comes before the standstill and the opposite turn after it, whatever the random manoeuvres do.
+     */
+    private void buildFirstStretch(long endTick, boolean warmUp) {
         b.hold(PAUSE_S);
         double v0 = uniform(rs.minSpeedMps(), 0.5 * (rs.minSpeedMps() + rs.maxSpeedMps()));
         b.rampTo(v0, 0.0, grid(v0 / START_STOP_ACCEL_MPS2));
         int firstTurn = rng.nextBoolean() ? 1 : -1;
-        long spare = endTick - b.elapsedTicks() - ticks(stopBlockMaxS()) - 2 * ticks(forcedTurnMaxS());
+        long turnsTicks = warmUp ? 2 * ticks(forcedTurnMaxS()) : 0;
+        long spare = Math.max(0, endTick - b.elapsedTicks() - ticks(stopBlockMaxS()) - turnsTicks);
         long before = b.elapsedTicks() + gridTicks(spare * uniform(0.3, 0.6));
-        turn(firstTurn * FORCED_TURN_RAD, turnRadiusM(b.speedMps(), Style.OPEN));
+        if (warmUp) {
+            turn(firstTurn * FORCED_TURN_RAD, turnRadiusM(b.speedMps(), Style.OPEN));
+        }
         fill(before, Style.OPEN);
         stopAndReverse();
-        turn(-firstTurn * FORCED_TURN_RAD, turnRadiusM(b.speedMps(), Style.OPEN));
+        if (warmUp) {
+            turn(-firstTurn * FORCED_TURN_RAD, turnRadiusM(b.speedMps(), Style.OPEN));
+        }
         fill(endTick, Style.OPEN);
     }
 

@@ -1,0 +1,232 @@
+package org.wayhold.scoring;
+
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.NavigationFilter;
+import org.wayhold.filter.SampleFeeder;
+import org.wayhold.geo.LocalFrame;
+import org.wayhold.pose.Ellipse95;
+import org.wayhold.pose.NavState;
+import org.wayhold.pose.PoseAssembler;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.Sample;
+import org.wayhold.settings.Settings;
+import org.wayhold.settings.VehicleProfile;
+
+/**
+ * Scores many outage windows in one replay of a drive.
+ *
+ * <p>The main filter sees every sample. When a window opens, a copy of the main filter branches off
+ * and from then on sees every sample but the GNSS fixes; when the window closes the branch is scored
+ * and dropped. So each window starts from exactly the state the live filter had, and one replay
+ * serves any number of windows.
+ */
+public final class OutageReplay {
+
+    private final Settings settings;
+    private final VehicleProfile profile;
+    private final LocalFrame frame;
+    private final double evalStepS;
+    private final PoseAssembler assembler;
+
+    /**
+     * @param settings  filter, gating and outage settings
+     * @param profile   the vehicle's lever arm
+     * @param frame     the ENU frame shared by the filter and the reference
+     * @param evalStepS spacing of evaluation times inside a window (s)
+     */
+    public OutageReplay(Settings settings, VehicleProfile profile, LocalFrame frame, double evalStepS) {
+        if (!(evalStepS > 0.0)) {
+            throw new IllegalArgumentException("evalStepS: must be a positive number of s, was " + evalStepS);
+        }
+        this.settings = settings;
+        this.profile = profile;
+        this.frame = frame;
+        this.evalStepS = evalStepS;
+        this.assembler = new PoseAssembler(settings.outage());
+    }
+
+    /** Per-window scores, and the traces of the branches when asked for. */
+    public record Result(List<WindowScore> scores, List<WindowTrace> traces) {
+    }
+
+    /**
+     * One evaluation point of a branch, for plots.
+     *
+     * @param t          time (s, vehicle clock)
+     * @param eastM      estimated east (m)
+     * @param northM     estimated north (m)
+     * @param refEastM   reference east (m)
+     * @param refNorthM  reference north (m)
+     * @param errorM     horizontal error (m)
+     * @param radius95M  95% radius (semi-major axis of the ellipse, m)
+     */
+    public record TracePoint(double t, double eastM, double northM, double refEastM, double refNorthM,
+                             double errorM, double radius95M) {
+    }
+
+    /** The evaluation points of one window. */
+    public record WindowTrace(OutageWindow window, List<TracePoint> points) {
+    }
+
+    /**
+     * Replays the samples and scores the windows.
+     *
+     * @param samples    the drive, in time order
+     * @param windows    windows to score; those the reference does not cover are skipped
+     * @param reference  where the vehicle really was
+     * @param keepTraces true to return the evaluation points of each window
+     */
+    public Result run(List<? extends Sample> samples, List<OutageWindow> windows, ReferenceTrack reference,
+                      boolean keepTraces) {
+        List<WindowScore> scores = new ArrayList<>();
+        List<WindowTrace> traces = new ArrayList<>();
+        if (samples.isEmpty()) {
+            return new Result(scores, traces);
+        }
+        List<OutageWindow> pending = new ArrayList<>(windows);
+        pending.sort(Comparator.comparingDouble(OutageWindow::startT));
+        double epochT = Math.floor(samples.get(0).t());
+        NavigationFilter main = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile);
+        List<Branch> active = new ArrayList<>();
+        int next = 0;
+        for (Sample s : samples) {
+            while (next < pending.size() && pending.get(next).startT() <= s.t()) {
+                OutageWindow w = pending.get(next++);
+                if (main.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
+                    Branch b = new Branch(w, main.copy(), epochT, reference, keepTraces);
+                    b.filter.predictTo(w.startT() - epochT);
+                    b.evaluateUpTo(w.startT());
+                    active.add(b);
+                }
+            }
+            for (int i = active.size() - 1; i >= 0; i--) {
+                Branch b = active.get(i);
+                if (s.t() > b.window.endT()) {
+                    b.evaluateUpTo(b.window.endT());
+                    b.filter.predictTo(b.window.endT() - epochT);
+                    scores.add(b.finish());
+                    if (keepTraces) {
+                        traces.add(new WindowTrace(b.window, b.trace));
+                    }
+                    active.remove(i);
+                    continue;
+                }
+                b.evaluateUpTo(s.t());
+                if (!(s instanceof GnssFix)) {
+                    SampleFeeder.feed(b.filter, s, epochT, frame);
+                }
+            }
+            SampleFeeder.feed(main, s, epochT, frame);
+        }
+        // Windows still open when the drive ends are not scored: their length was not reached.
+        scores.sort(Comparator.comparingDouble((WindowScore w) -> w.window().startT())
+                .thenComparingDouble(w -> w.window().lengthS()));
+        traces.sort(Comparator.comparingDouble((WindowTrace w) -> w.window().startT())
+                .thenComparingDouble(w -> w.window().lengthS()));
+        return new Result(scores, traces);
+    }
+
+    /** A filter running without GNSS through one window, with its running metrics. */
+    private final class Branch {
+        final OutageWindow window;
+        final NavigationFilter filter;
+        final double epochT;
+        final ReferenceTrack reference;
+        final List<TracePoint> trace;
+        double nextEvalT;
+        int count;
+        int inside;
+        double neesSum;
+        double maxError;
+        double distance;
+        double lastRefEast = Double.NaN;
+        double lastRefNorth = Double.NaN;
+        double timeToAlert = Double.NaN;
+        double timeToUnreliable = Double.NaN;
+        double lastErrEast;
+        double lastErrNorth;
+        double lastError;
+
+        Branch(OutageWindow window, NavigationFilter filter, double epochT, ReferenceTrack reference,
+               boolean keepTrace) {
+            this.window = window;
+            this.filter = filter;
+            this.epochT = epochT;
+            this.reference = reference;
+            this.trace = keepTrace ? new ArrayList<>() : null;
+            this.nextEvalT = window.startT();
+        }
+
+        /** Evaluates at every evaluation time up to and including {@code tS}. */
+        void evaluateUpTo(double tS) {
+            double end = Math.min(tS, window.endT());
+            while (nextEvalT <= end + 1e-9) {
+                evaluateAt(Math.min(nextEvalT, window.endT()));
+                count++;
+                // Index-based times avoid accumulating rounding over long windows.
+                nextEvalT = window.startT() + count * evalStepS;
+            }
+        }
+
+        private void evaluateAt(double t) {
+            filter.predictTo(t - epochT);
+            FilterSnapshot s = filter.snapshot();
+            double refEast = reference.eastAt(t);
+            double refNorth = reference.northAt(t);
+            if (!Double.isNaN(lastRefEast)) {
+                distance += Math.hypot(refEast - lastRefEast, refNorth - lastRefNorth);
+            }
+            lastRefEast = refEast;
+            lastRefNorth = refNorth;
+            double de = s.eastM() - refEast;
+            double dn = s.northM() - refNorth;
+            double err = Math.hypot(de, dn);
+            double a = s.covEastEastM2();
+            double b = s.covEastNorthM2();
+            double c = s.covNorthNorthM2();
+            double det = a * c - b * b;
+            // NEES = e' P^-1 e with the 2x2 inverse in closed form.
+            double nees = (c * de * de - 2.0 * b * de * dn + a * dn * dn) / det;
+            neesSum += nees;
+            if (nees <= Ellipse95.SCALE_2DOF_95) {
+                inside++;
+            }
+            maxError = Math.max(maxError, err);
+            Ellipse95 ellipse = Ellipse95.of(a, b, c);
+            double elapsed = t - window.startT();
+            if (Double.isNaN(timeToAlert) && err > settings.outage().alertLimitM()) {
+                timeToAlert = elapsed;
+            }
+            if (Double.isNaN(timeToUnreliable) && assembler.classify(s, ellipse) == NavState.UNRELIABLE) {
+                timeToUnreliable = elapsed;
+            }
+            lastErrEast = de;
+            lastErrNorth = dn;
+            lastError = err;
+            if (trace != null) {
+                trace.add(new TracePoint(t, s.eastM(), s.northM(), refEast, refNorth, err, ellipse.semiMajorM()));
+            }
+        }
+
+        WindowScore finish() {
+            FilterSnapshot s = filter.snapshot();
+            double t = window.endT();
+            double yaw = reference.yawAt(t);
+            double along = Double.NaN;
+            double cross = Double.NaN;
+            if (!Double.isNaN(yaw)) {
+                along = lastErrEast * Math.cos(yaw) + lastErrNorth * Math.sin(yaw);
+                cross = -lastErrEast * Math.sin(yaw) + lastErrNorth * Math.cos(yaw);
+            }
+            boolean missed = !Double.isNaN(timeToAlert)
+                    && (Double.isNaN(timeToUnreliable) || timeToUnreliable > timeToAlert);
+            double pct = distance > 0.0 ? 100.0 * lastError / distance : Double.NaN;
+            return new WindowScore(window, distance, lastError, maxError, pct, count == 0 ? Double.NaN
+                    : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, timeToAlert,
+                    timeToUnreliable, missed, along, cross, s.eastM(), s.northM(), count);
+        }
+    }
+}

@@ -1,0 +1,26 @@
+package org.wayhold.scoring;
+
+/**
+ * How the estimate drifted through one outage window.
+ *
+ * @param window           the window
+ * @param distanceM        distance driven in the window (m, from the reference)
+ * @param finalErrorM      horizontal error at the end (m)
+ * @param maxErrorM        largest horizontal error in the window (m)
+ * @param errorPct         final error as a percentage of the distance (%), NaN when the distance is 0
+ * @param inside95         fraction of evaluation times the reference lay inside the 95% ellipse (0..1)
+ * @param meanNees         mean normalised estimation error squared of the horizontal position (unitless)
+ * @param timeToAlertS     time from the start until the error first passed the alert limit (s), NaN if never
+ * @param timeToUnreliableS time from the start until the state turned {@code unreliable} (s), NaN if never
+ * @param missedAlert      true when the error passed the alert limit before the state turned {@code unreliable}
+ * @param alongTrackErrorM final error along the reference heading (m, positive ahead)
+ * @param crossTrackErrorM final error across the reference heading (m, positive to the left)
+ * @param endEastM         estimated east at the end (m)
+ * @param endNorthM        estimated north at the end (m)
+ * @param samples          evaluation times in the window (count)
+ */
+public record WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
+                          double errorPct, double inside95, double meanNees, double timeToAlertS,
+                          double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
+                          double crossTrackErrorM, double endEastM, double endNorthM, int samples) {
+}
