@@ -37,8 +37,20 @@ final class ErrorMapping {
         routes.exception(HttpProblem.class, (e, ctx) -> write(ctx, e));
         routes.exception(SessionLimitException.class, (e, ctx) -> write(ctx,
                 HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage())));
-        routes.exception(HttpResponseException.class, (e, ctx) -> write(ctx, new HttpProblem(e.getStatus(),
-                "http-" + e.getStatus(), titleOf(e.getStatus()), null, safeDetail(e))));
+        routes.exception(HttpResponseException.class, (e, ctx) -> {
+            if (isPreflight(ctx)) {
+                // No route answers OPTIONS; the CORS plugin has set its headers, the answer is empty.
+                ctx.status(204);
+                ctx.result("");
+                return;
+            }
+            switch (e.getStatus()) {
+                case 404 -> write(ctx, notFound(ctx));
+                case 405 -> write(ctx, methodNotAllowed(ctx));
+                default -> write(ctx, new HttpProblem(e.getStatus(), "http-" + e.getStatus(), titleOf(e.getStatus()),
+                        null, safeDetail(e)));
+            }
+        });
         routes.exception(Exception.class, (e, ctx) -> {
             LOG.error("{} {} failed", ctx.method(), ctx.path(), e);
             write(ctx, new HttpProblem(500, "internal", "Internal server error", null,
@@ -46,16 +58,24 @@ final class ErrorMapping {
         });
         routes.error(404, ctx -> {
             if (!written(ctx) && !isPreflight(ctx)) {
-                write(ctx, new HttpProblem(404, "not-found", "Not found", "path",
-                        "path: no resource at " + ctx.method() + " " + ctx.path()));
+                write(ctx, notFound(ctx));
             }
         });
         routes.error(405, ctx -> {
             if (!written(ctx) && !isPreflight(ctx)) {
-                write(ctx, new HttpProblem(405, "method-not-allowed", "Method not allowed", "method",
-                        "method: " + ctx.method() + " is not allowed on " + ctx.path()));
+                write(ctx, methodNotAllowed(ctx));
             }
         });
+    }
+
+    private static HttpProblem notFound(Context ctx) {
+        return new HttpProblem(404, "not-found", "Not found", "path",
+                "path: no resource at " + ctx.method() + " " + ctx.path());
+    }
+
+    private static HttpProblem methodNotAllowed(Context ctx) {
+        return new HttpProblem(405, "method-not-allowed", "Method not allowed", "method",
+                "method: " + ctx.method() + " is not allowed on " + ctx.path());
     }
 
     private static String safeDetail(HttpResponseException e) {
