@@ -66,6 +66,13 @@ final class PoseStreams {
      * event.
      */
     void start(Context ctx, String vehicleId, VehicleSession session) {
+        String accept = ctx.header("Accept");
+        if (accept == null || !accept.contains("text/event-stream")) {
+            // Javalin's SSE handler serves only clients that ask for an event stream (as EventSource
+            // does); anything else would get an empty 200, so say what is missing instead.
+            throw new HttpProblem(406, "not-acceptable", "Not acceptable", "Accept",
+                    "Accept: must include text/event-stream, was " + (accept == null ? "missing" : "'" + accept + "'"));
+        }
         if (closing) {
             throw HttpProblem.unavailable("stream", "stream: the service is shutting down");
         }
