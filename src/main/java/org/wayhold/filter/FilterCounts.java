@@ -10,7 +10,9 @@ package org.wayhold.filter;
  * @param fixesUnusable      fixes without a solution
  * @param velocityGated      GNSS speed/course pairs that failed their gate
  * @param covarianceRepairs  times the covariance had to be made positive definite again
+ * @param resets             times position and yaw were started afresh because fixes that agreed with
+ *                           each other lay far outside the covariance
  */
 public record FilterCounts(long fixesUsed, long fixesGated, long fixesPending, long fixesDropped,
-                           long fixesUnusable, long velocityGated, long covarianceRepairs) {
+                           long fixesUnusable, long velocityGated, long covarianceRepairs, long resets) {
 }

@@ -9,6 +9,9 @@ import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.Arrays;
 import org.wayhold.geo.Angles;
 import org.wayhold.sample.FixType;
@@ -47,6 +50,15 @@ public final class NavigationFilter {
      * speed the height changes by up to about 0.5 m/s (common practice, not a published figure).
      */
     private static final double UP_RANDOM_WALK_M2_PER_S = 0.25;
+    /**
+     * A reacquisition whose normalised innovation squared exceeds this restarts position and yaw
+     * instead of correcting them: about 30 sigma, far beyond any honest covariance.
+     */
+    private static final double RESET_NIS = 900.0;
+    /** Largest gyro bias kept across a reset (rad/s): 5 deg/s, far beyond automotive yaw-rate sensors. */
+    private static final double PLAUSIBLE_BIAS_RAD_PER_S = Math.toRadians(5.0);
+    /** Largest wheel-speed scale error kept across a reset (unitless): 20%, beyond any tyre. */
+    private static final double PLAUSIBLE_SCALE_ERROR = 0.2;
 
     private final FilterSettings settings;
     private final VehicleProfile profile;
@@ -73,11 +85,13 @@ public final class NavigationFilter {
     private double lastUsedFixTRel = Double.NaN;
     private double lastFixTRel = Double.NaN;
     private double odometerAtLastUsedFixM = Double.NaN;
-    private GnssOutcome lastOutcome;
+    private GnssOutcome.Kind lastKind;
+    private double lastNis = Double.NaN;
 
     /** Initial position anchor while the yaw is still unknown. */
     private double anchorEastM = Double.NaN;
     private double anchorNorthM = Double.NaN;
+    private double anchorOdometerM = Double.NaN;
 
     /** Reacquisition: fixes held back after a gap or a gated fix. */
     private Probation probation = Probation.NONE;
@@ -91,6 +105,7 @@ public final class NavigationFilter {
     private long fixesUnusable;
     private long velocityGated;
     private long covarianceRepairs;
+    private long resets;
 
     // Work arrays, allocated once so a step allocates nothing.
     private final double[] xNext = new double[SIZE];
@@ -106,8 +121,11 @@ public final class NavigationFilter {
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
-    /** Per held fix: east innovation, north innovation, white variance, P_ee, P_nn, time. */
-    private static final int PENDING_FIELDS = 6;
+    /** Version of the layout {@link #writeState} writes. */
+    private static final int STATE_FORMAT = 1;
+
+    /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
+    private static final int PENDING_FIELDS = 5;
 
     public NavigationFilter(FilterSettings settings, GatingSettings gating, OutageSettings outage,
                             VehicleProfile profile) {
@@ -155,9 +173,12 @@ public final class NavigationFilter {
         lastUsedFixTRel = o.lastUsedFixTRel;
         lastFixTRel = o.lastFixTRel;
         odometerAtLastUsedFixM = o.odometerAtLastUsedFixM;
-        lastOutcome = o.lastOutcome;
+        lastKind = o.lastKind;
+        lastNis = o.lastNis;
         anchorEastM = o.anchorEastM;
         anchorNorthM = o.anchorNorthM;
+        anchorOdometerM = o.anchorOdometerM;
+        resets = o.resets;
         probation = o.probation;
         pendingCount = o.pendingCount;
         for (int i = 0; i < pendingCount; i++) {
@@ -170,6 +191,109 @@ public final class NavigationFilter {
         fixesUnusable = o.fixesUnusable;
         velocityGated = o.velocityGated;
         covarianceRepairs = o.covarianceRepairs;
+    }
+
+    /**
+     * Writes the whole mutable state, bit for bit, for snapshots that must restore the filter exactly.
+     * The settings are not written: {@link #readState} needs a filter built with the same settings.
+     * Keep in step with {@link #restore(NavigationFilter)}.
+     */
+    public void writeState(DataOutput out) throws IOException {
+        out.writeInt(STATE_FORMAT);
+        for (double v : x) {
+            out.writeDouble(v);
+        }
+        for (double v : p) {
+            out.writeDouble(v);
+        }
+        out.writeBoolean(initialized);
+        double[] scalars = {tRel, upM, varUpM2, wheelSpeedMps, yawRateRadPerS, zeroSpeedSinceTRel, correlatedVarM2,
+            odometerM, lastUsedFixTRel, lastFixTRel, odometerAtLastUsedFixM, lastNis, anchorEastM, anchorNorthM,
+            anchorOdometerM};
+        out.writeInt(scalars.length);
+        for (double v : scalars) {
+            out.writeDouble(v);
+        }
+        out.writeBoolean(hasYawRate);
+        out.writeBoolean(standstill);
+        out.writeInt(lastKind == null ? -1 : lastKind.ordinal());
+        out.writeInt(probation.ordinal());
+        out.writeInt(pendingCount);
+        for (int i = 0; i < pendingCount; i++) {
+            for (double v : pending[i]) {
+                out.writeDouble(v);
+            }
+        }
+        long[] counts = {fixesUsed, fixesGated, fixesPending, fixesDropped, fixesUnusable, velocityGated,
+            covarianceRepairs, resets};
+        out.writeInt(counts.length);
+        for (long v : counts) {
+            out.writeLong(v);
+        }
+    }
+
+    /**
+     * Reads what {@link #writeState} wrote into this filter, which must have the same settings.
+     *
+     * @throws IOException when the data is not a filter state of this format
+     */
+    public void readState(DataInput in) throws IOException {
+        int format = in.readInt();
+        if (format != STATE_FORMAT) {
+            throw new IOException("filter state: format " + format + ", expected " + STATE_FORMAT);
+        }
+        for (int i = 0; i < SIZE; i++) {
+            x[i] = in.readDouble();
+        }
+        for (int i = 0; i < SIZE * SIZE; i++) {
+            p[i] = in.readDouble();
+        }
+        initialized = in.readBoolean();
+        int n = in.readInt();
+        if (n != 15) {
+            throw new IOException("filter state: " + n + " scalars, expected 15");
+        }
+        tRel = in.readDouble();
+        upM = in.readDouble();
+        varUpM2 = in.readDouble();
+        wheelSpeedMps = in.readDouble();
+        yawRateRadPerS = in.readDouble();
+        zeroSpeedSinceTRel = in.readDouble();
+        correlatedVarM2 = in.readDouble();
+        odometerM = in.readDouble();
+        lastUsedFixTRel = in.readDouble();
+        lastFixTRel = in.readDouble();
+        odometerAtLastUsedFixM = in.readDouble();
+        lastNis = in.readDouble();
+        anchorEastM = in.readDouble();
+        anchorNorthM = in.readDouble();
+        anchorOdometerM = in.readDouble();
+        hasYawRate = in.readBoolean();
+        standstill = in.readBoolean();
+        int kind = in.readInt();
+        lastKind = kind < 0 ? null : GnssOutcome.Kind.values()[kind];
+        probation = Probation.values()[in.readInt()];
+        pendingCount = in.readInt();
+        if (pendingCount < 0 || pendingCount > reacquireFixes) {
+            throw new IOException("filter state: " + pendingCount + " held fixes, more than " + reacquireFixes);
+        }
+        for (int i = 0; i < pendingCount; i++) {
+            for (int j = 0; j < PENDING_FIELDS; j++) {
+                pending[i][j] = in.readDouble();
+            }
+        }
+        int c = in.readInt();
+        if (c != 8) {
+            throw new IOException("filter state: " + c + " counters, expected 8");
+        }
+        fixesUsed = in.readLong();
+        fixesGated = in.readLong();
+        fixesPending = in.readLong();
+        fixesDropped = in.readLong();
+        fixesUnusable = in.readLong();
+        velocityGated = in.readLong();
+        covarianceRepairs = in.readLong();
+        resets = in.readLong();
     }
 
     /**
@@ -253,7 +377,7 @@ public final class NavigationFilter {
     }
 
     private void propagate(double dt) {
-        odometerM += Math.abs(x[SPEED_SCALE] * wheelSpeedMps) * dt;
+        odometerM += Math.abs((initialized ? x[SPEED_SCALE] : keptScale()) * wheelSpeedMps) * dt;
         if (!initialized) {
             return;
         }
@@ -332,10 +456,20 @@ public final class NavigationFilter {
      * @return the decision, never null
      */
     public GnssOutcome updateGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+        GnssOutcome.Kind kind = correct(fix, eastM, northM, fixUpM);
+        return outcome(kind, lastNis);
+    }
+
+    /**
+     * As {@link #updateGnss} but returns only the decision, allocating nothing: the hot path of
+     * replays. The normalised innovation squared is {@link #lastNis()}.
+     */
+    public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double fixUpM) {
         lastFixTRel = tRel;
-        GnssOutcome outcome = decideGnss(fix, eastM, northM, fixUpM);
-        lastOutcome = outcome;
-        switch (outcome.kind()) {
+        lastNis = Double.NaN;
+        GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, fixUpM);
+        lastKind = kind;
+        switch (kind) {
             case ACCEPTED, REACQUIRED, INITIALIZING -> {
                 fixesUsed++;
                 lastUsedFixTRel = tRel;
@@ -344,14 +478,23 @@ public final class NavigationFilter {
             case GATED -> fixesGated++;
             case PENDING -> fixesPending++;
             case UNUSABLE -> fixesUnusable++;
-            default -> throw new IllegalStateException("unhandled outcome " + outcome.kind());
+            default -> throw new IllegalStateException("unhandled outcome " + kind);
         }
-        return outcome;
+        return kind;
     }
 
-    private GnssOutcome decideGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
+    /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
+    public double lastNis() {
+        return lastNis;
+    }
+
+    private GnssOutcome outcome(GnssOutcome.Kind kind, double nis) {
+        return new GnssOutcome(kind, nis, Double.isNaN(nis) ? Double.NaN : gateThreshold);
+    }
+
+    private GnssOutcome.Kind decideGnss(GnssFix fix, double eastM, double northM, double fixUpM) {
         if (fix.fix() == FixType.NONE) {
-            return new GnssOutcome(GnssOutcome.Kind.UNUSABLE, Double.NaN, Double.NaN);
+            return GnssOutcome.Kind.UNUSABLE;
         }
         double sigma = horizontalSigmaM(fix);
         double var = sigma * sigma;
@@ -368,6 +511,7 @@ public final class NavigationFilter {
             pendingCount = 0;
         }
         double nis = positionInnovation(eastM, northM, whiteVar);
+        lastNis = nis;
         boolean passes = nis <= gateThreshold;
         GnssOutcome.Kind kind;
         if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
@@ -384,6 +528,10 @@ public final class NavigationFilter {
             }
         } else {
             hold(whiteVar);
+            if (pendingCount >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible())) {
+                reset(eastM, northM);
+                return GnssOutcome.Kind.INITIALIZING;
+            }
             if (pendingCount >= reacquireFixes) {
                 // Enough consecutive fixes agree: take the newest, whatever the gate says, so a filter
                 // that drifted further than its covariance admits is pulled back.
@@ -399,7 +547,7 @@ public final class NavigationFilter {
         if (kind == GnssOutcome.Kind.ACCEPTED || kind == GnssOutcome.Kind.REACQUIRED) {
             velocityUpdate(fix);
         }
-        return new GnssOutcome(kind, nis, gateThreshold);
+        return kind;
     }
 
     /**
@@ -433,21 +581,23 @@ public final class NavigationFilter {
 
     /**
      * Holds the current fix's innovation for the agreement test. Consecutive fixes share the
-     * prediction error, so the difference of two innovations has covariance R1 + R2 plus the process
-     * noise added between them; a difference outside the chi-square gate means they disagree, and the
-     * older ones are dropped.
+     * prediction error, so the difference of two innovations only carries the fixes' white noise, the
+     * change of the correlated GNSS error between them, and the error of the relative motion the wheels
+     * and gyro predicted: distance driven times the yaw and scale uncertainty. A difference outside the
+     * chi-square gate means they disagree, and the older ones are dropped.
      */
     private void hold(double whiteVar) {
-        double pee = p[EAST * SIZE + EAST];
-        double pnn = p[NORTH * SIZE + NORTH];
+        double relVarPerM2 = Math.max(p[YAW * SIZE + YAW], 0.0) + Math.max(p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0);
         // Newest first: a disagreement drops that fix and every older one.
         for (int i = pendingCount - 1; i >= 0; i--) {
             double[] q = pending[i];
             double de = nu[0] - q[0];
             double dn = nu[1] - q[1];
-            double vee = whiteVar + q[2] + Math.abs(pee - q[3]);
-            double vnn = whiteVar + q[2] + Math.abs(pnn - q[4]);
-            if (de * de / vee + dn * dn / vnn > gateThreshold) {
+            double driven = odometerM - q[3];
+            double gmChange = 2.0 * correlatedVarM2
+                    * (1.0 - Math.exp(-(tRel - q[4]) / settings.gnssCorrelationTimeS()));
+            double v = whiteVar + q[2] + driven * driven * relVarPerM2 + gmChange;
+            if ((de * de + dn * dn) / v > gateThreshold) {
                 int drop = i + 1;
                 fixesDropped += drop;
                 for (int j = 0; j < pendingCount - drop; j++) {
@@ -470,9 +620,8 @@ public final class NavigationFilter {
         slot[0] = nu[0];
         slot[1] = nu[1];
         slot[2] = whiteVar;
-        slot[3] = pee;
-        slot[4] = pnn;
-        slot[5] = tRel;
+        slot[3] = odometerM;
+        slot[4] = tRel;
     }
 
     /**
@@ -536,7 +685,7 @@ public final class NavigationFilter {
      * course when the vehicle moves fast enough, else from the displacement between fixes once it
      * exceeds the configured distance while the wheels say the vehicle moves.
      */
-    private GnssOutcome initializeFrom(GnssFix fix, double eastM, double northM, double fixUpM, double var) {
+    private GnssOutcome.Kind initializeFrom(GnssFix fix, double eastM, double northM, double fixUpM, double var) {
         updateUp(fix, fixUpM, Math.sqrt(var));
         double yaw = Double.NaN;
         double yawVar = Double.NaN;
@@ -554,7 +703,12 @@ public final class NavigationFilter {
             double de = eastM - anchorEastM;
             double dn = northM - anchorNorthM;
             double dist = Math.hypot(de, dn);
-            if (dist >= settings.headingInitMinDistanceM()) {
+            double odo = odometerM - anchorOdometerM;
+            // The displacement must agree with the wheels' distance, or one of the two fixes is an
+            // outlier and the direction between them means nothing: 3 sigma of two fixes plus 20% of
+            // the distance for an uncalibrated scale and curved paths.
+            boolean agrees = Math.abs(dist - odo) <= 3.0 * Math.sqrt(2.0 * var) + 0.2 * odo;
+            if (dist >= settings.headingInitMinDistanceM() && agrees) {
                 yaw = Math.atan2(dn, de);
                 if (wheelSpeedMps < 0.0) {
                     yaw = Angles.wrapPi(yaw + Math.PI);
@@ -562,18 +716,25 @@ public final class NavigationFilter {
                 // Two fixes, each with variance var per axis, across dist: the direction's error.
                 double sigma = Math.atan2(Math.sqrt(2.0 * var), dist);
                 yawVar = Math.max(sigma * sigma, settings.initialYawSigmaRad() * settings.initialYawSigmaRad());
+            } else if (!agrees) {
+                anchorEastM = Double.NaN;
             }
         }
         if (Double.isNaN(yaw)) {
             if (Double.isNaN(anchorEastM) || Math.abs(wheelSpeedMps) < MOVING_SPEED_MPS) {
                 anchorEastM = eastM;
                 anchorNorthM = northM;
+                anchorOdometerM = odometerM;
             }
-            return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+            return GnssOutcome.Kind.INITIALIZING;
         }
         double share = settings.gnssCorrelatedShare();
         double corrVar = share * var;
         correlatedVarM2 = corrVar;
+        double bias = keptBias();
+        double scale = keptScale();
+        double biasVar = keptBiasVar();
+        double scaleVar = keptScaleVar();
         Arrays.fill(x, 0.0);
         Arrays.fill(p, 0.0);
         // The fix is position + correlated error + white noise; with the error's estimate at zero, the
@@ -586,8 +747,8 @@ public final class NavigationFilter {
         x[EAST] = eastM - (fwd * c - left * s);
         x[NORTH] = northM - (fwd * s + left * c);
         x[YAW] = Angles.wrapPi(yaw);
-        x[GYRO_BIAS] = 0.0;
-        x[SPEED_SCALE] = 1.0;
+        x[GYRO_BIAS] = bias;
+        x[SPEED_SCALE] = scale;
         p[EAST * SIZE + EAST] = var;
         p[NORTH * SIZE + NORTH] = var;
         p[EAST * SIZE + GNSS_ERR_EAST] = -corrVar;
@@ -597,14 +758,56 @@ public final class NavigationFilter {
         p[GNSS_ERR_EAST * SIZE + GNSS_ERR_EAST] = corrVar;
         p[GNSS_ERR_NORTH * SIZE + GNSS_ERR_NORTH] = corrVar;
         p[YAW * SIZE + YAW] = yawVar;
-        double b0 = settings.initialGyroBiasSigmaRadPerS();
-        p[GYRO_BIAS * SIZE + GYRO_BIAS] = b0 * b0;
-        double s0 = settings.initialSpeedScaleSigma();
-        p[SPEED_SCALE * SIZE + SPEED_SCALE] = s0 * s0;
+        p[GYRO_BIAS * SIZE + GYRO_BIAS] = biasVar;
+        p[SPEED_SCALE * SIZE + SPEED_SCALE] = scaleVar;
         initialized = true;
         probation = Probation.NONE;
         pendingCount = 0;
-        return new GnssOutcome(GnssOutcome.Kind.INITIALIZING, Double.NaN, Double.NaN);
+        return GnssOutcome.Kind.INITIALIZING;
+    }
+
+    /**
+     * Calibration survives a reset when it is plausible: the bias within {@link #PLAUSIBLE_BIAS_RAD_PER_S}
+     * and the scale within {@link #PLAUSIBLE_SCALE_ERROR} of 1. Before the first initialisation the
+     * state is all zeros and the scale counts as implausible, so the configured priors apply.
+     */
+    private boolean calibrationPlausible() {
+        return Math.abs(x[GYRO_BIAS]) <= PLAUSIBLE_BIAS_RAD_PER_S
+                && Math.abs(x[SPEED_SCALE] - 1.0) <= PLAUSIBLE_SCALE_ERROR;
+    }
+
+    private double keptBias() {
+        return calibrationPlausible() ? x[GYRO_BIAS] : 0.0;
+    }
+
+    private double keptScale() {
+        return calibrationPlausible() ? x[SPEED_SCALE] : 1.0;
+    }
+
+    private double keptBiasVar() {
+        double b0 = settings.initialGyroBiasSigmaRadPerS();
+        return calibrationPlausible() ? Math.max(p[GYRO_BIAS * SIZE + GYRO_BIAS], 0.0) : b0 * b0;
+    }
+
+    private double keptScaleVar() {
+        double s0 = settings.initialSpeedScaleSigma();
+        return calibrationPlausible() ? Math.max(p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0) : s0 * s0;
+    }
+
+    /**
+     * Starts position and yaw afresh from the fixes that follow, keeping a plausible calibration. Used
+     * when consecutive agreeing fixes sit so far outside the covariance that the estimate cannot be
+     * trusted at all (a wrong initial yaw from an outlier, for example): no correction of such a state
+     * is meaningful.
+     */
+    private void reset(double eastM, double northM) {
+        resets++;
+        initialized = false;
+        probation = Probation.NONE;
+        pendingCount = 0;
+        anchorEastM = eastM;
+        anchorNorthM = northM;
+        anchorOdometerM = odometerM;
     }
 
     /** S = H P H' + R for the first m rows of H; stores PH' in {@code ph} and S^-1 in {@code sInv}. */
@@ -775,8 +978,9 @@ public final class NavigationFilter {
                 p[EAST * SIZE + EAST], p[EAST * SIZE + NORTH], p[NORTH * SIZE + NORTH], p[YAW * SIZE + YAW],
                 p[GYRO_BIAS * SIZE + GYRO_BIAS], p[SPEED_SCALE * SIZE + SPEED_SCALE],
                 Double.isFinite(varUpM2) ? varUpM2 : Double.NaN, initialized ? speed : wheelSpeedMps, rate,
-                standstill, odometerM, lastUsedFixTRel, lastFixTRel, lastOutcome, odometerAtLastUsedFixM,
+                standstill, odometerM, lastUsedFixTRel, lastFixTRel,
+                lastKind == null ? null : outcome(lastKind, lastNis), odometerAtLastUsedFixM,
                 new FilterCounts(fixesUsed, fixesGated, fixesPending, fixesDropped, fixesUnusable, velocityGated,
-                        covarianceRepairs));
+                        covarianceRepairs, resets));
     }
 }

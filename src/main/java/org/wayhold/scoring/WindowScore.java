@@ -10,6 +10,7 @@ package org.wayhold.scoring;
  * @param errorPct         final error as a percentage of the distance (%), NaN when the distance is 0
  * @param inside95         fraction of evaluation times the reference lay inside the 95% ellipse (0..1)
  * @param meanNees         mean normalised estimation error squared of the horizontal position (unitless)
+ * @param finalNees        normalised estimation error squared at the end of the window (unitless)
  * @param timeToAlertS     time from the start until the error first passed the alert limit (s), NaN if never
  * @param timeToUnreliableS time from the start until the state turned {@code unreliable} (s), NaN if never
  * @param missedAlert      true when the error passed the alert limit before the state turned {@code unreliable}
@@ -18,9 +19,17 @@ package org.wayhold.scoring;
  * @param endEastM         estimated east at the end (m)
  * @param endNorthM        estimated north at the end (m)
  * @param samples          evaluation times in the window (count)
+ * @param finalT           time of the last evaluation (s, vehicle clock): the window's end on a regular
+ *                         step, the last withheld fix when the reference is the fixes; NaN if none
+ * @param finalEastM       estimated east at {@code finalT} (m), the position {@code finalErrorM} is of
+ * @param finalNorthM      estimated north at {@code finalT} (m)
+ * @param refEastM         reference east at {@code finalT} (m)
+ * @param refNorthM        reference north at {@code finalT} (m)
  */
 public record WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
-                          double errorPct, double inside95, double meanNees, double timeToAlertS,
+                          double errorPct, double inside95, double meanNees, double finalNees, double timeToAlertS,
                           double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
-                          double crossTrackErrorM, double endEastM, double endNorthM, int samples) {
+                          double crossTrackErrorM, double endEastM, double endNorthM, int samples,
+                          double finalT, double finalEastM, double finalNorthM, double refEastM,
+                          double refNorthM) {
 }

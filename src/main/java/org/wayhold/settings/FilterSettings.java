@@ -115,8 +115,8 @@ public record FilterSettings(
                 Math.toRadians(0.002), 2.0e-5,
                 Math.toRadians(5.0), Math.toRadians(0.5), 0.03,
                 0.3, 4.0, 3.0, defaultFixScale(),
-                0.65, 40.0,
-                3.0, 0.15, 4.0,
+                0.6, 40.0,
+                3.0, 0.15, 3.0,
                 0.5, 5.0);
     }
 }

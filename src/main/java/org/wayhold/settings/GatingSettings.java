@@ -16,6 +16,6 @@ public record GatingSettings(double chiSquareProbability, int reacquireFixes) {
     }
 
     public static GatingSettings defaults() {
-        return new GatingSettings(0.999, 3);
+        return new GatingSettings(0.999, 4);
     }
 }

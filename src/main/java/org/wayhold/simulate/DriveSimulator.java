@@ -162,7 +162,7 @@ public final class DriveSimulator {
                 double uHdop = rnd.receiver.uniform(0.0, 1.0);
                 int satsDrop = rnd.receiver.uniformInt(0, 2);
 
-                if (!inside(tunnels, i, 0)) {
+                if (!inside(tunnels, i)) {
                     double ts = i * Route.TICK_S;
                     double hdop = 0.8 + 0.4 * (0.5 + 0.5 * StrictMath.sin(2 * Math.PI * ts / HDOP_PERIOD_S + hdopPhase));
                     int sats = 8 + (int) Math.round(4 * (0.5 + 0.5 * StrictMath.sin(
@@ -170,13 +170,13 @@ public final class DriveSimulator {
                     FixType fix = FixType.THREE_D;
                     GnssFault.Kind kind = null;
                     double sizeM = 0.0;
-                    if (inside(tunnels, i, -multipathTicks) && multipathTicks > 0) {
+                    if (justAfter(tunnels, i, multipathTicks)) {
                         kind = GnssFault.Kind.EXIT_MULTIPATH;
                         sizeM = gs.multipathMinM() + uSize * (gs.multipathMaxM() - gs.multipathMinM());
                         hdop = 2.0 + 2.0 * uHdop;
                         sats = 4 + satsDrop;
                         fix = sats == 4 ? FixType.TWO_D : FixType.THREE_D;
-                    } else if (inside(canyons, i, 0)) {
+                    } else if (inside(canyons, i)) {
                         hdop = 1.5 + 1.5 * uHdop;
                         sats = 5 + satsDrop;
                         if (uDrop < gs.canyonDropProbability()) {
@@ -236,10 +236,20 @@ public final class DriveSimulator {
                 speed, course);
     }
 
-    /** Whether tick i lies in one of the windows shifted by {@code shift} ticks (negative: after the end). */
-    private static boolean inside(List<long[]> windows, long i, long shift) {
+    /** Whether tick i lies in one of the {@code [start, end)} windows. */
+    private static boolean inside(List<long[]> windows, long i) {
         for (long[] w : windows) {
-            if (shift == 0 ? (i >= w[0] && i < w[1]) : (i >= w[1] && i < w[1] - shift)) {
+            if (i >= w[0] && i < w[1]) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /** Whether tick i lies in the first {@code ticks} ticks after the end of one of the windows. */
+    private static boolean justAfter(List<long[]> windows, long i, long ticks) {
+        for (long[] w : windows) {
+            if (i >= w[1] && i < w[1] + ticks) {
                 return true;
             }
         }

@@ -25,6 +25,12 @@ public final class AccuracyStudyMain {
                     l.lengthS(), l.count(), l.medianFinalM(), l.p95FinalM(), l.medianPct(), l.inside95(),
                     l.meanNees(), l.alerts(), l.missedAlerts());
         }
+        System.out.printf(Locale.ROOT, "open-sky NEES per drive mean %.2f%n",
+                java.util.Arrays.stream(f.openSkyNeesPerDrive()).average().orElse(Double.NaN));
+        for (double len : AccuracyStudy.LENGTHS_S) {
+            System.out.printf(Locale.ROOT, "final NEES %.0f s: %.2f%n", len, f.firstWindows().stream()
+                    .filter(w -> w.window().lengthS() == len).mapToDouble(w -> w.finalNees()).average().orElse(Double.NaN));
+        }
         System.out.printf(Locale.ROOT, "%.1f s%n", (System.nanoTime() - t0) / 1e9);
     }
 }

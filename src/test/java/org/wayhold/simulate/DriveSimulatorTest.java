@@ -5,6 +5,7 @@ import static org.assertj.core.api.Assertions.assertThatThrownBy;
 import static org.assertj.core.api.Assertions.within;
 
 import java.util.List;
+import org.apache.commons.math3.distribution.BinomialDistribution;
 import org.junit.jupiter.api.Test;
 import org.wayhold.geo.Enu;
 import org.wayhold.sample.GnssFix;
@@ -122,6 +123,36 @@ class DriveSimulatorTest {
     }
 
     @Test
+    void urbanCanyonsDropAndSpoilFixesAtTheConfiguredRates() {
+        SimulationSettings s = SimulationSettings.defaults().withMinutes(10).withCanyonsS(120, 120);
+        SimulatedDrive d = DriveSimulator.simulate(s, 14L);
+        assertThat(d.canyons()).hasSize(2);
+        // 240 s of canyon at 5 Hz: 1200 fix instants.
+        int instants = 1200;
+        long dropped = d.faults().stream().filter(f -> f.kind() == GnssFault.Kind.CANYON_DROPPED).count();
+        long spoiled = d.faults().stream().filter(f -> f.kind() == GnssFault.Kind.CANYON_MULTIPATH).count();
+        // Each instant is dropped with probability 0.2, else spoiled with probability 0.3
+        // (GnssSettings.defaults()): binomial counts, bounded by their central 99.9% from Commons Math.
+        BinomialDistribution drop = new BinomialDistribution(instants, 0.2);
+        assertThat(dropped).isBetween((long) drop.inverseCumulativeProbability(0.0005),
+                (long) drop.inverseCumulativeProbability(0.9995));
+        int kept = instants - (int) dropped;
+        BinomialDistribution spoil = new BinomialDistribution(kept, 0.3);
+        assertThat(spoiled).isBetween((long) spoil.inverseCumulativeProbability(0.0005),
+                (long) spoil.inverseCumulativeProbability(0.9995));
+        List<GnssFix> inside = d.samplesOf(GnssFix.class).stream()
+                .filter(f -> d.canyons().stream().anyMatch(w -> w.contains(f.t()))).toList();
+        assertThat(inside).hasSize(kept);
+        assertThat(inside).allSatisfy(f -> {
+            assertThat(f.hdop()).isBetween(1.5, 3.0);
+            assertThat(f.sats()).isBetween(5, 7);
+        });
+        // No outliers are mixed into the canyons: every fault in a canyon is a canyon fault.
+        assertThat(d.faults()).filteredOn(f -> d.canyons().stream().anyMatch(w -> w.contains(f.t())))
+                .allSatisfy(f -> assertThat(f.kind().name()).startsWith("CANYON"));
+    }
+
+    @Test
     void perfectSensorsReadTheTruthExactly() {
         SimulationSettings s = TEN_MINUTES_TWO_TUNNELS.perfectSensors();
         s = s.withGnss(s.gnss().withLeverArm(1.2, 0.3, 1.5));
@@ -142,6 +173,11 @@ class DriveSimulatorTest {
             assertThat(measured.northM()).isCloseTo(antenna.northM(), within(1e-6));
             assertThat(measured.upM()).isCloseTo(1.5, within(1e-6));
             Truth tr = d.truthAt(f.t());
+            if (tr.speedMps() == 0.0) {
+                // Standing still there is no direction of travel: course is left out (below 1 m/s).
+                assertThat(f.hasCourse()).isFalse();
+                assertThat(f.speedMps()).isZero();
+            }
             if (tr.speedMps() < -1.2) {
                 // Reversing: the course over ground points backwards, opposite the heading.
                 reversingFixes++;

@@ -1,0 +1,112 @@
+package org.wayhold.accuracy;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.util.Arrays;
+import java.util.List;
+import org.apache.commons.math3.distribution.ChiSquaredDistribution;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.wayhold.scoring.WindowScore;
+import org.wayhold.settings.Settings;
+
+/**
+ * Acceptance test of the fusion core on seeded simulated drives with the simulator's default sensors
+ * (wheel-speed scale error 1%, gyro bias 0.2 deg/s with a slow random walk, GNSS about 1 m per axis of
+ * which most is time-correlated, speeds 10-20 m/s). Every outage window starts after at least 150 s
+ * of aided driving with turns, a standstill and a reversing move.
+ *
+ * <p>The targets come from a dead-reckoning error budget with online calibration (Groves,
+ * <i>Principles of GNSS, Inertial, and Multisensor Integrated Navigation Systems</i>, 2nd ed., ch. 6
+ * and 16): residual bias b gives v b T^2 / 2 across the track, heading error at entry v psi0 T, scale
+ * error s v T. The consistency checks follow Bar-Shalom, Li, Kirubarajan, <i>Estimation with
+ * Applications to Tracking and Navigation</i>, 2001, sec. 5.4.
+ */
+class FilterAccuracyTest {
+
+    /** 50 independent drives: the NEES test's N; 3 windows each give 150 outages per length. */
+    private static final int DRIVES = 50;
+    private static AccuracyStudy.Figures figures;
+
+    @BeforeAll
+    static void runStudy() {
+        figures = AccuracyStudy.run(Settings.defaults(), DRIVES, 10, 5000);
+    }
+
+    private static AccuracyStudy.LengthFigures length(double seconds) {
+        return figures.lengths().stream().filter(l -> l.lengthS() == seconds).findFirst().orElseThrow();
+    }
+
+    @Test
+    void atLeastAHundredOutagesPerLengthAreScored() {
+        for (double len : AccuracyStudy.LENGTHS_S) {
+            assertThat(length(len).count()).as("outages of %s s", len).isGreaterThanOrEqualTo(100);
+        }
+    }
+
+    @Test
+    void driftStaysWithinTheTargetsOfTheErrorBudget() {
+        // Targets of the fusion-core issue, derived from the error budget cited in the class comment.
+        assertThat(length(10).medianFinalM()).isLessThanOrEqualTo(1.0);
+        assertThat(length(10).p95FinalM()).isLessThanOrEqualTo(2.5);
+        assertThat(length(30).medianFinalM()).isLessThanOrEqualTo(2.5);
+        assertThat(length(30).medianPct()).isLessThanOrEqualTo(0.55);
+        assertThat(length(30).p95FinalM()).isLessThanOrEqualTo(6.0);
+        assertThat(length(60).medianFinalM()).isLessThanOrEqualTo(6.0);
+        assertThat(length(60).p95FinalM()).isLessThanOrEqualTo(15.0);
+        assertThat(length(120).medianFinalM()).isLessThanOrEqualTo(20.0);
+        assertThat(length(120).p95FinalM()).isLessThanOrEqualTo(45.0);
+    }
+
+    @Test
+    void openSkyFusionBeatsTheRawFixes() {
+        // Target: at most 60% of the raw fixes' RMS error on the same drives.
+        assertThat(figures.openSkyRmsM()).isLessThanOrEqualTo(0.6 * figures.rawFixRmsM());
+    }
+
+    @Test
+    void calibrationConvergesBeforeTheFirstOutage() {
+        assertThat(figures.maxBiasErrDegPerS()).isLessThanOrEqualTo(0.02);
+        assertThat(figures.maxScaleErr()).isLessThanOrEqualTo(0.002);
+    }
+
+    @Test
+    void theTruthLiesInsideThe95PercentEllipseAsOftenAsItShould() {
+        // Binomial 95% band for 100 outages of a consistent filter is [0.90, 0.99]
+        // (reference-checks.md); too large a covariance fails as surely as too small a one.
+        for (double len : AccuracyStudy.LENGTHS_S) {
+            assertThat(length(len).inside95()).as("inside95 of %s s outages", len).isBetween(0.90, 0.99);
+        }
+    }
+
+    @Test
+    void theStateTurnsUnreliableBeforeTheErrorPassesTheAlertLimit() {
+        for (double len : AccuracyStudy.LENGTHS_S) {
+            AccuracyStudy.LengthFigures l = length(len);
+            double timely = 1.0 - (double) l.missedAlerts() / l.count();
+            assertThat(timely).as("outages of %s s without a missed alert", len).isGreaterThanOrEqualTo(0.95);
+        }
+    }
+
+    @Test
+    void meanNeesOverIndependentRunsLiesInsideTheChiSquareInterval() {
+        // Bar-Shalom et al. sec. 5.4: N runs of a 2-dimensional NEES; their sum is chi-square with 2N
+        // degrees of freedom, so the mean lies in [chi2_2N(0.025), chi2_2N(0.975)] / N with 95%.
+        // For N = 50 that is [1.48, 2.59] (reference-checks.md); the bounds come from Commons Math.
+        ChiSquaredDistribution chi2 = new ChiSquaredDistribution(2.0 * DRIVES);
+        double lo = chi2.inverseCumulativeProbability(0.025) / DRIVES;
+        double hi = chi2.inverseCumulativeProbability(0.975) / DRIVES;
+        assertThat(lo).isCloseTo(1.48, org.assertj.core.data.Offset.offset(0.01));
+        assertThat(hi).isCloseTo(2.59, org.assertj.core.data.Offset.offset(0.01));
+
+        double openSky = Arrays.stream(figures.openSkyNeesPerDrive()).average().orElseThrow();
+        assertThat(openSky).as("open-sky mean NEES over %d drives", DRIVES).isBetween(lo, hi);
+        for (double len : AccuracyStudy.LENGTHS_S) {
+            List<WindowScore> runs = figures.firstWindows().stream()
+                    .filter(w -> w.window().lengthS() == len).toList();
+            assertThat(runs).hasSize(DRIVES);
+            double mean = runs.stream().mapToDouble(WindowScore::finalNees).average().orElseThrow();
+            assertThat(mean).as("mean NEES at the end of %s s outages", len).isBetween(lo, hi);
+        }
+    }
+}

@@ -1,0 +1,177 @@
+package org.wayhold.ordering;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.SplittableRandom;
+import org.junit.jupiter.api.Test;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.Sample;
+import org.wayhold.sample.WheelSpeed;
+import org.wayhold.sample.YawRate;
+import org.wayhold.settings.OrderingSettings;
+
+/**
+ * Time ordering against its definition: whatever the arrival order within the window, the consumer
+ * ends up having applied exactly the in-order sequence (by time, then wheel speed, yaw rate, GNSS).
+ * The consumer here is a plain list, so "identical to in-order processing" is a list comparison.
+ */
+class ReorderBufferTest {
+
+    /** A consumer whose whole state is the list of samples it applied. */
+    private static final class Recorder implements Replayable<List<Sample>> {
+        final List<Sample> applied = new ArrayList<>();
+
+        @Override
+        public void apply(Sample sample) {
+            applied.add(sample);
+        }
+
+        @Override
+        public List<Sample> checkpoint() {
+            return List.copyOf(applied);
+        }
+
+        @Override
+        public void restore(List<Sample> checkpoint) {
+            applied.clear();
+            applied.addAll(checkpoint);
+        }
+    }
+
+    private static List<Sample> streams(double t0, double seconds) {
+        List<Sample> out = new ArrayList<>();
+        for (int k = 0; k < seconds * 100; k++) {
+            double t = t0 + k / 100.0;
+            out.add(new YawRate(t, 0.001 * k));
+            if (k % 2 == 0) {
+                out.add(new WheelSpeed(t, 10.0 + 0.01 * k));
+            }
+            if (k % 20 == 0) {
+                out.add(GnssFix.position(t, 48.0 + 1e-6 * k, 11.0, 1.0));
+            }
+        }
+        return out;
+    }
+
+    @Test
+    void shuffledBatchesWithinTheWindowEndExactlyInOrder() {
+        List<Sample> all = streams(1.8e9, 30.0);
+        List<Sample> expected = new ArrayList<>(all);
+        expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
+
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        // Batches of 0.5 s of samples, each shuffled, with every GNSS fix held back by 1.2 s (latency):
+        // everything arrives at most 1.7 s late, inside the 2 s window.
+        SplittableRandom rnd = new SplittableRandom(31L);
+        List<Sample> delayedFixes = new ArrayList<>();
+        int i = 0;
+        while (i < all.size()) {
+            double end = all.get(i).t() + 0.5;
+            List<Sample> batch = new ArrayList<>();
+            while (i < all.size() && all.get(i).t() < end) {
+                Sample s = all.get(i++);
+                if (s instanceof GnssFix) {
+                    delayedFixes.add(s);
+                } else {
+                    batch.add(s);
+                }
+            }
+            double newest = batch.isEmpty() ? Double.NaN : batch.get(batch.size() - 1).t();
+            while (!delayedFixes.isEmpty() && delayedFixes.get(0).t() <= newest - 1.2) {
+                batch.add(delayedFixes.remove(0));
+            }
+            Collections.shuffle(batch, new java.util.Random(rnd.nextLong()));
+            List<Admission> admissions = buffer.submit(batch);
+            assertThat(admissions).allMatch(a -> a.kind() == Admission.Kind.APPLIED);
+        }
+        buffer.submit(delayedFixes);
+        assertThat(rec.applied).isEqualTo(expected);
+        assertThat(buffer.rewinds()).isPositive();
+        assertThat(buffer.rejected()).isZero();
+    }
+
+    @Test
+    void lateBeyondTheWindowIsRejectedWithHowLate() {
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        buffer.submit(streams(1000.0, 10.0));
+        List<Sample> before = List.copyOf(rec.applied);
+        // Newest is 1009.99 s; a sample at 1007.5 s is 2.49 s late.
+        List<Admission> a = buffer.submit(List.of(new YawRate(1007.5, 0.3)));
+        assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
+        assertThat(a.get(0).reason()).contains("late by 2.490 s");
+        assertThat(rec.applied).isEqualTo(before);
+        assertThat(buffer.rejected()).isEqualTo(1);
+    }
+
+    @Test
+    void exactDuplicatesAreIgnoredAndCountedButNearDuplicatesAreApplied() {
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        List<Sample> all = streams(1000.0, 5.0);
+        buffer.submit(all);
+        List<Sample> before = List.copyOf(rec.applied);
+        // The last second again, and one sample twice inside the same batch.
+        List<Sample> again = new ArrayList<>(all.subList(all.size() - 150, all.size()));
+        List<Admission> a = buffer.submit(again);
+        assertThat(a).allMatch(x -> x.kind() == Admission.Kind.DUPLICATE);
+        assertThat(rec.applied).isEqualTo(before);
+        assertThat(buffer.duplicates()).isEqualTo(150);
+
+        YawRate fresh = new YawRate(1005.0, 0.5);
+        List<Admission> b = buffer.submit(List.of(fresh, fresh, new YawRate(1005.0, 0.50001)));
+        assertThat(b).extracting(Admission::kind).containsExactly(Admission.Kind.APPLIED, Admission.Kind.DUPLICATE,
+                Admission.Kind.APPLIED);
+        assertThat(buffer.duplicates()).isEqualTo(151);
+    }
+
+    @Test
+    void aForwardJumpBeyondTheLimitIsRejected() {
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        buffer.submit(streams(1000.0, 1.0));
+        // Newest is 1000.99 s; the limit is 3600 s ahead of it.
+        List<Admission> a = buffer.submit(List.of(new WheelSpeed(1000.99 + 3600.5, 3.0)));
+        assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
+        assertThat(a.get(0).reason()).contains("3600.500 s ahead");
+        // The timeline did not move: an ordinary next sample is still applied.
+        List<Admission> b = buffer.submit(List.of(new WheelSpeed(1001.5, 3.0)));
+        assertThat(b.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
+        assertThat(buffer.newestT()).isEqualTo(1001.5);
+    }
+
+    /**
+     * Regression test for a bug in ReorderBuffer (fails on the code as of this commit, kept failing on
+     * purpose): trim() keeps the newest checkpoint whose last sample is at or before newest - max_lag
+     * ({@code second.lastT <= horizon}, ReorderBuffer.java line 201) and then shifts its keptBefore to 0;
+     * merge() takes any checkpoint with keptBefore == 0 as "before every sample" (line 145). A sample
+     * exactly max_lag late with the same time as that checkpoint's last sample but a lower type rank is
+     * then applied after it, out of order. Suggested fix: trim with {@code second.lastT < horizon}, so the
+     * kept checkpoint's last sample is strictly older than anything still admissible.
+     */
+    @Test
+    void aSampleExactlyMaxLagLateTakesItsPlaceBeforeALaterRankedSampleOfTheSameTime() {
+        // Times on a 0.25 s grid (exact in binary) so a checkpoint's last sample can sit exactly at
+        // newest - max_lag. The wheel speed at 1010.0 s arrives when the newest sample is 1012.0 s: it is
+        // exactly 2 s late, so it is admitted, and in time order it goes before the yaw rate of 1010.0 s
+        // (inputs rank wheel speed, then yaw rate).
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        List<Sample> all = new ArrayList<>();
+        for (int k = 0; k <= 48; k++) {
+            all.add(new YawRate(1000.0 + 0.25 * k, 0.01 * k));
+        }
+        buffer.submit(all);
+        WheelSpeed late = new WheelSpeed(1010.0, 5.0);
+        List<Admission> a = buffer.submit(List.of(late));
+        assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
+        List<Sample> expected = new ArrayList<>(all);
+        expected.add(late);
+        expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
+        assertThat(rec.applied).isEqualTo(expected);
+    }
+}
