@@ -205,14 +205,14 @@ async function attempt(browser, t0, shots) {
       try {
         iB = await waitForState(p.page, 'bridging', -1, t0 + tunnel[0], driveLeftMs());
         stamp(`${label} shows bridging`);
-        if (shots) await p.page.screenshot({ path: join(OUT, `${shotPrefix}-bridging.png`) });
+        if (shots) await p.page.screenshot({ path: join(OUT, `${shotPrefix}-bridging-seen.png`) });
         // The plot redraws a little after the values (it is rate-limited): give it a moment.
         drawn = await p.page.waitForFunction(() => document.querySelector('#g-track path.seg-dr')
             && document.querySelector('#g-track path.mk-dr') && document.querySelector('#g-now ellipse.ell-now'),
           null, { timeout: 3000, polling: 50 }).then(() => true, () => false);
         iA = await waitForState(p.page, 'aided', iB, -Infinity, driveLeftMs());
         stamp(`${label} shows aided again`);
-        if (shots) await p.page.screenshot({ path: join(OUT, `${shotPrefix}-aided-again.png`) });
+        if (shots) await p.page.screenshot({ path: join(OUT, `${shotPrefix}-aided-again-seen.png`) });
       } catch (e) {
         // Reported below from what was recorded.
       }
