@@ -9,6 +9,9 @@ import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.Arrays;
 import org.wayhold.geo.Angles;
 import org.wayhold.sample.FixType;
@@ -118,6 +121,9 @@ public final class NavigationFilter {
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
+    /** Version of the layout {@link #writeState} writes. */
+    private static final int STATE_FORMAT = 1;
+
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     private static final int PENDING_FIELDS = 5;
 
@@ -185,6 +191,109 @@ public final class NavigationFilter {
         fixesUnusable = o.fixesUnusable;
         velocityGated = o.velocityGated;
         covarianceRepairs = o.covarianceRepairs;
+    }
+
+    /**
+     * Writes the whole mutable state, bit for bit, for snapshots that must restore the filter exactly.
+     * The settings are not written: {@link #readState} needs a filter built with the same settings.
+     * Keep in step with {@link #restore(NavigationFilter)}.
+     */
+    public void writeState(DataOutput out) throws IOException {
+        out.writeInt(STATE_FORMAT);
+        for (double v : x) {
+            out.writeDouble(v);
+        }
+        for (double v : p) {
+            out.writeDouble(v);
+        }
+        out.writeBoolean(initialized);
+        double[] scalars = {tRel, upM, varUpM2, wheelSpeedMps, yawRateRadPerS, zeroSpeedSinceTRel, correlatedVarM2,
+            odometerM, lastUsedFixTRel, lastFixTRel, odometerAtLastUsedFixM, lastNis, anchorEastM, anchorNorthM,
+            anchorOdometerM};
+        out.writeInt(scalars.length);
+        for (double v : scalars) {
+            out.writeDouble(v);
+        }
+        out.writeBoolean(hasYawRate);
+        out.writeBoolean(standstill);
+        out.writeInt(lastKind == null ? -1 : lastKind.ordinal());
+        out.writeInt(probation.ordinal());
+        out.writeInt(pendingCount);
+        for (int i = 0; i < pendingCount; i++) {
+            for (double v : pending[i]) {
+                out.writeDouble(v);
+            }
+        }
+        long[] counts = {fixesUsed, fixesGated, fixesPending, fixesDropped, fixesUnusable, velocityGated,
+            covarianceRepairs, resets};
+        out.writeInt(counts.length);
+        for (long v : counts) {
+            out.writeLong(v);
+        }
+    }
+
+    /**
+     * Reads what {@link #writeState} wrote into this filter, which must have the same settings.
+     *
+     * @throws IOException when the data is not a filter state of this format
+     */
+    public void readState(DataInput in) throws IOException {
+        int format = in.readInt();
+        if (format != STATE_FORMAT) {
+            throw new IOException("filter state: format " + format + ", expected " + STATE_FORMAT);
+        }
+        for (int i = 0; i < SIZE; i++) {
+            x[i] = in.readDouble();
+        }
+        for (int i = 0; i < SIZE * SIZE; i++) {
+            p[i] = in.readDouble();
+        }
+        initialized = in.readBoolean();
+        int n = in.readInt();
+        if (n != 15) {
+            throw new IOException("filter state: " + n + " scalars, expected 15");
+        }
+        tRel = in.readDouble();
+        upM = in.readDouble();
+        varUpM2 = in.readDouble();
+        wheelSpeedMps = in.readDouble();
+        yawRateRadPerS = in.readDouble();
+        zeroSpeedSinceTRel = in.readDouble();
+        correlatedVarM2 = in.readDouble();
+        odometerM = in.readDouble();
+        lastUsedFixTRel = in.readDouble();
+        lastFixTRel = in.readDouble();
+        odometerAtLastUsedFixM = in.readDouble();
+        lastNis = in.readDouble();
+        anchorEastM = in.readDouble();
+        anchorNorthM = in.readDouble();
+        anchorOdometerM = in.readDouble();
+        hasYawRate = in.readBoolean();
+        standstill = in.readBoolean();
+        int kind = in.readInt();
+        lastKind = kind < 0 ? null : GnssOutcome.Kind.values()[kind];
+        probation = Probation.values()[in.readInt()];
+        pendingCount = in.readInt();
+        if (pendingCount < 0 || pendingCount > reacquireFixes) {
+            throw new IOException("filter state: " + pendingCount + " held fixes, more than " + reacquireFixes);
+        }
+        for (int i = 0; i < pendingCount; i++) {
+            for (int j = 0; j < PENDING_FIELDS; j++) {
+                pending[i][j] = in.readDouble();
+            }
+        }
+        int c = in.readInt();
+        if (c != 8) {
+            throw new IOException("filter state: " + c + " counters, expected 8");
+        }
+        fixesUsed = in.readLong();
+        fixesGated = in.readLong();
+        fixesPending = in.readLong();
+        fixesDropped = in.readLong();
+        fixesUnusable = in.readLong();
+        velocityGated = in.readLong();
+        covarianceRepairs = in.readLong();
+        resets = in.readLong();
     }
 
     /**

@@ -1,5 +1,8 @@
 package org.wayhold.ordering;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.ArrayDeque;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -9,6 +12,7 @@ import java.util.Iterator;
 import java.util.List;
 import java.util.Locale;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleCodec;
 import org.wayhold.settings.OrderingSettings;
 
 /**
@@ -216,6 +220,67 @@ public final class ReorderBuffer<C> {
             marks.clear();
             marks.addAll(shifted);
         }
+    }
+
+    /** Writes a checkpoint of the consumer. */
+    @FunctionalInterface
+    public interface CheckpointWriter<C> {
+        void write(DataOutput out, C checkpoint) throws IOException;
+    }
+
+    /** Reads a checkpoint of the consumer. */
+    @FunctionalInterface
+    public interface CheckpointReader<C> {
+        C read(DataInput in) throws IOException;
+    }
+
+    /**
+     * Writes the kept samples, the checkpoints and the counters, so that {@link #readState} on a buffer
+     * around a restored consumer continues exactly as this one would.
+     */
+    public void writeState(DataOutput out, CheckpointWriter<C> checkpoints) throws IOException {
+        out.writeInt(kept.size());
+        for (Sample s : kept) {
+            SampleCodec.write(out, s);
+        }
+        out.writeInt(marks.size());
+        for (Mark<C> m : marks) {
+            checkpoints.write(out, m.state);
+            out.writeInt(m.keptBefore);
+            out.writeDouble(m.lastT);
+        }
+        out.writeBoolean(newest != null);
+        if (newest != null) {
+            SampleCodec.write(out, newest);
+        }
+        out.writeLong(duplicates);
+        out.writeLong(rejected);
+        out.writeLong(rewinds);
+    }
+
+    /** Reads what {@link #writeState} wrote, replacing this buffer's state. */
+    public void readState(DataInput in, CheckpointReader<C> checkpoints) throws IOException {
+        kept.clear();
+        marks.clear();
+        int n = in.readInt();
+        for (int i = 0; i < n; i++) {
+            kept.add(SampleCodec.read(in));
+        }
+        int m = in.readInt();
+        for (int i = 0; i < m; i++) {
+            C state = checkpoints.read(in);
+            int keptBefore = in.readInt();
+            double lastT = in.readDouble();
+            if (keptBefore < 0 || keptBefore > kept.size()) {
+                throw new IOException("ordering state: checkpoint after " + keptBefore + " of " + kept.size()
+                        + " samples");
+            }
+            marks.addLast(new Mark<>(state, keptBefore, lastT));
+        }
+        newest = in.readBoolean() ? SampleCodec.read(in) : null;
+        duplicates = in.readLong();
+        rejected = in.readLong();
+        rewinds = in.readLong();
     }
 
     /** Time of the newest applied sample (s, vehicle clock), NaN before any. */

@@ -1,5 +1,8 @@
 package org.wayhold.pose;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
@@ -101,6 +104,28 @@ public final class PoseHistory {
             out.add(p);
         }
         return out;
+    }
+
+    /** Writes the poses, oldest first, bit for bit. */
+    public void writeTo(DataOutput out) throws IOException {
+        out.writeInt(size);
+        for (int i = 0; i < size; i++) {
+            PoseCodec.write(out, get(i));
+        }
+    }
+
+    /** Replaces the content with poses written by {@link #writeTo}; the capacity keeps the newest. */
+    public void readFrom(DataInput in) throws IOException {
+        int n = in.readInt();
+        if (n < 0) {
+            throw new IOException("history: negative pose count " + n);
+        }
+        java.util.Arrays.fill(ring, null);
+        start = 0;
+        size = 0;
+        for (int i = 0; i < n; i++) {
+            add(PoseCodec.read(in));
+        }
     }
 
     /** Drops every pose with t > tS (used when late samples re-filter the recent past). */

@@ -1,5 +1,8 @@
 package org.wayhold.session;
 
+import java.io.DataInput;
+import java.io.DataOutput;
+import java.io.IOException;
 import java.util.List;
 import java.util.Optional;
 import java.util.concurrent.CopyOnWriteArrayList;
@@ -38,6 +41,9 @@ public final class VehicleSession {
     private final Pipeline pipeline;
     private final ReorderBuffer<Checkpoint> ordering;
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+
+    /** Version of the layout {@link #writeSnapshot} writes. */
+    private static final int SNAPSHOT_FORMAT = 1;
 
     private double epochT = Double.NaN;
     private volatile Pose latest;
@@ -129,6 +135,84 @@ public final class VehicleSession {
                 ordering.duplicates(), ordering.rejected(), ordering.rewinds(), s.counts(), history.size());
     }
 
+    /**
+     * Writes the session's whole state (time ordering with its checkpoints, filter, frame, history and
+     * counters), bit for bit. A session built with the same id and settings and given this to
+     * {@link #readSnapshot} continues exactly as this one would; listeners are not part of it.
+     */
+    public synchronized void writeSnapshot(DataOutput out) throws IOException {
+        out.writeInt(SNAPSHOT_FORMAT);
+        out.writeUTF(vehicleId);
+        out.writeDouble(epochT);
+        writeCheckpoint(out, pipeline.checkpoint());
+        ordering.writeState(out, VehicleSession::writeCheckpoint);
+        history.writeTo(out);
+        out.writeLong(version);
+    }
+
+    /**
+     * Restores a state written by {@link #writeSnapshot} into this session, which must be new (no
+     * sample yet) and built with the same id and settings.
+     *
+     * @throws IOException when the data is not a snapshot of this vehicle in this format
+     */
+    public synchronized void readSnapshot(DataInput in) throws IOException {
+        int format = in.readInt();
+        if (format != SNAPSHOT_FORMAT) {
+            throw new IOException("snapshot: format " + format + ", expected " + SNAPSHOT_FORMAT);
+        }
+        String id = in.readUTF();
+        if (!id.equals(vehicleId)) {
+            throw new IOException("snapshot: written for vehicle '" + id + "', not '" + vehicleId + "'");
+        }
+        epochT = in.readDouble();
+        pipeline.restoreWithoutHistory(readCheckpoint(in));
+        ordering.readState(in, this::readCheckpoint);
+        history.readFrom(in);
+        long savedVersion = in.readLong();
+        refreshLatest();
+        version = savedVersion;
+    }
+
+    private static void writeCheckpoint(DataOutput out, Checkpoint c) throws IOException {
+        c.filter.writeState(out);
+        out.writeBoolean(c.frame != null);
+        if (c.frame != null) {
+            Geodetic o = c.frame.origin();
+            out.writeDouble(o.latDeg());
+            out.writeDouble(o.lonDeg());
+            out.writeDouble(o.altM());
+        }
+        out.writeDouble(c.lastHistoryTRel);
+        out.writeInt(c.appliedByType.length);
+        for (long v : c.appliedByType) {
+            out.writeLong(v);
+        }
+    }
+
+    private Checkpoint readCheckpoint(DataInput in) throws IOException {
+        NavigationFilter f = pipeline.filter.copy();
+        f.readState(in);
+        LocalFrame frame = null;
+        if (in.readBoolean()) {
+            try {
+                frame = new LocalFrame(new Geodetic(in.readDouble(), in.readDouble(), in.readDouble()));
+            } catch (IllegalArgumentException e) {
+                throw new IOException("snapshot: bad frame origin: " + e.getMessage(), e);
+            }
+        }
+        double lastHistoryTRel = in.readDouble();
+        int n = in.readInt();
+        if (n != appliedByType.length) {
+            throw new IOException("snapshot: " + n + " sample counters, expected " + appliedByType.length);
+        }
+        long[] applied = new long[n];
+        for (int i = 0; i < n; i++) {
+            applied[i] = in.readLong();
+        }
+        return new Checkpoint(f, frame, lastHistoryTRel, applied);
+    }
+
     /** Everything a checkpoint must bring back. */
     private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
                               long[] appliedByType) {
@@ -174,12 +258,16 @@ public final class VehicleSession {
 
         @Override
         public void restore(Checkpoint c) {
+            restoreWithoutHistory(c);
+            double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
+            history.truncateAfter(t);
+        }
+
+        void restoreWithoutHistory(Checkpoint c) {
             filter.restore(c.filter);
             frame = c.frame;
             lastHistoryTRel = c.lastHistoryTRel;
             System.arraycopy(c.appliedByType, 0, appliedByType, 0, appliedByType.length);
-            double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
-            history.truncateAfter(t);
         }
     }
 }
