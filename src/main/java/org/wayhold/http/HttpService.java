@@ -3,6 +3,7 @@ package org.wayhold.http;
 import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
+import io.javalin.http.staticfiles.Location;
 import io.javalin.router.Endpoint;
 import java.io.IOException;
 import java.io.InputStream;
@@ -80,6 +81,7 @@ public final class HttpService implements AutoCloseable {
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
                 ctx.statusCode(), ms));
 
+        config.staticFiles.add("/web", Location.CLASSPATH);
         ErrorMapping.install(config.routes);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);

@@ -1,0 +1,28 @@
+#!/usr/bin/env bash
+# End-to-end check of the live view (/) in a real browser: Debian's headless Chromium driven by
+# playwright-core from npm (no browser download). Starts the service jar with a replay of
+# sample-logs/two-tunnels.ndjson.gz at 20x and checks the page against it; see e2e/view.e2e.mjs.
+# Screenshots go to target/e2e/. The last line is "e2e: N passed, N failed".
+# Needs: Java 17, Node.js 20+, npm; installs Chromium with apt-get when it is missing (as root).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+CHROMIUM="${CHROMIUM:-/usr/bin/chromium}"
+if [ ! -x "$CHROMIUM" ]; then
+  if [ "$(id -u)" -ne 0 ]; then
+    echo "browser-test: $CHROMIUM is missing and installing it needs root (apt-get install chromium)" >&2
+    exit 1
+  fi
+  apt-get update
+  DEBIAN_FRONTEND=noninteractive apt-get install -y chromium
+fi
+
+if [ ! -f target/wayhold.jar ]; then
+  mvn -B -ntp -DskipTests package
+fi
+
+(cd e2e && npm ci --no-audit --no-fund)
+
+mkdir -p target/e2e
+CHROMIUM="$CHROMIUM" node e2e/view.e2e.mjs --jar target/wayhold.jar \
+  --replay sample-logs/two-tunnels.ndjson.gz --speed 20 --out target/e2e
