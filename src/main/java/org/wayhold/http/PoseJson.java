@@ -19,9 +19,11 @@ import org.wayhold.pose.Pose;
  * {@code ellipse95} {@code semi_major, semi_minor} (m) and {@code orientation_deg} (degrees clockwise
  * from true north, [0, 180)), {@code state} (wire name), {@code outage} {@code active, since (s or
  * null), seconds, meters}, {@code gyro_bias} (rad/s), {@code speed_scale} (unitless), {@code origin}
- * {@code lat, lon, alt} (null before the first fix). Two additions beyond the contract's list:
+ * {@code lat, lon, alt} (null before the first fix). Additions beyond the contract's list:
  * {@code radius95} (m, the 95% horizontal radius the alert limit is checked against, equal to the
- * ellipse's semi-major axis) and {@code heading_sigma_deg} (degrees, 1-sigma of the heading). In a
+ * ellipse's semi-major axis), {@code heading_sigma_deg} (degrees, 1-sigma of the heading),
+ * {@code last_fix_t} (s, vehicle clock, the last fix that corrected the estimate; null before one) and
+ * {@code alert_limit} (m, the radius beyond which the state turns unreliable without a fix). In a
  * track requested with {@code crs}, {@code x} and {@code y} give the position in that CRS's units.
  *
  * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
@@ -89,6 +91,8 @@ final class PoseJson {
         g.writeEndObject();
         number(g, "gyro_bias", p.gyroBiasRadPerS());
         number(g, "speed_scale", p.speedScale());
+        number(g, "last_fix_t", p.lastFixT());
+        number(g, "alert_limit", p.alertLimitM());
         Geodetic o = p.origin();
         if (o == null) {
             g.writeNullField("origin");

@@ -25,11 +25,14 @@ import org.wayhold.geo.Geodetic;
  * @param gyroBiasRadPerS   estimated gyro bias (rad/s)
  * @param speedScale        estimated wheel-speed scale (unitless)
  * @param origin            origin of the session's ENU frame, null before the first fix
+ * @param lastFixT          time of the last fix that corrected the estimate (s, vehicle clock), NaN if none
+ * @param alertLimitM       95% radius beyond which the pose is {@code unreliable} without a fix (m)
  */
 public record Pose(double t, double latDeg, double lonDeg, double altM, double eastM, double northM, double upM,
                    double headingDeg, double speedMps, double yawRateRadPerS, double covEastEastM2,
                    double covEastNorthM2, double covNorthNorthM2, double headingSigmaDeg, Ellipse95 ellipse95,
-                   NavState state, Outage outage, double gyroBiasRadPerS, double speedScale, Geodetic origin) {
+                   NavState state, Outage outage, double gyroBiasRadPerS, double speedScale, Geodetic origin,
+                   double lastFixT, double alertLimitM) {
 
     /** The 95% horizontal radius the alert limit is checked against: the ellipse's semi-major axis (m). */
     public double radius95M() {

@@ -73,6 +73,6 @@ public final class PoseAssembler {
         return new Pose(epochT + s.tRel(), lat, lon, alt, s.eastM(), s.northM(), s.upM(),
                 Angles.yawRadToHeadingDeg(s.yawRad()), s.speedMps(), s.yawRateRadPerS(), s.covEastEastM2(),
                 s.covEastNorthM2(), s.covNorthNorthM2(), headingSigmaDeg, ellipse, state, out,
-                s.gyroBiasRadPerS(), s.speedScale(), origin);
+                s.gyroBiasRadPerS(), s.speedScale(), origin, epochT + s.lastUsedFixTRel(), outage.alertLimitM());
     }
 }

@@ -43,7 +43,7 @@ public final class VehicleSession {
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
 
     /** Version of the layout {@link #writeSnapshot} writes. */
-    private static final int SNAPSHOT_FORMAT = 1;
+    private static final int SNAPSHOT_FORMAT = 2;
 
     private double epochT = Double.NaN;
     private volatile Pose latest;

@@ -161,7 +161,7 @@ class PoseQueriesTest {
         JsonNode p = LiveServer.json(server.get("/v1/vehicles/" + CAR + "/pose"));
         assertThat(p.fieldNames()).toIterable().containsExactly("t", "lat", "lon", "alt", "east", "north", "up",
                 "heading_deg", "heading_sigma_deg", "speed", "yaw_rate", "cov", "ellipse95", "radius95", "state",
-                "outage", "gyro_bias", "speed_scale", "origin");
+                "outage", "gyro_bias", "speed_scale", "last_fix_t", "alert_limit", "origin");
         assertThat(p.get("cov").fieldNames()).toIterable().containsExactly("ee", "en", "nn");
         assertThat(p.get("ellipse95").fieldNames()).toIterable().containsExactly("semi_major", "semi_minor",
                 "orientation_deg");

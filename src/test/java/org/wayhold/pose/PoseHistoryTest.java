@@ -12,7 +12,7 @@ class PoseHistoryTest {
     /** A pose at t whose east coordinate tags it, so replaced and dropped poses can be told apart. */
     static Pose pose(double t, double tagEastM) {
         return new Pose(t, 50.0, 8.0, 100.0, tagEastM, 0.0, 0.0, 90.0, 10.0, 0.0, 1.0, 0.0, 1.0, 1.0,
-                Ellipse95.of(1.0, 0.0, 1.0), NavState.AIDED, Outage.NONE, 0.0, 1.0, null);
+                Ellipse95.of(1.0, 0.0, 1.0), NavState.AIDED, Outage.NONE, 0.0, 1.0, null, t, 10.0);
     }
 
     private static List<Double> times(List<Pose> poses) {
