@@ -86,6 +86,7 @@ public final class HttpService implements AutoCloseable {
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
         config.routes.get("/v1/vehicles/{vehicle}/track", vehicles::getTrack);
+        config.routes.get("/v1/vehicles/{vehicle}/fixes", vehicles::getFixes);
         config.routes.get("/v1/vehicles/{vehicle}/stream", vehicles::stream);
         config.routes.delete("/v1/vehicles/{vehicle}", vehicles::delete);
         config.routes.get("/v1/vehicles", vehicles::list);

@@ -10,6 +10,7 @@ import java.util.Optional;
 import java.util.regex.Pattern;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
+import org.wayhold.session.FixRecord;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.VehicleSession;
 
@@ -119,6 +120,47 @@ final class VehicleRoutes {
         List<Pose> poses = session.track(from, to);
         byte[] body = geojson ? TrackJson.geoJson(id, poses, crs) : TrackJson.json(id, poses, crs);
         ctx.contentType(geojson ? GEOJSON : "application/json").result(body);
+    }
+
+    /**
+     * Fixes received in a window with the filter's decision on each: {@code outcome} is one of
+     * initializing, accepted, reacquired, pending, gated, unusable; {@code nis} is the normalised
+     * innovation squared (null when not computed); {@code sigma_h} the 1-sigma the filter assumed (m).
+     */
+    void getFixes(Context ctx) {
+        String id = vehicleId(ctx);
+        VehicleSession session = entry(id).session();
+        String fromText = ctx.queryParam("from");
+        String toText = ctx.queryParam("to");
+        double from = fromText == null ? Double.NEGATIVE_INFINITY : finiteNumber("from", fromText);
+        double to = toText == null ? Double.POSITIVE_INFINITY : finiteNumber("to", toText);
+        if (from > to) {
+            throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was "
+                    + toText + " s");
+        }
+        ByteArrayOutputStream out = new ByteArrayOutputStream(4096);
+        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+            g.writeStartObject();
+            g.writeStringField("vehicle", id);
+            g.writeArrayFieldStart("fixes");
+            for (FixRecord f : session.fixes(from, to)) {
+                g.writeStartObject();
+                PoseJson.number(g, "t", f.t());
+                PoseJson.number(g, "lat", f.latDeg());
+                PoseJson.number(g, "lon", f.lonDeg());
+                PoseJson.number(g, "east", f.eastM());
+                PoseJson.number(g, "north", f.northM());
+                PoseJson.number(g, "sigma_h", f.sigmaHM());
+                g.writeStringField("outcome", f.outcome().name().toLowerCase(java.util.Locale.ROOT));
+                PoseJson.number(g, "nis", f.nis());
+                g.writeEndObject();
+            }
+            g.writeEndArray();
+            g.writeEndObject();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        ctx.contentType("application/json").result(out.toByteArray());
     }
 
     static ProjectedCrs crs(String text) {

@@ -8,8 +8,10 @@ import java.util.Optional;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.function.Consumer;
 import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.GnssOutcome;
 import org.wayhold.filter.NavigationFilter;
 import org.wayhold.filter.SampleFeeder;
+import org.wayhold.geo.Enu;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.ordering.Admission;
@@ -38,12 +40,13 @@ public final class VehicleSession {
     private final Geodetic configuredOrigin;
     private final PoseAssembler assembler;
     private final PoseHistory history;
+    private final FixLog fixes;
     private final Pipeline pipeline;
     private final ReorderBuffer<Checkpoint> ordering;
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
 
     /** Version of the layout {@link #writeSnapshot} writes. */
-    private static final int SNAPSHOT_FORMAT = 2;
+    private static final int SNAPSHOT_FORMAT = 3;
 
     private double epochT = Double.NaN;
     private volatile Pose latest;
@@ -61,6 +64,7 @@ public final class VehicleSession {
         this.configuredOrigin = configuredOrigin;
         this.assembler = new PoseAssembler(settings.outage());
         this.history = new PoseHistory(settings.history().maxPoses());
+        this.fixes = new FixLog(settings.history().maxPoses());
         this.pipeline = new Pipeline(new NavigationFilter(settings.filter(), settings.gating(), settings.outage(),
                 settings.profileFor(vehicleId)));
         this.ordering = new ReorderBuffer<>(pipeline, settings.ordering());
@@ -123,6 +127,11 @@ public final class VehicleSession {
         return history.at(tS);
     }
 
+    /** Fixes received with fromS <= t <= toS and the filter's decision on each, oldest first. */
+    public synchronized List<FixRecord> fixes(double fromS, double toS) {
+        return fixes.between(fromS, toS);
+    }
+
     /** Poses from the history with fromS <= t <= toS. */
     public synchronized List<Pose> track(double fromS, double toS) {
         return history.between(fromS, toS);
@@ -147,6 +156,7 @@ public final class VehicleSession {
         writeCheckpoint(out, pipeline.checkpoint());
         ordering.writeState(out, VehicleSession::writeCheckpoint);
         history.writeTo(out);
+        fixes.writeTo(out);
         out.writeLong(version);
     }
 
@@ -169,6 +179,7 @@ public final class VehicleSession {
         pipeline.restoreWithoutHistory(readCheckpoint(in));
         ordering.readState(in, this::readCheckpoint);
         history.readFrom(in);
+        fixes.readFrom(in);
         long savedVersion = in.readLong();
         refreshLatest();
         version = savedVersion;
@@ -234,7 +245,13 @@ public final class VehicleSession {
                 frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
                         : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
             }
-            SampleFeeder.feed(filter, sample, epochT, frame);
+            GnssOutcome outcome = SampleFeeder.feed(filter, sample, epochT, frame);
+            if (outcome != null && frame != null) {
+                GnssFix g = (GnssFix) sample;
+                Enu enu = frame.toEnu(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : frame.origin().altM());
+                fixes.add(new FixRecord(g.t(), g.latDeg(), g.lonDeg(), enu.eastM(), enu.northM(),
+                        filter.horizontalSigmaM(g), outcome.kind(), outcome.nis()));
+            }
             appliedByType[SampleOrder.rank(sample)]++;
             if (sample instanceof ReferencePoint) {
                 // Reference points are for scoring only: they reach the filter only as time.
@@ -261,6 +278,7 @@ public final class VehicleSession {
             restoreWithoutHistory(c);
             double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
             history.truncateAfter(t);
+            fixes.truncateAfter(t);
         }
 
         void restoreWithoutHistory(Checkpoint c) {

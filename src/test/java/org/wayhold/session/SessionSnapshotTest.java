@@ -90,6 +90,8 @@ class SessionSnapshotTest {
             assertThat(restored.latest()).isEqualTo(original.latest());
         }
         assertThat(restored.track(drive.startT(), drive.endT())).isEqualTo(original.track(drive.startT(), drive.endT()));
+        assertThat(restored.fixes(drive.startT(), drive.endT())).isEqualTo(original.fixes(drive.startT(), drive.endT()))
+                .isNotEmpty();
         assertThat(restored.stats()).isEqualTo(original.stats());
         assertThat(original.stats().rewinds()).isPositive();
     }
