@@ -2,6 +2,7 @@ package org.wayhold.ingest;
 
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.core.io.NumberInput;
 import java.io.IOException;
 import java.util.Arrays;
 import org.wayhold.sample.FixType;
@@ -19,6 +20,10 @@ import org.wayhold.sample.YawRate;
  * {@code type} does not use them (every name has one meaning across all sample types); a field that a
  * type does not use is then ignored. A JSON {@code null} counts as "not given". Unknown names are
  * skipped unread, whatever their value.
+ *
+ * <p>Most lines take a faster road, {@link #decodeFlat}: a flat object of known fields with plain
+ * values is read straight from its bytes, without a JSON parser, and anything else is handed to the
+ * token-by-token path, which gives every rejection its reason.
  *
  * <p>One instance is reused for every line of a read; it is not thread-safe.
  */
@@ -54,12 +59,44 @@ final class SampleDecoder {
     /** Longest piece of a bad string value quoted back in a message (characters). */
     private static final int QUOTE_LIMIT = 40;
 
+    /** Wire names as ASCII bytes, indexed like {@link #NAMES}, for {@link #decodeFlat}. */
+    private static final byte[][] NAME_BYTES = new byte[NAMES.length][];
+    private static final String GNSS = "gnss";
+    private static final String WHEEL_SPEED = "wheel_speed";
+    private static final String YAW_RATE = "yaw_rate";
+    private static final String REFERENCE = "reference";
+    private static final String[] TYPE_NAMES = {GNSS, WHEEL_SPEED, YAW_RATE, REFERENCE};
+    private static final byte[][] TYPE_BYTES = new byte[TYPE_NAMES.length][];
+    private static final FixType[] FIX_TYPES = FixType.values();
+    private static final byte[][] FIX_BYTES = new byte[FIX_TYPES.length][];
+    private static final byte[] NULL_BYTES = ascii("null");
+    /** Whole numbers of up to this many digits fit a long exactly, as in Jackson's own reading. */
+    private static final int LONG_DIGITS = 18;
+    /** Longest number {@link #decodeFlat} converts itself (characters); longer ones take the careful path. */
+    private static final int NUMBER_CHARS = 64;
+
+    static {
+        for (int i = 0; i < NAMES.length; i++) {
+            NAME_BYTES[i] = ascii(NAMES[i]);
+        }
+        for (int i = 0; i < TYPE_NAMES.length; i++) {
+            TYPE_BYTES[i] = ascii(TYPE_NAMES[i]);
+        }
+        for (int i = 0; i < FIX_TYPES.length; i++) {
+            FIX_BYTES[i] = ascii(FIX_TYPES[i].wireName());
+        }
+    }
+
     private final double[] numbers = new double[NAMES.length];
+    private final char[] numberChars = new char[NUMBER_CHARS];
     private int seen;
     private String type;
     private String fix;
+    private FixType fixType;
     private int sats;
     private String error;
+    /** Set by {@link #numberEnd}: the number had neither a fraction nor an exponent. */
+    private boolean numberIsWhole;
 
     /**
      * Reads the object whose {@code START_OBJECT} is the parser's current token, up to and including its
@@ -70,12 +107,7 @@ final class SampleDecoder {
      * @throws IOException              when the text is not well-formed JSON
      */
     Sample decode(JsonParser p) throws IOException {
-        seen = 0;
-        type = null;
-        fix = null;
-        sats = -1;
-        error = null;
-        Arrays.fill(numbers, Double.NaN);
+        reset();
         while (p.nextToken() == JsonToken.FIELD_NAME) {
             int field = indexOf(p.currentName());
             JsonToken value = p.nextToken();
@@ -106,26 +138,298 @@ final class SampleDecoder {
         return build();
     }
 
+    private void reset() {
+        seen = 0;
+        type = null;
+        fix = null;
+        fixType = null;
+        sats = -1;
+        error = null;
+        Arrays.fill(numbers, Double.NaN);
+    }
+
+    /**
+     * Decodes the common line straight from its bytes: one object, spaces or tabs at most between
+     * tokens, every name one of the known fields written plainly (ASCII, no escapes) and given once,
+     * every value {@code null}, a JSON number (for {@code sats} a whole one of up to 9 digits, no sign)
+     * or, for {@code type} and {@code fix}, one of their known words. Anything else returns null: the
+     * caller must then read the line with {@link #decode(JsonParser)}, the careful path that also gives
+     * malformed lines their reason.
+     *
+     * <p>For a line it does decode, the outcome is exactly the careful path's: the same slots and the
+     * same {@link #build()}, so the same sample or the same IllegalArgumentException (range checks and
+     * missing fields are all that can fail here). Numbers are converted as Jackson converts them: whole
+     * numbers through a long, the rest by {@link NumberInput#parseDouble(char[], int, int, boolean)} with
+     * the fast parser that {@link NdjsonReader}'s factory enables (correctly rounded, like
+     * {@link Double#parseDouble}). A number that overflows to infinity takes the careful path, which
+     * names the field.
+     *
+     * @param b    the bytes (not modified)
+     * @param from first byte of the line
+     * @param to   end of the line (exclusive), without its line terminator
+     * @return the sample, or null when the line needs the careful path
+     * @throws IllegalArgumentException when the line is well formed but not a valid sample
+     */
+    Sample decodeFlat(byte[] b, int from, int to) {
+        reset();
+        int i = skipSpace(b, from, to);
+        if (i >= to || b[i] != '{') {
+            return null;
+        }
+        i = skipSpace(b, i + 1, to);
+        if (i < to && b[i] == '}') {
+            return skipSpace(b, i + 1, to) == to ? build() : null;
+        }
+        while (true) {
+            if (i >= to || b[i] != '"') {
+                return null;
+            }
+            int nameEnd = plainStringEnd(b, i + 1, to);
+            if (nameEnd < 0) {
+                return null;
+            }
+            int field = fieldOf(b, i + 1, nameEnd);
+            if (field < 0) {
+                return null;
+            }
+            i = skipSpace(b, nameEnd + 1, to);
+            if (i >= to || b[i] != ':') {
+                return null;
+            }
+            i = skipSpace(b, i + 1, to);
+            if (i >= to) {
+                return null;
+            }
+            if (b[i] == 'n') {
+                if (!startsWith(b, i, to, NULL_BYTES)) {
+                    return null;
+                }
+                i += NULL_BYTES.length;
+            } else {
+                int bit = 1 << field;
+                if ((seen & bit) != 0) {
+                    return null;
+                }
+                seen |= bit;
+                i = field == TYPE || field == FIX ? flatWord(b, i, to, field) : flatNumber(b, i, to, field);
+                if (i < 0) {
+                    return null;
+                }
+            }
+            i = skipSpace(b, i, to);
+            if (i >= to) {
+                return null;
+            }
+            if (b[i] == '}') {
+                return skipSpace(b, i + 1, to) == to ? build() : null;
+            }
+            if (b[i] != ',') {
+                return null;
+            }
+            i = skipSpace(b, i + 1, to);
+        }
+    }
+
+    /** Reads a known word for {@code type} or {@code fix} at b[i]; returns the index after it, or -1. */
+    private int flatWord(byte[] b, int i, int to, int field) {
+        if (b[i] != '"') {
+            return -1;
+        }
+        int end = plainStringEnd(b, i + 1, to);
+        if (end < 0) {
+            return -1;
+        }
+        if (field == TYPE) {
+            for (int k = 0; k < TYPE_BYTES.length; k++) {
+                if (equalsAt(b, i + 1, end, TYPE_BYTES[k])) {
+                    type = TYPE_NAMES[k];
+                    return end + 1;
+                }
+            }
+            return -1;
+        }
+        for (int k = 0; k < FIX_BYTES.length; k++) {
+            if (equalsAt(b, i + 1, end, FIX_BYTES[k])) {
+                fixType = FIX_TYPES[k];
+                fix = fixType.wireName();
+                return end + 1;
+            }
+        }
+        return -1;
+    }
+
+    /** Reads a number into its slot; returns the index after it, or -1 when the careful path must. */
+    private int flatNumber(byte[] b, int i, int to, int field) {
+        int end = numberEnd(b, i, to);
+        if (end < 0) {
+            return -1;
+        }
+        boolean negative = b[i] == '-';
+        int digitsFrom = negative ? i + 1 : i;
+        if (field == SATS) {
+            // A count: no sign, no fraction, no exponent, and small enough for an int.
+            if (negative || !numberIsWhole || end - digitsFrom > 9) {
+                return -1;
+            }
+            sats = (int) wholeValue(b, digitsFrom, end);
+            return end;
+        }
+        double v;
+        if (numberIsWhole) {
+            if (end - digitsFrom > LONG_DIGITS) {
+                return -1;
+            }
+            long whole = wholeValue(b, digitsFrom, end);
+            v = negative ? -whole : whole;
+        } else {
+            int length = end - i;
+            if (length > NUMBER_CHARS) {
+                return -1;
+            }
+            for (int k = 0; k < length; k++) {
+                numberChars[k] = (char) b[i + k];
+            }
+            v = NumberInput.parseDouble(numberChars, 0, length, true);
+            if (!Double.isFinite(v)) {
+                return -1;
+            }
+        }
+        numbers[field] = v;
+        return end;
+    }
+
+    /**
+     * The end of a JSON number starting at b[i] (RFC 8259 section 6: optional minus, an integer part
+     * without leading zeros, optional fraction, optional exponent), or -1 when there is none. Sets
+     * {@link #numberIsWhole}.
+     */
+    private int numberEnd(byte[] b, int i, int to) {
+        int j = i;
+        if (j < to && b[j] == '-') {
+            j++;
+        }
+        if (j >= to) {
+            return -1;
+        }
+        if (b[j] == '0') {
+            j++;
+        } else if (b[j] >= '1' && b[j] <= '9') {
+            j = digitsEnd(b, j + 1, to);
+        } else {
+            return -1;
+        }
+        numberIsWhole = true;
+        if (j < to && b[j] == '.') {
+            int start = j + 1;
+            j = digitsEnd(b, start, to);
+            if (j == start) {
+                return -1;
+            }
+            numberIsWhole = false;
+        }
+        if (j < to && (b[j] == 'e' || b[j] == 'E')) {
+            j++;
+            if (j < to && (b[j] == '+' || b[j] == '-')) {
+                j++;
+            }
+            int start = j;
+            j = digitsEnd(b, start, to);
+            if (j == start) {
+                return -1;
+            }
+            numberIsWhole = false;
+        }
+        return j;
+    }
+
+    private static int digitsEnd(byte[] b, int j, int to) {
+        while (j < to && b[j] >= '0' && b[j] <= '9') {
+            j++;
+        }
+        return j;
+    }
+
+    private static long wholeValue(byte[] b, int from, int to) {
+        long v = 0;
+        for (int k = from; k < to; k++) {
+            v = v * 10 + (b[k] - '0');
+        }
+        return v;
+    }
+
+    /** Index of the closing quote of a plain string starting at b[from], or -1 (escape, control, non-ASCII, open). */
+    private static int plainStringEnd(byte[] b, int from, int to) {
+        for (int j = from; j < to; j++) {
+            byte c = b[j];
+            if (c == '"') {
+                return j;
+            }
+            if (c == '\\' || c < 0x20) {
+                // Negative bytes are the non-ASCII ones: UTF-8 validation is the parser's job.
+                return -1;
+            }
+        }
+        return -1;
+    }
+
+    private static int fieldOf(byte[] b, int from, int to) {
+        int length = to - from;
+        for (int k = 0; k < NAME_BYTES.length; k++) {
+            byte[] name = NAME_BYTES[k];
+            if (name.length == length && name[0] == b[from] && equalsAt(b, from, to, name)) {
+                return k;
+            }
+        }
+        return -1;
+    }
+
+    private static boolean equalsAt(byte[] b, int from, int to, byte[] word) {
+        if (to - from != word.length) {
+            return false;
+        }
+        for (int k = 0; k < word.length; k++) {
+            if (b[from + k] != word[k]) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    private static boolean startsWith(byte[] b, int from, int to, byte[] word) {
+        return to - from >= word.length && equalsAt(b, from, from + word.length, word);
+    }
+
+    private static int skipSpace(byte[] b, int i, int to) {
+        while (i < to && (b[i] == ' ' || b[i] == '\t')) {
+            i++;
+        }
+        return i;
+    }
+
+    private static byte[] ascii(String s) {
+        return s.getBytes(java.nio.charset.StandardCharsets.US_ASCII);
+    }
+
     private Sample build() {
         if (type == null) {
             throw new IllegalArgumentException("type: missing, every sample needs one of " + TYPES);
         }
         switch (type) {
-            case "gnss" -> {
+            case GNSS -> {
                 require(T, LAT, LON);
-                FixType fixType = fix == null ? FixType.THREE_D : FixType.fromWireName(fix);
+                FixType f = fixType != null ? fixType : fix == null ? FixType.THREE_D : FixType.fromWireName(fix);
                 return new GnssFix(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[SIGMA_H],
-                        numbers[SIGMA_V], fixType, sats, numbers[HDOP], numbers[SPEED], numbers[COURSE]);
+                        numbers[SIGMA_V], f, sats, numbers[HDOP], numbers[SPEED], numbers[COURSE]);
             }
-            case "wheel_speed" -> {
+            case WHEEL_SPEED -> {
                 require(T, SPEED);
                 return new WheelSpeed(numbers[T], numbers[SPEED]);
             }
-            case "yaw_rate" -> {
+            case YAW_RATE -> {
                 require(T, RATE);
                 return new YawRate(numbers[T], numbers[RATE]);
             }
-            case "reference" -> {
+            case REFERENCE -> {
                 require(T, LAT, LON);
                 return new ReferencePoint(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[HEADING]);
             }
