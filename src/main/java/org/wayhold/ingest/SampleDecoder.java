@@ -65,11 +65,26 @@ final class SampleDecoder {
     private static final String WHEEL_SPEED = "wheel_speed";
     private static final String YAW_RATE = "yaw_rate";
     private static final String REFERENCE = "reference";
+    /** The sample types, indexed by the KIND_ constants below. */
     private static final String[] TYPE_NAMES = {GNSS, WHEEL_SPEED, YAW_RATE, REFERENCE};
+    private static final int KIND_GNSS = 0;
+    private static final int KIND_WHEEL_SPEED = 1;
+    private static final int KIND_YAW_RATE = 2;
+    private static final int KIND_REFERENCE = 3;
     private static final byte[][] TYPE_BYTES = new byte[TYPE_NAMES.length][];
     private static final FixType[] FIX_TYPES = FixType.values();
     private static final byte[][] FIX_BYTES = new byte[FIX_TYPES.length][];
     private static final byte[] NULL_BYTES = ascii("null");
+    /** 2^53: every whole number up to it is an exact double. */
+    private static final long MAX_EXACT_SIGNIFICAND = 1L << 53;
+    /** 10^0 .. 10^22, every one an exact double (5^22 < 2^53). */
+    private static final double[] POWERS_OF_TEN = {
+        1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
+        1e19, 1e20, 1e21, 1e22};
+    /** Exponents are read up to about this size; anything near it is far outside a double's range. */
+    private static final int EXPONENT_CAP = 100_000;
+    /** Known fields by the first byte of their wire name (ASCII only). */
+    private static final int[][] NAMES_BY_FIRST_BYTE = new int[128][];
     /** Whole numbers of up to this many digits fit a long exactly, as in Jackson's own reading. */
     private static final int LONG_DIGITS = 18;
     /** Longest number {@link #decodeFlat} converts itself (characters); longer ones take the careful path. */
@@ -78,6 +93,11 @@ final class SampleDecoder {
     static {
         for (int i = 0; i < NAMES.length; i++) {
             NAME_BYTES[i] = ascii(NAMES[i]);
+        }
+        for (int c = 0; c < NAMES_BY_FIRST_BYTE.length; c++) {
+            int first = c;
+            NAMES_BY_FIRST_BYTE[c] = java.util.stream.IntStream.range(0, NAMES.length)
+                    .filter(f -> NAMES[f].charAt(0) == first).toArray();
         }
         for (int i = 0; i < TYPE_NAMES.length; i++) {
             TYPE_BYTES[i] = ascii(TYPE_NAMES[i]);
@@ -95,8 +115,8 @@ final class SampleDecoder {
     private FixType fixType;
     private int sats;
     private String error;
-    /** Set by {@link #numberEnd}: the number had neither a fraction nor an exponent. */
-    private boolean numberIsWhole;
+    /** Index into {@link #TYPE_NAMES} when {@link #decodeFlat} read the type, else -1. */
+    private int typeIndex;
 
     /**
      * Reads the object whose {@code START_OBJECT} is the parser's current token, up to and including its
@@ -143,6 +163,7 @@ final class SampleDecoder {
         type = null;
         fix = null;
         fixType = null;
+        typeIndex = -1;
         sats = -1;
         error = null;
         Arrays.fill(numbers, Double.NaN);
@@ -184,14 +205,11 @@ final class SampleDecoder {
             if (i >= to || b[i] != '"') {
                 return null;
             }
-            int nameEnd = plainStringEnd(b, i + 1, to);
-            if (nameEnd < 0) {
-                return null;
-            }
-            int field = fieldOf(b, i + 1, nameEnd);
+            int field = nameAt(b, i + 1, to);
             if (field < 0) {
                 return null;
             }
+            int nameEnd = i + 1 + NAME_BYTES[field].length;
             i = skipSpace(b, nameEnd + 1, to);
             if (i >= to || b[i] != ':') {
                 return null;
@@ -243,6 +261,7 @@ final class SampleDecoder {
             for (int k = 0; k < TYPE_BYTES.length; k++) {
                 if (equalsAt(b, i + 1, end, TYPE_BYTES[k])) {
                     type = TYPE_NAMES[k];
+                    typeIndex = k;
                     return end + 1;
                 }
             }
@@ -258,31 +277,114 @@ final class SampleDecoder {
         return -1;
     }
 
-    /** Reads a number into its slot; returns the index after it, or -1 when the careful path must. */
+    /**
+     * Reads a JSON number (RFC 8259 section 6: optional minus, an integer part without leading zeros,
+     * optional fraction, optional exponent) into its slot in one pass over its bytes, and returns the
+     * index after it, or -1 when the careful path must read the line.
+     *
+     * <p>Whole numbers of up to 18 digits are converted through a long, as Jackson converts them. Other
+     * numbers take Clinger's fast path when they can (W. D. Clinger, "How to read floating point numbers
+     * accurately", PLDI 1990): when the decimal significand w fits in 53 bits and 10^|e| <= 10^22, both
+     * are exact doubles, so w * 10^e or w / 10^-e is one correctly rounded operation, the same double as
+     * {@link Double#parseDouble}. Most sensor values (up to 15 or 16 significant digits) qualify; the
+     * rest go to Jackson's {@link NumberInput#parseDouble(char[], int, int, boolean)} with the fast
+     * parser, also correctly rounded. A number that overflows to infinity takes the careful path, which
+     * names the field.
+     */
     private int flatNumber(byte[] b, int i, int to, int field) {
-        int end = numberEnd(b, i, to);
-        if (end < 0) {
+        int j = i;
+        boolean negative = b[j] == '-';
+        if (negative) {
+            j++;
+        }
+        int intStart = j;
+        if (j >= to) {
             return -1;
         }
-        boolean negative = b[i] == '-';
-        int digitsFrom = negative ? i + 1 : i;
+        long w = 0;
+        int significant = 0;
+        boolean tooLong = false;
+        byte c = b[j];
+        if (c == '0') {
+            j++;
+        } else if (c >= '1' && c <= '9') {
+            do {
+                if (significant < LONG_DIGITS) {
+                    w = w * 10 + (c - '0');
+                    significant++;
+                } else {
+                    tooLong = true;
+                }
+                j++;
+            } while (j < to && (c = b[j]) >= '0' && c <= '9');
+        } else {
+            return -1;
+        }
+        int intDigits = j - intStart;
+        boolean whole = true;
+        int scale = 0;
+        if (j < to && b[j] == '.') {
+            whole = false;
+            int fracStart = ++j;
+            while (j < to && (c = b[j]) >= '0' && c <= '9') {
+                if (significant == 0 && c == '0') {
+                    scale--;
+                } else if (significant < LONG_DIGITS) {
+                    w = w * 10 + (c - '0');
+                    significant++;
+                    scale--;
+                } else {
+                    tooLong = true;
+                }
+                j++;
+            }
+            if (j == fracStart) {
+                return -1;
+            }
+        }
+        if (j < to && (b[j] == 'e' || b[j] == 'E')) {
+            whole = false;
+            j++;
+            boolean negativeExp = false;
+            if (j < to && (b[j] == '+' || b[j] == '-')) {
+                negativeExp = b[j] == '-';
+                j++;
+            }
+            int expStart = j;
+            int exp = 0;
+            while (j < to && (c = b[j]) >= '0' && c <= '9') {
+                if (exp < EXPONENT_CAP) {
+                    exp = exp * 10 + (c - '0');
+                }
+                j++;
+            }
+            if (j == expStart) {
+                return -1;
+            }
+            scale += negativeExp ? -exp : exp;
+        }
         if (field == SATS) {
             // A count: no sign, no fraction, no exponent, and small enough for an int.
-            if (negative || !numberIsWhole || end - digitsFrom > 9) {
+            if (negative || !whole || intDigits > 9) {
                 return -1;
             }
-            sats = (int) wholeValue(b, digitsFrom, end);
-            return end;
+            sats = (int) w;
+            return j;
         }
         double v;
-        if (numberIsWhole) {
-            if (end - digitsFrom > LONG_DIGITS) {
+        if (whole) {
+            if (tooLong) {
                 return -1;
             }
-            long whole = wholeValue(b, digitsFrom, end);
-            v = negative ? -whole : whole;
+            v = negative ? -w : w;
+        } else if (!tooLong && w <= MAX_EXACT_SIGNIFICAND && scale >= -22 && scale <= 22) {
+            double d = w;
+            v = scale >= 0 ? d * POWERS_OF_TEN[scale] : d / POWERS_OF_TEN[-scale];
+            if (negative) {
+                v = -v;
+            }
         } else {
-            int length = end - i;
+            int length = j - i;
             if (length > NUMBER_CHARS) {
                 return -1;
             }
@@ -295,66 +397,7 @@ final class SampleDecoder {
             }
         }
         numbers[field] = v;
-        return end;
-    }
-
-    /**
-     * The end of a JSON number starting at b[i] (RFC 8259 section 6: optional minus, an integer part
-     * without leading zeros, optional fraction, optional exponent), or -1 when there is none. Sets
-     * {@link #numberIsWhole}.
-     */
-    private int numberEnd(byte[] b, int i, int to) {
-        int j = i;
-        if (j < to && b[j] == '-') {
-            j++;
-        }
-        if (j >= to) {
-            return -1;
-        }
-        if (b[j] == '0') {
-            j++;
-        } else if (b[j] >= '1' && b[j] <= '9') {
-            j = digitsEnd(b, j + 1, to);
-        } else {
-            return -1;
-        }
-        numberIsWhole = true;
-        if (j < to && b[j] == '.') {
-            int start = j + 1;
-            j = digitsEnd(b, start, to);
-            if (j == start) {
-                return -1;
-            }
-            numberIsWhole = false;
-        }
-        if (j < to && (b[j] == 'e' || b[j] == 'E')) {
-            j++;
-            if (j < to && (b[j] == '+' || b[j] == '-')) {
-                j++;
-            }
-            int start = j;
-            j = digitsEnd(b, start, to);
-            if (j == start) {
-                return -1;
-            }
-            numberIsWhole = false;
-        }
         return j;
-    }
-
-    private static int digitsEnd(byte[] b, int j, int to) {
-        while (j < to && b[j] >= '0' && b[j] <= '9') {
-            j++;
-        }
-        return j;
-    }
-
-    private static long wholeValue(byte[] b, int from, int to) {
-        long v = 0;
-        for (int k = from; k < to; k++) {
-            v = v * 10 + (b[k] - '0');
-        }
-        return v;
     }
 
     /** Index of the closing quote of a plain string starting at b[from], or -1 (escape, control, non-ASCII, open). */
@@ -372,12 +415,20 @@ final class SampleDecoder {
         return -1;
     }
 
-    private static int fieldOf(byte[] b, int from, int to) {
-        int length = to - from;
-        for (int k = 0; k < NAME_BYTES.length; k++) {
-            byte[] name = NAME_BYTES[k];
-            if (name.length == length && name[0] == b[from] && equalsAt(b, from, to, name)) {
-                return k;
+    /**
+     * The known field whose wire name starts at b[from] and is closed by a quote, or -1. The first byte
+     * picks at most four candidates; each is compared byte for byte, closing quote included, so a name
+     * with an escape or any other spelling is not matched.
+     */
+    private static int nameAt(byte[] b, int from, int to) {
+        if (from >= to || b[from] < 0) {
+            return -1;
+        }
+        for (int field : NAMES_BY_FIRST_BYTE[b[from]]) {
+            byte[] name = NAME_BYTES[field];
+            int end = from + name.length;
+            if (end < to && b[end] == '"' && equalsAt(b, from, end, name)) {
+                return field;
             }
         }
         return -1;
@@ -414,22 +465,23 @@ final class SampleDecoder {
         if (type == null) {
             throw new IllegalArgumentException("type: missing, every sample needs one of " + TYPES);
         }
-        switch (type) {
-            case GNSS -> {
+        int kind = typeIndex >= 0 ? typeIndex : Arrays.asList(TYPE_NAMES).indexOf(type);
+        switch (kind) {
+            case KIND_GNSS -> {
                 require(T, LAT, LON);
                 FixType f = fixType != null ? fixType : fix == null ? FixType.THREE_D : FixType.fromWireName(fix);
                 return new GnssFix(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[SIGMA_H],
                         numbers[SIGMA_V], f, sats, numbers[HDOP], numbers[SPEED], numbers[COURSE]);
             }
-            case WHEEL_SPEED -> {
+            case KIND_WHEEL_SPEED -> {
                 require(T, SPEED);
                 return new WheelSpeed(numbers[T], numbers[SPEED]);
             }
-            case YAW_RATE -> {
+            case KIND_YAW_RATE -> {
                 require(T, RATE);
                 return new YawRate(numbers[T], numbers[RATE]);
             }
-            case REFERENCE -> {
+            case KIND_REFERENCE -> {
                 require(T, LAT, LON);
                 return new ReferencePoint(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[HEADING]);
             }

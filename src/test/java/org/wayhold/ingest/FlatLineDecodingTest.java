@@ -78,7 +78,10 @@ class FlatLineDecodingTest {
         "2.2250738585072011e-308", "1.7976931348623157e308", "1.7976931348623159e308", "9007199254740993",
         "123456789012345678", "1234567890123456789", "12345678901234567890123", "0.1000000000000000055511151231257827",
         "1.00000000000000011102230246251565404236316680908203125", "01", "1.", ".5", "+1", "1e", "1e+", "--1",
-        "0x10", "1_000", "NaN", "Infinity", "-Infinity", "\"1\"", "true", "null", "[1]", "{}"})
+        "0x10", "1_000", "NaN", "Infinity", "-Infinity", "\"1\"", "true", "null", "[1]", "{}", "1e22", "1e23",
+        "1e-22", "1e-23", "9007199254740992.0", "9007199254740993.0", "1234567890123456e-22", "1234567890123456e22",
+        "4503599627370497.5", "0.000000000000000000001", "-0.001785207200628319", "1.8000036005E9", "2.5E-0",
+        "00.5", "1.5e0001", "7e+22", "1.0000000000000000"})
     void numbersInEveryFormGiveTheSameOutcomeOnBothRoads(String number) {
         String line = "{\"type\":\"wheel_speed\",\"t\":" + number + ",\"speed\":" + number + "}";
         byte[] body = line.getBytes(StandardCharsets.UTF_8);
@@ -168,7 +171,18 @@ class FlatLineDecodingTest {
     /** A number of roughly the given magnitude in one of the forms JSON allows (and a few it does not). */
     private static String number(SplittableRandom rnd, double scale) {
         double v = (rnd.nextDouble() * 2.0 - 1.0) * scale;
-        return switch (rnd.nextInt(12)) {
+        return switch (rnd.nextInt(14)) {
+            case 12, 13 -> {
+                // 1 to 17 significant digits with an exponent around the exact-power limit 10^22.
+                String digits = Long.toString(Math.abs(rnd.nextLong()) % (long) Math.pow(10, 1 + rnd.nextInt(17)));
+                int point = rnd.nextInt(digits.length() + 1);
+                String mantissa = digits.substring(0, point) + (point == digits.length() ? "" : "." + digits.substring(point));
+                if (mantissa.isEmpty() || mantissa.startsWith(".")) {
+                    mantissa = "0" + mantissa;
+                }
+                int exp = rnd.nextInt(-30, 31);
+                yield (rnd.nextBoolean() ? "-" : "") + mantissa + (rnd.nextBoolean() ? "e" + exp : "");
+            }
             case 0 -> Double.toString(v);
             case 1 -> String.format(Locale.ROOT, "%.3f", v);
             case 2 -> String.format(Locale.ROOT, "%.6e", v);
