@@ -55,8 +55,8 @@ import org.wayhold.settings.Settings;
 @State(Scope.Thread)
 @BenchmarkMode(Mode.Throughput)
 @OutputTimeUnit(TimeUnit.SECONDS)
-@Warmup(iterations = 3, time = 2)
-@Measurement(iterations = 3, time = 2)
+@Warmup(iterations = 3, time = 1)
+@Measurement(iterations = 5, time = 1)
 @Fork(1)
 @OperationsPerInvocation(ReplayBenchmark.LINES)
 public class ReplayBenchmark {
