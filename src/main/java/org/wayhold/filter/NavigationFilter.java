@@ -32,7 +32,10 @@ import org.wayhold.settings.VehicleProfile;
  * <p>Covariance updates use the Joseph form, P = (I - K H) P (I - K H)' + K R K', which keeps P
  * symmetric and positive semi-definite for any gain (Bucy and Joseph, <i>Filtering for Stochastic
  * Processes with Applications to Guidance</i>, 1968; Brown and Hwang, 4th ed., sec. 4.2). After every
- * update P is symmetrised; a non-positive variance is repaired and counted.
+ * update P is symmetric by construction (its upper triangle is mirrored); a non-positive variance is
+ * repaired and counted. Both products skip the structural zeros of F and H (see
+ * {@link #predictCovariance} and {@link #josephUpdate}): a step allocates nothing and costs a few
+ * hundred multiplications.
  *
  * <p>Instances are mutable and not thread-safe: one writer per vehicle. {@link #copy()} and
  * {@link #restore(NavigationFilter)} take and return to checkpoints for re-filtering late samples.
@@ -126,6 +129,10 @@ public final class NavigationFilter {
     private final double[] ph = new double[SIZE * 2];
     private final double[] k = new double[SIZE * 2];
     private final double[] sInv = new double[4];
+    private final double[] hp = new double[2 * SIZE];
+    /** Columns where H has a nonzero entry, ascending; filled with S. */
+    private final int[] hCols = new int[SIZE];
+    private int hColCount;
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
@@ -421,6 +428,7 @@ public final class NavigationFilter {
         double sigma = settings.gyroNoiseRadPerS();
         r[0] = Math.max(sigma * sigma, 1e-12);
         nu[0] = rateRadPerS - x[GYRO_BIAS];
+        innovationCovarianceInverse(1);
         applyUpdate(1);
     }
 
@@ -443,8 +451,7 @@ public final class NavigationFilter {
         x[YAW] = Angles.wrapPi(x[YAW]);
 
         // P = F P F'
-        multiply(f, p, tmp);
-        multiplyTransposed(tmp, f, p);
+        predictCovariance(f, p, tmp);
 
         // Q: input noise mapped through the input Jacobian G: a white input of density q held over dt
         // has variance q / dt, so Q += G G' q / dt (G already carries the factor dt).
@@ -865,21 +872,36 @@ public final class NavigationFilter {
         anchorOdometerM = odometerM;
     }
 
-    /** S = H P H' + R for the first m rows of H; stores PH' in {@code ph} and S^-1 in {@code sInv}. */
+    /**
+     * S = H P H' + R for the first m rows of H; stores PH' in {@code ph}, S^-1 in {@code sInv} and the
+     * columns where H has a nonzero entry in {@code hCols}. Zero entries of H are skipped: every H
+     * here has at most three nonzeros per row.
+     */
     private void innovationCovarianceInverse(int m) {
+        hColCount = 0;
+        for (int l = 0; l < SIZE; l++) {
+            if (h[l] != 0.0 || (m == 2 && h[SIZE + l] != 0.0)) {
+                hCols[hColCount++] = l;
+            }
+        }
         // PH' (SIZE x m)
         for (int i = 0; i < SIZE; i++) {
-            for (int j = 0; j < m; j++) {
-                double acc = 0.0;
-                for (int l = 0; l < SIZE; l++) {
-                    acc += p[i * SIZE + l] * h[j * SIZE + l];
-                }
-                ph[i * 2 + j] = acc;
+            int row = i * SIZE;
+            double a0 = 0.0;
+            double a1 = 0.0;
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
+                double pil = p[row + l];
+                a0 += pil * h[l];
+                a1 += pil * h[SIZE + l];
             }
+            ph[i * 2] = a0;
+            ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
         }
         if (m == 1) {
             double s00 = r[0];
-            for (int l = 0; l < SIZE; l++) {
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
                 s00 += h[l] * ph[l * 2];
             }
             sInv[0] = 1.0 / s00;
@@ -890,7 +912,8 @@ public final class NavigationFilter {
         double s01 = r[1];
         double s10 = r[2];
         double s11 = r[3];
-        for (int l = 0; l < SIZE; l++) {
+        for (int c = 0; c < hColCount; c++) {
+            int l = hCols[c];
             s00 += h[l] * ph[l * 2];
             s01 += h[l] * ph[l * 2 + 1];
             s10 += h[SIZE + l] * ph[l * 2];
@@ -904,15 +927,16 @@ public final class NavigationFilter {
     }
 
     /**
-     * Applies an update whose H (first m rows), R and innovation are filled, with the gain
-     * K = P H' S^-1 and the Joseph-form covariance update.
+     * Applies an update whose H (first m rows), R, innovation and
+     * {@link #innovationCovarianceInverse(int)} are ready, with the gain K = P H' S^-1 and the
+     * Joseph-form covariance update.
      */
     private void applyUpdate(int m) {
-        innovationCovarianceInverse(m);
         // K = P H' S^-1 (SIZE x m)
         for (int i = 0; i < SIZE; i++) {
             if (m == 1) {
                 k[i * 2] = ph[i * 2] * sInv[0];
+                k[i * 2 + 1] = 0.0;
             } else {
                 k[i * 2] = ph[i * 2] * sInv[0] + ph[i * 2 + 1] * sInv[2];
                 k[i * 2 + 1] = ph[i * 2] * sInv[1] + ph[i * 2 + 1] * sInv[3];
@@ -927,43 +951,79 @@ public final class NavigationFilter {
             x[i] += dx;
         }
         x[YAW] = Angles.wrapPi(x[YAW]);
-        // A = I - K H, stored in f
-        for (int i = 0; i < SIZE; i++) {
-            for (int j = 0; j < SIZE; j++) {
-                double kh = k[i * 2] * h[j];
-                if (m == 2) {
-                    kh += k[i * 2 + 1] * h[SIZE + j];
-                }
-                f[i * SIZE + j] = (i == j ? 1.0 : 0.0) - kh;
-            }
-        }
-        // P = A P A' + K R K'
-        multiply(f, p, tmp);
-        multiplyTransposed(tmp, f, p);
-        for (int i = 0; i < SIZE; i++) {
-            for (int j = 0; j < SIZE; j++) {
-                double krk;
-                if (m == 1) {
-                    krk = k[i * 2] * r[0] * k[j * 2];
-                } else {
-                    double a0 = k[i * 2] * r[0] + k[i * 2 + 1] * r[2];
-                    double a1 = k[i * 2] * r[1] + k[i * 2 + 1] * r[3];
-                    krk = a0 * k[j * 2] + a1 * k[j * 2 + 1];
-                }
-                p[i * SIZE + j] += krk;
-            }
-        }
-        symmetrizeAndCheck();
+        josephUpdate(m);
+        checkDiagonal();
     }
 
-    private void symmetrizeAndCheck() {
+    /**
+     * P = A P A' + K R K' with A = I - K H, applied in factored form rather than formed: A P = P - K (H P)
+     * and (A P) A' = A P - ((A P) H') K'. H has at most three nonzeros per row and K two columns, so
+     * this costs about 400 multiplications where two dense 7 x 7 products cost 686, and it keeps the
+     * Joseph form's structure (a congruence of P plus K R K'), which holds P symmetric and positive
+     * semi-definite for any gain. Only the upper triangle is computed and mirrored: the result is
+     * symmetric by construction.
+     */
+    private void josephUpdate(int m) {
+        // HP (m x SIZE) into hp, row by row of P so the inner loop runs along contiguous memory.
+        Arrays.fill(hp, 0.0);
+        for (int rIdx = 0; rIdx < m; rIdx++) {
+            int out = rIdx * SIZE;
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
+                double hrl = h[out + l];
+                int row = l * SIZE;
+                for (int j = 0; j < SIZE; j++) {
+                    hp[out + j] += hrl * p[row + j];
+                }
+            }
+        }
+        // tmp = A P = P - K (HP)
+        for (int i = 0; i < SIZE; i++) {
+            double k0 = k[i * 2];
+            double k1 = k[i * 2 + 1];
+            for (int j = 0; j < SIZE; j++) {
+                tmp[i * SIZE + j] = p[i * SIZE + j] - (k0 * hp[j] + k1 * hp[SIZE + j]);
+            }
+        }
+        // tmpH' (SIZE x 2) into ph: PH' is not needed any more.
+        for (int i = 0; i < SIZE; i++) {
+            double a0 = 0.0;
+            double a1 = 0.0;
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
+                a0 += tmp[i * SIZE + l] * h[l];
+                a1 += tmp[i * SIZE + l] * h[SIZE + l];
+            }
+            ph[i * 2] = a0;
+            ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
+        }
+        // P = tmp - (tmp H') K' + K R K', upper triangle, mirrored.
+        double r00 = r[0];
+        double r01 = m == 2 ? r[1] : 0.0;
+        double r10 = m == 2 ? r[2] : 0.0;
+        double r11 = m == 2 ? r[3] : 0.0;
+        for (int i = 0; i < SIZE; i++) {
+            double ki0 = k[i * 2];
+            double ki1 = k[i * 2 + 1];
+            double u0 = ph[i * 2];
+            double u1 = ph[i * 2 + 1];
+            // Row i of K R
+            double kr0 = ki0 * r00 + ki1 * r10;
+            double kr1 = ki0 * r01 + ki1 * r11;
+            for (int j = i; j < SIZE; j++) {
+                double kj0 = k[j * 2];
+                double kj1 = k[j * 2 + 1];
+                double v = tmp[i * SIZE + j] - (u0 * kj0 + u1 * kj1) + (kr0 * kj0 + kr1 * kj1);
+                p[i * SIZE + j] = v;
+                p[j * SIZE + i] = v;
+            }
+        }
+    }
+
+    /** Repairs and counts a variance that rounding left non-positive (or NaN). */
+    private void checkDiagonal() {
         boolean repaired = false;
         for (int i = 0; i < SIZE; i++) {
-            for (int j = i + 1; j < SIZE; j++) {
-                double avg = 0.5 * (p[i * SIZE + j] + p[j * SIZE + i]);
-                p[i * SIZE + j] = avg;
-                p[j * SIZE + i] = avg;
-            }
             if (!(p[i * SIZE + i] >= 0.0)) {
                 p[i * SIZE + i] = 1e-12;
                 repaired = true;
@@ -974,29 +1034,53 @@ public final class NavigationFilter {
         }
     }
 
-    /** c = a b for SIZE x SIZE row-major matrices. */
-    private static void multiply(double[] a, double[] b, double[] c) {
-        for (int i = 0; i < SIZE; i++) {
-            for (int j = 0; j < SIZE; j++) {
-                double acc = 0.0;
-                for (int l = 0; l < SIZE; l++) {
-                    acc += a[i * SIZE + l] * b[l * SIZE + j];
-                }
-                c[i * SIZE + j] = acc;
-            }
+    /**
+     * P = F P F' for a transition F with {@link MotionModel}'s pattern: the identity except
+     * F[east|north][yaw|bias|scale], F[yaw][bias] and the Gauss-Markov decay on the diagonal of the
+     * GNSS error states. The product skips the structural zeros (about 200 multiplications instead of
+     * 686) but adds the remaining terms in the same order as the dense product, starting from +0.0, and
+     * multiplies by the unit diagonal exactly, so the result is the dense one bit for bit.
+     *
+     * @param f   F, row-major SIZE x SIZE (not modified)
+     * @param p   P, row-major SIZE x SIZE (replaced by F P F')
+     * @param tmp work array of SIZE x SIZE (overwritten)
+     */
+    static void predictCovariance(double[] f, double[] p, double[] tmp) {
+        double fEY = f[EAST * SIZE + YAW];
+        double fEB = f[EAST * SIZE + GYRO_BIAS];
+        double fES = f[EAST * SIZE + SPEED_SCALE];
+        double fNY = f[NORTH * SIZE + YAW];
+        double fNB = f[NORTH * SIZE + GYRO_BIAS];
+        double fNS = f[NORTH * SIZE + SPEED_SCALE];
+        double fYB = f[YAW * SIZE + GYRO_BIAS];
+        double dE = f[GNSS_ERR_EAST * SIZE + GNSS_ERR_EAST];
+        double dN = f[GNSS_ERR_NORTH * SIZE + GNSS_ERR_NORTH];
+        // tmp = F P, row by row; terms in ascending column order of F (east, north < yaw < bias < scale).
+        for (int j = 0; j < SIZE; j++) {
+            double pY = p[YAW * SIZE + j];
+            double pB = p[GYRO_BIAS * SIZE + j];
+            double pS = p[SPEED_SCALE * SIZE + j];
+            tmp[EAST * SIZE + j] = 0.0 + p[EAST * SIZE + j] + fEY * pY + fEB * pB + fES * pS;
+            tmp[NORTH * SIZE + j] = 0.0 + p[NORTH * SIZE + j] + fNY * pY + fNB * pB + fNS * pS;
+            tmp[YAW * SIZE + j] = 0.0 + pY + fYB * pB;
+            tmp[GYRO_BIAS * SIZE + j] = 0.0 + pB;
+            tmp[SPEED_SCALE * SIZE + j] = 0.0 + pS;
+            tmp[GNSS_ERR_EAST * SIZE + j] = 0.0 + dE * p[GNSS_ERR_EAST * SIZE + j];
+            tmp[GNSS_ERR_NORTH * SIZE + j] = 0.0 + dN * p[GNSS_ERR_NORTH * SIZE + j];
         }
-    }
-
-    /** c = a b' for SIZE x SIZE row-major matrices. */
-    private static void multiplyTransposed(double[] a, double[] b, double[] c) {
+        // P = tmp F', column by column of the result.
         for (int i = 0; i < SIZE; i++) {
-            for (int j = 0; j < SIZE; j++) {
-                double acc = 0.0;
-                for (int l = 0; l < SIZE; l++) {
-                    acc += a[i * SIZE + l] * b[j * SIZE + l];
-                }
-                c[i * SIZE + j] = acc;
-            }
+            int row = i * SIZE;
+            double tY = tmp[row + YAW];
+            double tB = tmp[row + GYRO_BIAS];
+            double tS = tmp[row + SPEED_SCALE];
+            p[row + EAST] = 0.0 + tmp[row + EAST] + tY * fEY + tB * fEB + tS * fES;
+            p[row + NORTH] = 0.0 + tmp[row + NORTH] + tY * fNY + tB * fNB + tS * fNS;
+            p[row + YAW] = 0.0 + tY + tB * fYB;
+            p[row + GYRO_BIAS] = 0.0 + tB;
+            p[row + SPEED_SCALE] = 0.0 + tS;
+            p[row + GNSS_ERR_EAST] = 0.0 + tmp[row + GNSS_ERR_EAST] * dE;
+            p[row + GNSS_ERR_NORTH] = 0.0 + tmp[row + GNSS_ERR_NORTH] * dN;
         }
     }
 

@@ -64,15 +64,11 @@ public final class ReorderBuffer<C> {
      */
     public List<Admission> submit(List<? extends Sample> batch) {
         Admission[] result = new Admission[batch.size()];
-        Integer[] order = new Integer[batch.size()];
-        for (int i = 0; i < order.length; i++) {
-            order[i] = i;
-        }
-        Arrays.sort(order, (a, b) -> SampleOrder.BY_TIME_THEN_TYPE.compare(batch.get(a), batch.get(b)));
+        int[] order = processingOrder(batch);
 
-        List<Sample> fresh = new ArrayList<>();
+        List<Sample> fresh = new ArrayList<>(batch.size());
         double newestT = newest == null ? Double.NaN : newest.t();
-        for (Integer idx : order) {
+        for (int idx : order) {
             Sample s = batch.get(idx);
             Admission a = admit(s, newestT, fresh);
             result[idx] = a;
@@ -92,6 +88,46 @@ public final class ReorderBuffer<C> {
             trim();
         }
         return List.of(result);
+    }
+
+    /**
+     * Indices of the batch in processing order: by time then type, arrival order among equals (a stable
+     * sort). Batches are usually in order or nearly so (samples of one instant in another type order), so
+     * a stable insertion sort runs first, in time linear in the batch plus its inversions; past a budget
+     * of moves it gives way to the library's stable merge sort, which bounds the worst case.
+     */
+    private static int[] processingOrder(List<? extends Sample> batch) {
+        int n = batch.size();
+        int[] order = new int[n];
+        long budget = 4L * n + 64;
+        for (int i = 0; i < n; i++) {
+            Sample s = batch.get(i);
+            int j = i;
+            while (j > 0 && SampleOrder.compare(batch.get(order[j - 1]), s) > 0) {
+                order[j] = order[j - 1];
+                j--;
+                if (--budget < 0) {
+                    return mergeSorted(batch);
+                }
+            }
+            order[j] = i;
+        }
+        return order;
+    }
+
+    private static int[] mergeSorted(List<? extends Sample> batch) {
+        int n = batch.size();
+        Integer[] boxed = new Integer[n];
+        for (int i = 0; i < n; i++) {
+            boxed[i] = i;
+        }
+        // Arrays.sort on objects is a stable merge sort (TimSort).
+        Arrays.sort(boxed, (a, b) -> SampleOrder.compare(batch.get(a), batch.get(b)));
+        int[] order = new int[n];
+        for (int i = 0; i < n; i++) {
+            order[i] = boxed[i];
+        }
+        return order;
     }
 
     private Admission admit(Sample s, double newestT, List<Sample> fresh) {
@@ -115,6 +151,10 @@ public final class ReorderBuffer<C> {
 
     /** True when an equal sample is in the sorted list (binary search on the order, then equals). */
     private static boolean containsEqual(List<Sample> sorted, Sample s) {
+        // In-order arrivals rank after everything kept: no equal sample can be there.
+        if (sorted.isEmpty() || SampleOrder.compare(s, sorted.get(sorted.size() - 1)) > 0) {
+            return false;
+        }
         int i = Collections.binarySearch(sorted, s, SampleOrder.BY_TIME_THEN_TYPE);
         if (i < 0) {
             return false;

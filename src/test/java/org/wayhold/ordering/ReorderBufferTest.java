@@ -56,6 +56,32 @@ class ReorderBufferTest {
         return out;
     }
 
+    /**
+     * One batch, applied in the order of a stable sort (List.sort is stable by its contract): samples of
+     * equal time and type keep their arrival order. The nearly ordered batch (yaw rate before wheel speed
+     * at each instant) stays within the insertion sort's budget; the reversed one exceeds it and takes the
+     * merge sort. Both must give the stable order.
+     */
+    @Test
+    void aBatchIsAppliedInStableTimeThenTypeOrderWhetherNearlyOrderedOrReversed() {
+        List<Sample> nearly = new ArrayList<>();
+        for (int k = 0; k < 3000; k++) {
+            double t = 100.0 + (k / 4) * 0.01;
+            // Four samples per instant: two yaw rates that tie on the order key, then two wheel speeds.
+            nearly.add(new YawRate(t, k));
+            nearly.add(new WheelSpeed(t, k));
+        }
+        List<Sample> reversed = new ArrayList<>(nearly);
+        Collections.reverse(reversed);
+        for (List<Sample> batch : List.of(nearly, reversed)) {
+            List<Sample> expected = new ArrayList<>(batch);
+            expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
+            Recorder rec = new Recorder();
+            new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0)).submit(batch);
+            assertThat(rec.applied).isEqualTo(expected);
+        }
+    }
+
     @Test
     void shuffledBatchesWithinTheWindowEndExactlyInOrder() {
         List<Sample> all = streams(1.8e9, 30.0);
