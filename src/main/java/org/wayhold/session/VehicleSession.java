@@ -16,7 +16,6 @@ import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.ordering.Admission;
 import org.wayhold.ordering.ReorderBuffer;
-import org.wayhold.ordering.SampleOrder;
 import org.wayhold.ordering.Replayable;
 import org.wayhold.pose.Pose;
 import org.wayhold.pose.PoseAssembler;
@@ -25,6 +24,8 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.WheelSpeed;
+import org.wayhold.sample.YawRate;
 import org.wayhold.settings.Settings;
 
 /**
@@ -224,6 +225,17 @@ public final class VehicleSession {
         return new Checkpoint(f, frame, lastHistoryTRel, applied);
     }
 
+    /** Index into the applied counters: wheel speed, yaw rate, GNSS, reference, as in {@link SessionStats}. */
+    private static int countIndex(Sample s) {
+        if (s instanceof WheelSpeed) {
+            return 0;
+        }
+        if (s instanceof YawRate) {
+            return 1;
+        }
+        return s instanceof GnssFix ? 2 : 3;
+    }
+
     /** Everything a checkpoint must bring back. */
     private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
                               long[] appliedByType) {
@@ -252,7 +264,7 @@ public final class VehicleSession {
                 fixes.add(new FixRecord(g.t(), g.latDeg(), g.lonDeg(), enu.eastM(), enu.northM(),
                         filter.horizontalSigmaM(g), outcome.kind(), outcome.nis()));
             }
-            appliedByType[SampleOrder.rank(sample)]++;
+            appliedByType[countIndex(sample)]++;
             if (sample instanceof ReferencePoint) {
                 // Reference points are for scoring only: they reach the filter only as time.
                 return;
