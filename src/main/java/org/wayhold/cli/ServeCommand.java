@@ -1,0 +1,138 @@
+package org.wayhold.cli;
+
+import java.io.IOException;
+import java.io.PrintWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.Callable;
+import java.util.concurrent.CountDownLatch;
+import org.wayhold.config.ConfigLoader;
+import org.wayhold.http.HttpService;
+import org.wayhold.ingest.LineError;
+import org.wayhold.ingest.NdjsonReader;
+import org.wayhold.ingest.SampleSink;
+import org.wayhold.sample.Sample;
+import org.wayhold.session.LogReplay;
+import org.wayhold.session.SessionRegistry;
+import org.wayhold.settings.ServerSettings;
+import org.wayhold.settings.Settings;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Model.CommandSpec;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.ParameterException;
+import picocli.CommandLine.Spec;
+
+/**
+ * {@code wayhold serve}: runs the HTTP service until SIGTERM or Ctrl-C, optionally replaying a recorded
+ * log into one vehicle so that poses (and an outage) can be watched with no logging rig attached.
+ *
+ * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
+ * connector stops accepting and requests in flight get up to ten seconds to finish.
+ */
+@Command(name = "serve", mixinStandardHelpOptions = true,
+        description = "Runs the HTTP service (default http://127.0.0.1:8470) until SIGTERM or Ctrl-C.")
+final class ServeCommand implements Callable<Integer> {
+
+    @Spec
+    private CommandSpec spec;
+
+    @Option(names = "--config", paramLabel = "FILE",
+            description = "YAML settings; built-in defaults when the file does not exist (default: ${DEFAULT-VALUE}).")
+    private Path config = Path.of("config", "wayhold.yaml");
+
+    @Option(names = "--port", paramLabel = "N", description = "TCP port, overrides server.port (0 picks a free one).")
+    private Integer port;
+
+    @Option(names = "--bind", paramLabel = "ADDR", description = "Address to listen on, overrides server.bind.")
+    private String bind;
+
+    @Option(names = "--replay", paramLabel = "FILE",
+            description = "Replays this NDJSON log (.gz allowed) into one vehicle in scaled real time.")
+    private Path replay;
+
+    @Option(names = "--speed", paramLabel = "X", defaultValue = "1",
+            description = "Replay speed as a multiple of real time (default: ${DEFAULT-VALUE}).")
+    private double speed;
+
+    @Option(names = "--vehicle", paramLabel = "ID", defaultValue = "replay",
+            description = "Vehicle id that the replay feeds (default: ${DEFAULT-VALUE}).")
+    private String vehicle;
+
+    @Override
+    public Integer call() throws Exception {
+        PrintWriter out = spec.commandLine().getOut();
+        if (!(speed > 0.0 && Double.isFinite(speed))) {
+            throw new ParameterException(spec.commandLine(), "--speed: must be a positive number, was " + speed);
+        }
+        if (replay != null && !Files.isRegularFile(replay)) {
+            throw new ParameterException(spec.commandLine(), "--replay: no such file " + replay);
+        }
+        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<Sample> log = replay == null ? List.of() : readLog(replay, out);
+
+        SessionRegistry sessions = new SessionRegistry(settings, null);
+        HttpService service = new HttpService(sessions).start();
+        out.println("wayhold serving on " + service.baseUrl() + "  (Ctrl-C to stop)");
+
+        LogReplay replayer = null;
+        Thread replayThread = null;
+        if (replay != null) {
+            replayer = new LogReplay(log, speed, batch -> sessions.getOrCreate(vehicle).session().submit(batch));
+            replayThread = new Thread(replayer, "replay-" + vehicle);
+            replayThread.setDaemon(true);
+            replayThread.start();
+            out.printf(java.util.Locale.ROOT, "replaying %d samples of %s into vehicle '%s' at %sx: %s/v1/vehicles/%s/pose%n",
+                    log.size(), replay, vehicle, speed, service.baseUrl(), vehicle);
+        }
+        out.flush();
+
+        CountDownLatch stopped = new CountDownLatch(1);
+        LogReplay finalReplayer = replayer;
+        Thread finalReplayThread = replayThread;
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            if (finalReplayer != null) {
+                finalReplayer.stop();
+                finalReplayThread.interrupt();
+            }
+            service.stop();
+            stopped.countDown();
+        }, "wayhold-shutdown"));
+        stopped.await();
+        return 0;
+    }
+
+    private Settings withOverrides(Settings s) {
+        if (port == null && bind == null) {
+            return s;
+        }
+        ServerSettings v = s.server();
+        ServerSettings server = new ServerSettings(port != null ? port : v.port(), bind != null ? bind : v.bind(),
+                v.writeTokens(), v.readTokens(), v.maxBodyBytes(), v.maxLineBytes(), v.maxSamplesPerRequest(),
+                v.maxSessions(), v.maxSamplesPerSecondPerVehicle(), v.corsOrigins(), v.sseKeepAliveS());
+        return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles());
+    }
+
+    private static List<Sample> readLog(Path file, PrintWriter out) throws IOException {
+        List<Sample> samples = new ArrayList<>();
+        long[] rejected = new long[1];
+        NdjsonReader.readFile(file, new SampleSink() {
+            @Override
+            public void accept(Sample s) {
+                samples.add(s);
+            }
+
+            @Override
+            public void reject(LineError e) {
+                if (rejected[0]++ < 5) {
+                    out.println("replay: " + file + " line " + e.line() + " skipped: " + e.reason());
+                }
+            }
+        });
+        if (rejected[0] > 0) {
+            out.println("replay: " + rejected[0] + " lines skipped in total");
+        }
+        return samples;
+    }
+}

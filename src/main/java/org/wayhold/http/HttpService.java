@@ -1,0 +1,162 @@
+package org.wayhold.http;
+
+import io.javalin.Javalin;
+import io.javalin.config.JavalinConfig;
+import io.javalin.http.Context;
+import io.javalin.router.Endpoint;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import org.eclipse.jetty.server.handler.GracefulHandler;
+import org.wayhold.session.SessionRegistry;
+import org.wayhold.settings.ServerSettings;
+
+/**
+ * The HTTP service: every route of the contract, wired here in one place as plain lambdas that call
+ * small handler classes ({@link VehicleRoutes}, {@link SampleIngest}, {@link PoseStreams}).
+ *
+ * <p>Lifecycle: {@link #start()} binds {@code server.bind}:{@code server.port} (port 0 picks a free
+ * port). {@link #stop()} is graceful: pose streams are ended cleanly first, then the connector stops
+ * accepting and requests in flight get up to {@link #STOP_TIMEOUT_MS} to finish.
+ */
+public final class HttpService implements AutoCloseable {
+
+    /** How long a graceful stop waits for requests in flight (ms). */
+    static final long STOP_TIMEOUT_MS = 10_000;
+
+    private final ServerSettings server;
+    private final SessionRegistry sessions;
+    private final PoseStreams streams;
+    private final ServiceMetrics metrics;
+    private final byte[] openApiYaml;
+    private final List<String> routes = Collections.synchronizedList(new ArrayList<>());
+    private final Javalin app;
+    private final long startedNanos = System.nanoTime();
+
+    /**
+     * @param sessions the vehicle sessions; their settings' {@code server} section configures this service
+     */
+    public HttpService(SessionRegistry sessions) {
+        this.server = sessions.settings().server();
+        this.sessions = sessions;
+        this.streams = new PoseStreams(server.sseKeepAliveS());
+        this.metrics = new ServiceMetrics(sessions, streams);
+        this.openApiYaml = readOpenApi();
+        sessions.addRemovalListener(streams::closeVehicle);
+        SampleIngest ingest = new SampleIngest(sessions, server, metrics);
+        VehicleRoutes vehicles = new VehicleRoutes(sessions, ingest, streams);
+        this.app = Javalin.create(config -> configure(config, vehicles));
+    }
+
+    private void configure(JavalinConfig config, VehicleRoutes vehicles) {
+        config.startup.showJavalinBanner = false;
+        config.startup.showOldJavalinVersionWarning = false;
+        config.jetty.host = server.bind();
+        config.jetty.port = server.port();
+        config.http.prefer405over404 = true;
+        config.http.maxRequestSize = server.maxBodyBytes();
+        config.jetty.modifyServer(s -> {
+            // Jetty 12 waits for requests in flight on stop only with a GracefulHandler in the chain.
+            s.insertHandler(new GracefulHandler());
+            s.setStopTimeout(STOP_TIMEOUT_MS);
+        });
+        config.events.serverStopping(streams::closeAll);
+        config.events.handlerAdded(h -> routes.add(h.getHttpMethod().name() + " " + h.getPath()));
+        if (!server.corsOrigins().isEmpty()) {
+            config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
+                for (String origin : server.corsOrigins()) {
+                    if (origin.equals("*")) {
+                        rule.anyHost();
+                    } else {
+                        rule.allowHost(origin);
+                    }
+                }
+                rule.exposeHeader("ETag");
+            }));
+        }
+        config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
+                ctx.statusCode(), ms));
+
+        ErrorMapping.install(config.routes);
+        config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
+        config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
+        config.routes.get("/v1/vehicles/{vehicle}/track", vehicles::getTrack);
+        config.routes.get("/v1/vehicles/{vehicle}/stream", vehicles::stream);
+        config.routes.delete("/v1/vehicles/{vehicle}", vehicles::delete);
+        config.routes.get("/v1/vehicles", vehicles::list);
+        config.routes.get("/health", this::health);
+        config.routes.get("/metrics", ctx -> ctx.contentType("text/plain; version=0.0.4; charset=utf-8")
+                .result(metrics.scrape()));
+        config.routes.get("/openapi.yaml", ctx -> ctx.contentType("application/yaml").result(openApiYaml));
+    }
+
+    private void health(Context ctx) {
+        ctx.header("Cache-Control", "no-store");
+        ctx.contentType("application/json");
+        ctx.result(String.format(java.util.Locale.ROOT,
+                "{\"status\":\"ok\",\"sessions\":%d,\"streams\":%d,\"uptime_s\":%.3f}",
+                sessions.size(), streams.openCount(), (System.nanoTime() - startedNanos) / 1e9));
+    }
+
+    /** The matched route template for metric labels; never the raw path (unbounded label values). */
+    private static String routeOf(Context ctx) {
+        try {
+            Endpoint e = ctx.endpoints().lastHttpEndpoint();
+            return e == null ? "unmatched" : e.path;
+        } catch (RuntimeException e) {
+            return "unmatched";
+        }
+    }
+
+    private static byte[] readOpenApi() {
+        try (InputStream in = HttpService.class.getResourceAsStream("openapi.yaml")) {
+            if (in == null) {
+                throw new IllegalStateException("openapi.yaml: missing from the classpath at org/wayhold/http/;"
+                        + " the build copies it from the top-level openapi.yaml");
+            }
+            return in.readAllBytes();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** Binds and starts serving; returns this. */
+    public HttpService start() {
+        app.start();
+        return this;
+    }
+
+    /** The bound port (the chosen one when the settings asked for port 0). */
+    public int port() {
+        return app.port();
+    }
+
+    /** {@code http://host:port} of the bound connector. */
+    public String baseUrl() {
+        String host = server.bind();
+        if (host.contains(":") && !host.startsWith("[")) {
+            host = "[" + host + "]";
+        }
+        return "http://" + host + ":" + port();
+    }
+
+    /** Every registered route as {@code "METHOD /path/{param}"}, in registration order. */
+    public List<String> routes() {
+        synchronized (routes) {
+            return List.copyOf(routes);
+        }
+    }
+
+    /** Graceful stop: ends pose streams, stops accepting, lets requests in flight finish. */
+    public void stop() {
+        app.stop();
+    }
+
+    @Override
+    public void close() {
+        stop();
+    }
+}

@@ -1,0 +1,125 @@
+package org.wayhold.http;
+
+import com.fasterxml.jackson.core.JsonFactory;
+import com.fasterxml.jackson.core.JsonGenerator;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.geo.ProjectedCrs;
+import org.wayhold.pose.Pose;
+
+/**
+ * Writes poses as the contract's pose JSON.
+ *
+ * <p>Field names and units: {@code t} (s, vehicle clock), {@code lat}/{@code lon} (degrees WGS-84),
+ * {@code alt} (m ellipsoidal), {@code east}/{@code north}/{@code up} (m in the session's ENU frame),
+ * {@code heading_deg} (degrees clockwise from true north), {@code speed} (m/s), {@code yaw_rate} (rad/s,
+ * counter-clockwise positive, gyro bias removed), {@code cov} {@code ee, en, nn} (m^2),
+ * {@code ellipse95} {@code semi_major, semi_minor} (m) and {@code orientation_deg} (degrees clockwise
+ * from true north, [0, 180)), {@code state} (wire name), {@code outage} {@code active, since (s or
+ * null), seconds, meters}, {@code gyro_bias} (rad/s), {@code speed_scale} (unitless), {@code origin}
+ * {@code lat, lon, alt} (null before the first fix). Two additions beyond the contract's list:
+ * {@code radius95} (m, the 95% horizontal radius the alert limit is checked against, equal to the
+ * ellipse's semi-major axis) and {@code heading_sigma_deg} (degrees, 1-sigma of the heading). In a
+ * track requested with {@code crs}, {@code x} and {@code y} give the position in that CRS's units.
+ *
+ * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
+ * written as {@code null}.
+ */
+final class PoseJson {
+
+    static final JsonFactory FACTORY = new JsonFactory();
+
+    private PoseJson() {
+    }
+
+    /** One pose as a JSON document (UTF-8). */
+    static byte[] toBytes(Pose p) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream(768);
+        try (JsonGenerator g = FACTORY.createGenerator(out)) {
+            write(g, p, null);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        return out.toByteArray();
+    }
+
+    /**
+     * Writes one pose object.
+     *
+     * @param crs when not null, adds {@code x} and {@code y} projected into it (null when the pose has no
+     *            position yet)
+     */
+    static void write(JsonGenerator g, Pose p, ProjectedCrs crs) throws IOException {
+        g.writeStartObject();
+        number(g, "t", p.t());
+        number(g, "lat", p.latDeg());
+        number(g, "lon", p.lonDeg());
+        number(g, "alt", p.altM());
+        number(g, "east", p.eastM());
+        number(g, "north", p.northM());
+        number(g, "up", p.upM());
+        if (crs != null) {
+            double[] xy = projectOrNull(crs, p);
+            number(g, "x", xy == null ? Double.NaN : xy[0]);
+            number(g, "y", xy == null ? Double.NaN : xy[1]);
+        }
+        number(g, "heading_deg", p.headingDeg());
+        number(g, "heading_sigma_deg", p.headingSigmaDeg());
+        number(g, "speed", p.speedMps());
+        number(g, "yaw_rate", p.yawRateRadPerS());
+        g.writeObjectFieldStart("cov");
+        number(g, "ee", p.covEastEastM2());
+        number(g, "en", p.covEastNorthM2());
+        number(g, "nn", p.covNorthNorthM2());
+        g.writeEndObject();
+        g.writeObjectFieldStart("ellipse95");
+        number(g, "semi_major", p.ellipse95().semiMajorM());
+        number(g, "semi_minor", p.ellipse95().semiMinorM());
+        number(g, "orientation_deg", p.ellipse95().orientationDeg());
+        g.writeEndObject();
+        number(g, "radius95", p.radius95M());
+        g.writeStringField("state", p.state().wireName());
+        g.writeObjectFieldStart("outage");
+        g.writeBooleanField("active", p.outage().active());
+        number(g, "since", p.outage().active() ? p.outage().sinceT() : Double.NaN);
+        number(g, "seconds", p.outage().seconds());
+        number(g, "meters", p.outage().meters());
+        g.writeEndObject();
+        number(g, "gyro_bias", p.gyroBiasRadPerS());
+        number(g, "speed_scale", p.speedScale());
+        Geodetic o = p.origin();
+        if (o == null) {
+            g.writeNullField("origin");
+        } else {
+            g.writeObjectFieldStart("origin");
+            number(g, "lat", o.latDeg());
+            number(g, "lon", o.lonDeg());
+            number(g, "alt", o.altM());
+            g.writeEndObject();
+        }
+        g.writeEndObject();
+    }
+
+    /** {x, y} of the pose in the CRS, or null when the pose has no valid position yet. */
+    static double[] projectOrNull(ProjectedCrs crs, Pose p) {
+        if (!hasPosition(p)) {
+            return null;
+        }
+        return crs.project(p.latDeg(), p.lonDeg());
+    }
+
+    static boolean hasPosition(Pose p) {
+        return Double.isFinite(p.latDeg()) && Double.isFinite(p.lonDeg());
+    }
+
+    /** A number, or null when it is not finite (JSON has no NaN or infinity). */
+    static void number(JsonGenerator g, String name, double value) throws IOException {
+        if (Double.isFinite(value)) {
+            g.writeNumberField(name, value);
+        } else {
+            g.writeNullField(name);
+        }
+    }
+}

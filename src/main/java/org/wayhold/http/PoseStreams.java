@@ -1,0 +1,181 @@
+package org.wayhold.http;
+
+import io.javalin.http.Context;
+import io.javalin.http.sse.SseClient;
+import io.javalin.http.sse.SseHandler;
+import java.nio.charset.StandardCharsets;
+import java.util.Set;
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.function.Consumer;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import org.wayhold.pose.Pose;
+import org.wayhold.session.VehicleSession;
+
+/**
+ * Server-Sent Events streams of poses, one pose per event.
+ *
+ * <p>Each client has a bounded queue and a writer thread of its own. The session's listener runs on the
+ * thread that feeds the vehicle, so it only offers the pose to the queue and never waits: a client that
+ * cannot keep up fills its queue and is closed (it may reconnect and starts again from the latest pose),
+ * and no client can ever slow ingest down. The writer sends each queued pose as an event named
+ * {@code pose} whose {@code id} counts events on that stream, and a comment line {@code : keep-alive}
+ * whenever nothing was sent for {@code server.sse_keep_alive_s}, which keeps proxies from timing the
+ * stream out and reveals clients that have gone away.
+ *
+ * <p>{@link #closeAll()} ends every stream cleanly (the response is completed, not cut), for shutdown and
+ * for a deleted vehicle.
+ */
+final class PoseStreams {
+
+    private static final Logger LOG = LoggerFactory.getLogger(PoseStreams.class);
+
+    /** Poses queued per client before it counts as too slow (count): about 50 s of history at 5 Hz. */
+    static final int QUEUE_CAPACITY = 256;
+
+    /** Most open streams (count); each holds a thread, so the number is bounded. */
+    static final int MAX_STREAMS = 256;
+
+    private final long keepAliveMillis;
+    private final Set<Stream> open = ConcurrentHashMap.newKeySet();
+    private final AtomicInteger threadNumber = new AtomicInteger();
+    private final ExecutorService writers = Executors.newCachedThreadPool(r -> {
+        Thread t = new Thread(r, "pose-stream-" + threadNumber.incrementAndGet());
+        t.setDaemon(true);
+        return t;
+    });
+    private volatile boolean closing;
+
+    /** @param keepAliveS interval of keep-alive comments (s, > 0) */
+    PoseStreams(double keepAliveS) {
+        this.keepAliveMillis = Math.max(1L, Math.round(keepAliveS * 1000.0));
+    }
+
+    int openCount() {
+        return open.size();
+    }
+
+    /**
+     * Starts a stream of the session's poses on this request; the current pose, if any, is the first
+     * event.
+     */
+    void start(Context ctx, String vehicleId, VehicleSession session) {
+        if (closing) {
+            throw HttpProblem.unavailable("stream", "stream: the service is shutting down");
+        }
+        if (open.size() >= MAX_STREAMS) {
+            throw HttpProblem.unavailable("stream", "stream: all " + MAX_STREAMS + " pose streams are in use");
+        }
+        // A timeout of 0 keeps the asynchronous response open until the stream closes it.
+        new SseHandler(0L, client -> attach(client, vehicleId, session)).handle(ctx);
+    }
+
+    private void attach(SseClient client, String vehicleId, VehicleSession session) {
+        Stream s = new Stream(client, vehicleId, session);
+        client.keepAlive();
+        client.onClose(s::detach);
+        open.add(s);
+        session.latest().ifPresent(s::offer);
+        session.addListener(s);
+        try {
+            writers.execute(s::write);
+        } catch (java.util.concurrent.RejectedExecutionException e) {
+            s.detach();
+            client.close();
+        }
+    }
+
+    /** Ends the streams of one vehicle (its session was deleted). */
+    void closeVehicle(String vehicleId) {
+        for (Stream s : open) {
+            if (s.vehicleId.equals(vehicleId)) {
+                s.requestClose();
+            }
+        }
+    }
+
+    /** Ends every stream and refuses new ones; waits up to a second for the writers to finish. */
+    void closeAll() {
+        closing = true;
+        for (Stream s : open) {
+            s.requestClose();
+        }
+        writers.shutdown();
+        try {
+            if (!writers.awaitTermination(1, TimeUnit.SECONDS)) {
+                LOG.warn("{} pose streams did not end within 1 s", open.size());
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+    }
+
+    /** One client: the queue the listener fills and the loop that empties it. */
+    private final class Stream implements Consumer<Pose> {
+        private final SseClient client;
+        private final String vehicleId;
+        private final VehicleSession session;
+        private final BlockingQueue<Pose> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY);
+        private volatile boolean closeRequested;
+        private volatile boolean overflowed;
+        private long eventId;
+
+        Stream(SseClient client, String vehicleId, VehicleSession session) {
+            this.client = client;
+            this.vehicleId = vehicleId;
+            this.session = session;
+        }
+
+        /** Called on the feeding thread: never blocks. */
+        @Override
+        public void accept(Pose pose) {
+            offer(pose);
+        }
+
+        void offer(Pose pose) {
+            if (!queue.offer(pose)) {
+                overflowed = true;
+            }
+        }
+
+        void requestClose() {
+            closeRequested = true;
+        }
+
+        void detach() {
+            session.removeListener(this);
+            open.remove(this);
+        }
+
+        void write() {
+            try {
+                while (!closeRequested && !overflowed && !client.terminated()) {
+                    Pose p = queue.poll(keepAliveMillis, TimeUnit.MILLISECONDS);
+                    if (p == null) {
+                        client.sendComment("keep-alive");
+                    } else {
+                        client.sendEvent("pose", new String(PoseJson.toBytes(p), StandardCharsets.UTF_8),
+                                Long.toString(++eventId));
+                    }
+                }
+                if (overflowed && !client.terminated()) {
+                    client.sendComment("closing: the client did not keep up with the pose stream");
+                }
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            } catch (RuntimeException e) {
+                // A failed write means the client has gone; nothing is left to tell it.
+                LOG.debug("pose stream for {} ended: {}", vehicleId, e.toString());
+            } finally {
+                detach();
+                client.close();
+            }
+        }
+    }
+}

@@ -1,0 +1,238 @@
+package org.wayhold.http;
+
+import com.fasterxml.jackson.core.JsonGenerator;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+import org.wayhold.ingest.LineError;
+import org.wayhold.ingest.NdjsonReader;
+import org.wayhold.ingest.SampleSink;
+import org.wayhold.ordering.Admission;
+import org.wayhold.sample.Sample;
+import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleSession;
+import org.wayhold.settings.ServerSettings;
+
+/**
+ * Reads one request body of samples and submits them to a vehicle's session as it reads.
+ *
+ * <p>The body is read as a stream and never held whole: lines are parsed one at a time, and valid
+ * samples go to the session in chunks of {@link #CHUNK_SAMPLES}, so memory stays bounded whatever the
+ * body's size and a dashboard sees a long upload progress. The session is created by the first valid
+ * sample, so a body with none leaves no empty session behind.
+ *
+ * <p>Limits: more than {@code server.max_body_bytes} bytes or {@code server.max_samples_per_request}
+ * samples end the request with 413. A body with a {@code Content-Length} over the limit is refused before
+ * anything is read; a chunked body is cut where it passes the limit, and the chunks submitted before
+ * that point stay applied (the problem says how many samples that was). Resending the whole body is
+ * safe: exact duplicates are recognised and ignored by the session.
+ */
+final class SampleIngest {
+
+    /** Samples per submission to the session (count): large enough to amortise its lock and sort. */
+    static final int CHUNK_SAMPLES = 4096;
+
+    /** Most rejections listed in a reply (count); {@code rejected_count} always gives the total. */
+    static final int MAX_LISTED_REJECTIONS = 1000;
+
+    /** The body's media type. */
+    enum Format { NDJSON, JSON }
+
+    private final SessionRegistry sessions;
+    private final ServerSettings limits;
+    private final ServiceMetrics metrics;
+    private final NdjsonReader reader;
+
+    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics) {
+        this.sessions = sessions;
+        this.limits = limits;
+        this.metrics = metrics;
+        this.reader = new NdjsonReader(limits.maxLineBytes());
+    }
+
+    /** The format named by a Content-Type header; 415 for anything else. */
+    static Format formatOf(String contentType) {
+        if (contentType != null) {
+            int semicolon = contentType.indexOf(';');
+            String type = (semicolon < 0 ? contentType : contentType.substring(0, semicolon)).strip()
+                    .toLowerCase(java.util.Locale.ROOT);
+            switch (type) {
+                case "application/x-ndjson", "application/ndjson", "application/jsonl" -> {
+                    return Format.NDJSON;
+                }
+                case "application/json" -> {
+                    return Format.JSON;
+                }
+                default -> {
+                }
+            }
+        }
+        throw HttpProblem.unsupportedMediaType(contentType);
+    }
+
+    /**
+     * Reads the body and submits its samples.
+     *
+     * @param contentLength the declared body length (bytes), or -1 when not declared
+     * @return the reply document (UTF-8 JSON)
+     */
+    byte[] ingest(String vehicleId, Format format, long contentLength, InputStream body) {
+        if (contentLength > limits.maxBodyBytes()) {
+            throw HttpProblem.bodyTooLarge("Content-Length " + contentLength + " is over the limit of "
+                    + limits.maxBodyBytes() + " bytes (server.max_body_bytes)");
+        }
+        BlankLines blanks = format == Format.NDJSON ? new BlankLines(body) : null;
+        Batch batch = new Batch(vehicleId, blanks);
+        try {
+            if (format == Format.NDJSON) {
+                reader.read(new BoundedBody(blanks, limits.maxBodyBytes()), batch);
+            } else {
+                reader.readJson(new BoundedBody(body, limits.maxBodyBytes()), batch);
+            }
+            batch.flush();
+        } catch (BoundedBody.TooLarge e) {
+            batch.flush();
+            throw HttpProblem.bodyTooLarge("over the limit of " + limits.maxBodyBytes()
+                    + " bytes (server.max_body_bytes); the " + batch.accepted
+                    + " samples read before the limit were accepted");
+        } catch (IOException e) {
+            // The client went away or sent a broken transfer encoding; what arrived whole is kept.
+            batch.flush();
+            throw HttpProblem.invalidParameter("body", "could not be read to its end ("
+                    + e.getClass().getSimpleName() + "); the " + batch.accepted + " samples read before were accepted");
+        }
+        return batch.reply();
+    }
+
+    /** Collects lines, submits full chunks and keeps the tallies of one request. */
+    private final class Batch implements SampleSink {
+        private final String vehicleId;
+        private final BlankLines blanks;
+        private VehicleSession session;
+        private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
+        private long[] chunkLines = new long[CHUNK_SAMPLES];
+        private final List<LineError> pending = new ArrayList<>();
+        private final List<LineError> listed = new ArrayList<>();
+        private long line;
+        private long samplesRead;
+        long accepted;
+        long duplicates;
+        long rejectedCount;
+
+        Batch(String vehicleId, BlankLines blanks) {
+            this.vehicleId = vehicleId;
+            this.blanks = blanks;
+        }
+
+        @Override
+        public void accept(Sample s) {
+            // The reader reports lines in order but gives numbers only to rejected ones: count on from
+            // the last number, stepping over blank lines (NDJSON) that the reader skips silently.
+            line = blanks == null ? line + 1 : blanks.nextNonBlank(line);
+            samplesRead++;
+            if (samplesRead > limits.maxSamplesPerRequest()) {
+                flush();
+                throw HttpProblem.bodyTooLarge("more than " + limits.maxSamplesPerRequest()
+                        + " samples in one request (server.max_samples_per_request); the " + accepted
+                        + " samples read before the limit were accepted");
+            }
+            chunkLines[chunk.size()] = line;
+            chunk.add(s);
+            if (chunk.size() == CHUNK_SAMPLES) {
+                flush();
+            }
+        }
+
+        @Override
+        public void reject(LineError e) {
+            line = e.line();
+            pending.add(e);
+            rejectedCount++;
+            metrics.rejected(ServiceMetrics.UNKNOWN_TYPE, ServiceMetrics.reasonClass(e.reason()));
+        }
+
+        void flush() {
+            if (!chunk.isEmpty()) {
+                if (session == null) {
+                    session = sessions.getOrCreate(vehicleId).session();
+                }
+                List<Admission> admissions = session.submit(chunk);
+                tally(admissions);
+                chunk.clear();
+            }
+            pending.sort(Comparator.comparingLong(LineError::line));
+            for (LineError e : pending) {
+                if (listed.size() < MAX_LISTED_REJECTIONS) {
+                    listed.add(e);
+                }
+            }
+            pending.clear();
+        }
+
+        private void tally(List<Admission> admissions) {
+            long[] byTypeAccepted = new long[TYPES.length];
+            long[] byTypeDuplicate = new long[TYPES.length];
+            for (int i = 0; i < admissions.size(); i++) {
+                Admission a = admissions.get(i);
+                int type = typeIndex(chunk.get(i));
+                switch (a.kind()) {
+                    case APPLIED -> {
+                        accepted++;
+                        byTypeAccepted[type]++;
+                    }
+                    case DUPLICATE -> {
+                        accepted++;
+                        duplicates++;
+                        byTypeDuplicate[type]++;
+                    }
+                    case REJECTED -> {
+                        rejectedCount++;
+                        pending.add(new LineError(chunkLines[i], a.reason()));
+                        metrics.rejected(TYPES[type], ServiceMetrics.reasonClass(a.reason()));
+                    }
+                }
+            }
+            for (int k = 0; k < TYPES.length; k++) {
+                metrics.accepted(TYPES[k], byTypeAccepted[k]);
+                metrics.duplicates(TYPES[k], byTypeDuplicate[k]);
+            }
+        }
+
+        byte[] reply() {
+            ByteArrayOutputStream out = new ByteArrayOutputStream(128 + 96 * listed.size());
+            try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+                g.writeStartObject();
+                g.writeNumberField("accepted", accepted);
+                g.writeNumberField("duplicates", duplicates);
+                g.writeArrayFieldStart("rejected");
+                for (LineError e : listed) {
+                    g.writeStartObject();
+                    g.writeNumberField("line", e.line());
+                    g.writeStringField("error", e.reason());
+                    g.writeEndObject();
+                }
+                g.writeEndArray();
+                g.writeNumberField("rejected_count", rejectedCount);
+                g.writeEndObject();
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+            return out.toByteArray();
+        }
+    }
+
+    private static final String[] TYPES = {"gnss", "wheel_speed", "yaw_rate", "reference"};
+
+    private static int typeIndex(Sample s) {
+        return switch (s.typeName()) {
+            case "gnss" -> 0;
+            case "wheel_speed" -> 1;
+            case "yaw_rate" -> 2;
+            default -> 3;
+        };
+    }
+}

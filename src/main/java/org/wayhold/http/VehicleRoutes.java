@@ -1,0 +1,220 @@
+package org.wayhold.http;
+
+import com.fasterxml.jackson.core.JsonGenerator;
+import io.javalin.http.Context;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.util.List;
+import java.util.Optional;
+import java.util.regex.Pattern;
+import org.wayhold.geo.ProjectedCrs;
+import org.wayhold.pose.Pose;
+import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleSession;
+
+/**
+ * Handlers of the {@code /v1/vehicles} routes. They read the request, call the session layer and write
+ * JSON; nothing below this class sees a {@link Context}.
+ */
+final class VehicleRoutes {
+
+    /**
+     * Vehicle ids: 1 to 64 characters from letters, digits, {@code . _ : -}, starting with a letter or
+     * digit. Enough for fleet numbers, plates and UUIDs, and safe in paths, logs and metric labels.
+     */
+    static final Pattern VEHICLE_ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._:-]{0,63}");
+
+    /** {@code EPSG:} followed by a code of 4 or 5 digits (the EPSG dataset's range). */
+    private static final Pattern EPSG = Pattern.compile("(?i)EPSG:(\\d{4,5})");
+
+    static final String GEOJSON = "application/geo+json";
+
+    private final SessionRegistry sessions;
+    private final SampleIngest ingest;
+    private final PoseStreams streams;
+
+    VehicleRoutes(SessionRegistry sessions, SampleIngest ingest, PoseStreams streams) {
+        this.sessions = sessions;
+        this.ingest = ingest;
+        this.streams = streams;
+    }
+
+    void postSamples(Context ctx) {
+        String id = vehicleId(ctx);
+        SampleIngest.Format format = SampleIngest.formatOf(ctx.header("Content-Type"));
+        long length = ctx.req().getContentLengthLong();
+        byte[] reply = ingest.ingest(id, format, length, ctx.bodyInputStream());
+        ctx.contentType("application/json").result(reply);
+    }
+
+    void getPose(Context ctx) {
+        String id = vehicleId(ctx);
+        SessionRegistry.Entry entry = entry(id);
+        VehicleSession session = entry.session();
+        String atText = ctx.queryParam("at");
+        if (atText != null) {
+            double at = finiteNumber("at", atText);
+            Pose p = session.at(at).orElseThrow(() -> HttpProblem.noPose("at",
+                    "no pose of '" + id + "' at or before " + atText + " s in the history"));
+            ctx.contentType("application/json").result(PoseJson.toBytes(p));
+            return;
+        }
+        // Version first, pose second: a pose newer than its tag only costs one extra transfer later,
+        // while the other order could pin an old pose to a new tag and hide an update.
+        long version = session.version();
+        Pose p = session.latest().orElseThrow(() -> HttpProblem.noPose("vehicle",
+                "'" + id + "' has no pose yet"));
+        String etag = "\"" + entry.serial() + "-" + version + "\"";
+        ctx.header("ETag", etag);
+        ctx.header("Cache-Control", "no-cache");
+        if (matches(ctx.header("If-None-Match"), etag)) {
+            ctx.status(304);
+            return;
+        }
+        ctx.contentType("application/json").result(PoseJson.toBytes(p));
+    }
+
+    /** RFC 9110 sec. 13.1.2: If-None-Match uses the weak comparison; {@code *} matches any current pose. */
+    static boolean matches(String ifNoneMatch, String etag) {
+        if (ifNoneMatch == null) {
+            return false;
+        }
+        for (String candidate : ifNoneMatch.split(",")) {
+            String c = candidate.strip();
+            if (c.equals("*")) {
+                return true;
+            }
+            if (c.startsWith("W/")) {
+                c = c.substring(2);
+            }
+            if (c.equals(etag)) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    void getTrack(Context ctx) {
+        String id = vehicleId(ctx);
+        VehicleSession session = entry(id).session();
+        String fromText = ctx.queryParam("from");
+        String toText = ctx.queryParam("to");
+        double from = fromText == null ? Double.NEGATIVE_INFINITY : finiteNumber("from", fromText);
+        double to = toText == null ? Double.POSITIVE_INFINITY : finiteNumber("to", toText);
+        if (from > to) {
+            throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was "
+                    + toText + " s");
+        }
+        String format = ctx.queryParam("format");
+        boolean geojson;
+        if (format == null || format.equals("json")) {
+            geojson = false;
+        } else if (format.equals("geojson")) {
+            geojson = true;
+        } else {
+            throw HttpProblem.invalidParameter("format", "must be json or geojson, was '" + format + "'");
+        }
+        ProjectedCrs crs = crs(ctx.queryParam("crs"));
+        List<Pose> poses = session.track(from, to);
+        byte[] body = geojson ? TrackJson.geoJson(id, poses, crs) : TrackJson.json(id, poses, crs);
+        ctx.contentType(geojson ? GEOJSON : "application/json").result(body);
+    }
+
+    static ProjectedCrs crs(String text) {
+        if (text == null) {
+            return null;
+        }
+        var m = EPSG.matcher(text.strip());
+        if (!m.matches()) {
+            throw HttpProblem.invalidParameter("crs", "must be EPSG:NNNN (a projected CRS such as EPSG:32632), was '"
+                    + clip(text) + "'");
+        }
+        int code = Integer.parseInt(m.group(1));
+        try {
+            return ProjectedCrs.forEpsg(code);
+        } catch (IllegalArgumentException e) {
+            throw HttpProblem.invalidParameter("crs", "EPSG:" + code
+                    + " is not a projected coordinate reference system known to this service");
+        }
+    }
+
+    void stream(Context ctx) {
+        String id = vehicleId(ctx);
+        streams.start(ctx, id, entry(id).session());
+    }
+
+    void delete(Context ctx) {
+        String id = vehicleId(ctx);
+        if (!sessions.remove(id)) {
+            throw HttpProblem.unknownVehicle(id);
+        }
+        ctx.status(204);
+    }
+
+    void list(Context ctx) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream(256);
+        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+            g.writeStartObject();
+            g.writeArrayFieldStart("vehicles");
+            for (VehicleSession s : sessions.sessions()) {
+                Optional<Pose> latest = s.latest();
+                g.writeStartObject();
+                g.writeStringField("vehicle", s.vehicleId());
+                if (latest.isPresent()) {
+                    Pose p = latest.get();
+                    g.writeStringField("state", p.state().wireName());
+                    PoseJson.number(g, "t", p.t());
+                    PoseJson.number(g, "lat", p.latDeg());
+                    PoseJson.number(g, "lon", p.lonDeg());
+                    PoseJson.number(g, "radius95", p.radius95M());
+                    g.writeBooleanField("outage_active", p.outage().active());
+                } else {
+                    g.writeNullField("state");
+                    g.writeNullField("t");
+                    g.writeNullField("lat");
+                    g.writeNullField("lon");
+                    g.writeNullField("radius95");
+                    g.writeBooleanField("outage_active", false);
+                }
+                g.writeEndObject();
+            }
+            g.writeEndArray();
+            g.writeEndObject();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        ctx.contentType("application/json").result(out.toByteArray());
+    }
+
+    private SessionRegistry.Entry entry(String id) {
+        return sessions.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
+    }
+
+    static String vehicleId(Context ctx) {
+        String id = ctx.pathParam("vehicle");
+        if (!VEHICLE_ID.matcher(id).matches()) {
+            throw HttpProblem.invalidParameter("vehicle", "must be 1 to 64 letters, digits or . _ : -, "
+                    + "starting with a letter or digit, was '" + clip(id) + "'");
+        }
+        return id;
+    }
+
+    static double finiteNumber(String field, String text) {
+        double v;
+        try {
+            v = Double.parseDouble(text.strip());
+        } catch (NumberFormatException e) {
+            throw HttpProblem.invalidParameter(field, "must be a number of seconds, was '" + clip(text) + "'");
+        }
+        if (!Double.isFinite(v)) {
+            throw HttpProblem.invalidParameter(field, "must be a finite number of seconds, was '" + clip(text) + "'");
+        }
+        return v;
+    }
+
+    /** A client's text quoted back in a detail, cut so that a huge value cannot bloat the reply. */
+    static String clip(String text) {
+        return text.length() <= 64 ? text : text.substring(0, 64) + "...";
+    }
+}
