@@ -25,6 +25,7 @@ import java.util.concurrent.LinkedBlockingQueue;
 import java.util.zip.CRC32C;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.SampleCodec;
+import org.wayhold.settings.JournalSettings;
 
 /**
  * An append-only journal of accepted sample batches with snapshots of all sessions.

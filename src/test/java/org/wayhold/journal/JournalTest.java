@@ -24,6 +24,7 @@ import org.wayhold.sample.Sample;
 import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 import org.wayhold.session.VehicleSession;
+import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.simulate.DriveSimulator;
 import org.wayhold.simulate.SimulatedDrive;
