@@ -146,7 +146,13 @@ final class VehicleRoutes {
 
     void delete(Context ctx) {
         String id = vehicleId(ctx);
-        if (!sessions.remove(id)) {
+        boolean deleted;
+        try {
+            deleted = sessions.delete(id);
+        } catch (IOException e) {
+            throw HttpProblem.journalUnavailable(e);
+        }
+        if (!deleted) {
             throw HttpProblem.unknownVehicle(id);
         }
         ctx.status(204);
