@@ -90,6 +90,7 @@ final class ErrorMapping {
             case 404 -> "Not found";
             case 405 -> "Method not allowed";
             case 413 -> "Request body too large";
+            case 406 -> "Not acceptable";
             case 415 -> "Unsupported media type";
             case 503 -> "Service unavailable";
             default -> status >= 500 ? "Server error" : "Request error";
