@@ -9,6 +9,7 @@ import java.util.List;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
+import org.wayhold.http.BindRule;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
@@ -27,6 +28,9 @@ import picocli.CommandLine.Spec;
 /**
  * {@code wayhold serve}: runs the HTTP service until SIGTERM or Ctrl-C, optionally replaying a recorded
  * log into one vehicle so that poses (and an outage) can be watched with no logging rig attached.
+ *
+ * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
+ * tokens or {@code --insecure}.
  *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
  * connector stops accepting and requests in flight get up to ten seconds to finish.
@@ -47,6 +51,10 @@ final class ServeCommand implements Callable<Integer> {
 
     @Option(names = "--bind", paramLabel = "ADDR", description = "Address to listen on, overrides server.bind.")
     private String bind;
+
+    @Option(names = "--insecure",
+            description = "Allows a non-loopback --bind without write tokens (anyone reaching it may write).")
+    private boolean insecure;
 
     @Option(names = "--replay", paramLabel = "FILE",
             description = "Replays this NDJSON log (.gz allowed) into one vehicle in scaled real time.")
@@ -70,6 +78,17 @@ final class ServeCommand implements Callable<Integer> {
             throw new ParameterException(spec.commandLine(), "--replay: no such file " + replay);
         }
         Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
         List<Sample> log = replay == null ? List.of() : readLog(replay, out);
 
         SessionRegistry sessions = new SessionRegistry(settings, null);
@@ -108,9 +127,7 @@ final class ServeCommand implements Callable<Integer> {
             return s;
         }
         ServerSettings v = s.server();
-        ServerSettings server = new ServerSettings(port != null ? port : v.port(), bind != null ? bind : v.bind(),
-                v.writeTokens(), v.readTokens(), v.maxBodyBytes(), v.maxLineBytes(), v.maxSamplesPerRequest(),
-                v.maxSessions(), v.maxSamplesPerSecondPerVehicle(), v.corsOrigins(), v.sseKeepAliveS());
+        ServerSettings server = v.withAddress(port != null ? port : v.port(), bind != null ? bind : v.bind());
         return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles());
     }
 
