@@ -63,8 +63,8 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
 
     /**
      * Defaults. The rate: replaying a recorded drive 100 times faster than real time must pass, and the
-     * demo drives carry about 160 samples per second (100 Hz yaw rate, 50 Hz wheel speed, 10 Hz GNSS), so
-     * 16,000 samples/s; 100,000 samples/s leaves room for richer rigs. The bucket holds 2 s of that rate,
+     * demo drives carry 165 samples per second (100 Hz yaw rate, 50 Hz wheel speed, 5 Hz GNSS, 10 Hz
+     * reference), so 16,500 samples/s; 100,000 samples/s leaves room for richer rigs. The bucket holds 2 s of that rate,
      * enough for one large batch.
      */
     public static ServerSettings defaults() {
