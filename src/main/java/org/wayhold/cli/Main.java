@@ -11,7 +11,7 @@ import picocli.CommandLine.Spec;
  */
 @Command(name = "wayhold", mixinStandardHelpOptions = true, version = "wayhold 0.1.0",
         description = "Holds a road vehicle's position through GNSS dropouts.",
-        subcommands = {SimulateCommand.class, ServeCommand.class})
+        subcommands = {SimulateCommand.class, ScoreCommand.class, ServeCommand.class})
 public final class Main implements Runnable {
 
     @Spec

@@ -116,6 +116,8 @@ final class ServeCommand implements Callable<Integer> {
                 finalReplayThread.interrupt();
             }
             service.stop();
+            out.println("wayhold stopped");
+            out.flush();
             stopped.countDown();
         }, "wayhold-shutdown"));
         stopped.await();

@@ -92,6 +92,7 @@ final class ErrorMapping {
             case 404 -> "Not found";
             case 405 -> "Method not allowed";
             case 413 -> "Request body too large";
+            case 406 -> "Not acceptable";
             case 415 -> "Unsupported media type";
             case 429 -> "Too many requests";
             case 503 -> "Service unavailable";

@@ -116,10 +116,22 @@ final class PoseJson {
 
     /** A number, or null when it is not finite (JSON has no NaN or infinity). */
     static void number(JsonGenerator g, String name, double value) throws IOException {
-        if (Double.isFinite(value)) {
-            g.writeNumberField(name, value);
+        g.writeFieldName(name);
+        value(g, value);
+    }
+
+    /**
+     * One number. Epoch times such as 1.8e9 s would come out of {@link Double#toString} in exponent form
+     * ({@code 1.80000365898E9}); valid JSON, but hard to read in a terminal, so numbers from 1e7 up are
+     * written in plain decimal with the same shortest digits (exactly the same double when parsed).
+     */
+    static void value(JsonGenerator g, double value) throws IOException {
+        if (!Double.isFinite(value)) {
+            g.writeNull();
+        } else if (Math.abs(value) >= 1e7 && Math.abs(value) < 1e21) {
+            g.writeNumber(new java.math.BigDecimal(Double.toString(value)).toPlainString());
         } else {
-            g.writeNullField(name);
+            g.writeNumber(value);
         }
     }
 }

@@ -42,6 +42,9 @@ final class PoseStreams {
     /** Most open streams (count); each holds a thread, so the number is bounded. */
     static final int MAX_STREAMS = 256;
 
+    /** Queued to wake a writer so that it sees a close request without waiting for its poll to time out. */
+    private static final Object WAKE_UP = new Object();
+
     private final long keepAliveMillis;
     private final Set<Stream> open = ConcurrentHashMap.newKeySet();
     private final AtomicInteger threadNumber = new AtomicInteger();
@@ -66,6 +69,13 @@ final class PoseStreams {
      * event.
      */
     void start(Context ctx, String vehicleId, VehicleSession session) {
+        String accept = ctx.header("Accept");
+        if (accept == null || !accept.contains("text/event-stream")) {
+            // Javalin's SSE handler serves only clients that ask for an event stream (as EventSource
+            // does); anything else would get an empty 200, so say what is missing instead.
+            throw new HttpProblem(406, "not-acceptable", "Not acceptable", "Accept",
+                    "Accept: must include text/event-stream, was " + (accept == null ? "missing" : "'" + accept + "'"));
+        }
         if (closing) {
             throw HttpProblem.unavailable("stream", "stream: the service is shutting down");
         }
@@ -121,7 +131,8 @@ final class PoseStreams {
         private final SseClient client;
         private final String vehicleId;
         private final VehicleSession session;
-        private final BlockingQueue<Pose> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY);
+        /** Poses, and {@link #WAKE_UP} to make the writer look at its flags at once. */
+        private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY + 1);
         private volatile boolean closeRequested;
         private volatile boolean overflowed;
         private long eventId;
@@ -139,13 +150,16 @@ final class PoseStreams {
         }
 
         void offer(Pose pose) {
-            if (!queue.offer(pose)) {
+            // One slot is kept free for the wake-up, so that a full queue can still be closed at once.
+            if (queue.remainingCapacity() <= 1 || !queue.offer(pose)) {
                 overflowed = true;
+                queue.offer(WAKE_UP);
             }
         }
 
         void requestClose() {
             closeRequested = true;
+            queue.offer(WAKE_UP);
         }
 
         void detach() {
@@ -156,10 +170,10 @@ final class PoseStreams {
         void write() {
             try {
                 while (!closeRequested && !overflowed && !client.terminated()) {
-                    Pose p = queue.poll(keepAliveMillis, TimeUnit.MILLISECONDS);
-                    if (p == null) {
+                    Object next = queue.poll(keepAliveMillis, TimeUnit.MILLISECONDS);
+                    if (next == null) {
                         client.sendComment("keep-alive");
-                    } else {
+                    } else if (next instanceof Pose p) {
                         client.sendEvent("pose", new String(PoseJson.toBytes(p), StandardCharsets.UTF_8),
                                 Long.toString(++eventId));
                     }

@@ -69,8 +69,8 @@ final class TrackJson {
                 g.writeObjectFieldStart("properties");
                 g.writeStringField("vehicle", vehicleId);
                 g.writeStringField("kind", "track");
-                g.writeNumberField("from", poses.get(0).t());
-                g.writeNumberField("to", poses.get(poses.size() - 1).t());
+                PoseJson.number(g, "from", poses.get(0).t());
+                PoseJson.number(g, "to", poses.get(poses.size() - 1).t());
                 g.writeEndObject();
                 g.writeEndObject();
             }

@@ -22,6 +22,13 @@ import org.wayhold.settings.VehicleProfile;
  * and from then on sees every sample but the GNSS fixes; when the window closes the branch is scored
  * and dropped. So each window starts from exactly the state the live filter had, and one replay
  * serves any number of windows.
+ *
+ * <p>{@link #runFrom} does the same from start states saved beforehand (see {@link DriveSurvey}), so the
+ * windows can be chosen after a first pass has shown where the filter was aided; it gives exactly the
+ * scores {@link #run} gives for the same windows, without replaying the main filter again.
+ *
+ * <p>When the reference is not {@linkplain ReferenceTrack#continuous() continuous} (the withheld fixes)
+ * a window is evaluated at the reference's own times inside it instead of on the regular step.
  */
 public final class OutageReplay {
 
@@ -72,6 +79,21 @@ public final class OutageReplay {
     }
 
     /**
+     * A window with the state to start it from.
+     *
+     * @param window the window
+     * @param state  the main filter as it was just before the first sample at or after the window's
+     *               start, fed with times relative to {@link #epochOf} of the same samples (not modified)
+     */
+    public record Start(OutageWindow window, NavigationFilter state) {
+    }
+
+    /** The epoch (s, vehicle clock) filter times are relative to in a replay of these samples. */
+    public static double epochOf(List<? extends Sample> samples) {
+        return samples.isEmpty() ? 0.0 : Math.floor(samples.get(0).t());
+    }
+
+    /**
      * Replays the samples and scores the windows.
      *
      * @param samples    the drive, in time order
@@ -81,22 +103,55 @@ public final class OutageReplay {
      */
     public Result run(List<? extends Sample> samples, List<OutageWindow> windows, ReferenceTrack reference,
                       boolean keepTraces) {
+        List<Start> starts = new ArrayList<>();
+        for (OutageWindow w : windows) {
+            starts.add(new Start(w, null));
+        }
+        return replay(samples, starts, true, reference, keepTraces, ProgressListener.NONE);
+    }
+
+    /**
+     * Scores windows from saved start states; only the branches are replayed.
+     *
+     * @param samples    the drive, in time order (the same the start states came from)
+     * @param starts     windows with their start states; those the reference does not cover are skipped
+     * @param reference  where the vehicle really was
+     * @param keepTraces true to return the evaluation points of each window
+     * @param progress   hears about replayed samples
+     */
+    public Result runFrom(List<? extends Sample> samples, List<Start> starts, ReferenceTrack reference,
+                          boolean keepTraces, ProgressListener progress) {
+        for (Start st : starts) {
+            if (st.state() == null) {
+                throw new IllegalArgumentException("state: the window at " + st.window().startT()
+                        + " s has no start state");
+            }
+        }
+        return replay(samples, starts, false, reference, keepTraces, progress);
+    }
+
+    private Result replay(List<? extends Sample> samples, List<Start> starts, boolean withMain,
+                          ReferenceTrack reference, boolean keepTraces, ProgressListener progress) {
         List<WindowScore> scores = new ArrayList<>();
         List<WindowTrace> traces = new ArrayList<>();
         if (samples.isEmpty()) {
             return new Result(scores, traces);
         }
-        List<OutageWindow> pending = new ArrayList<>(windows);
-        pending.sort(Comparator.comparingDouble(OutageWindow::startT));
-        double epochT = Math.floor(samples.get(0).t());
-        NavigationFilter main = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile);
+        List<Start> pending = new ArrayList<>(starts);
+        pending.sort(Comparator.comparingDouble(st -> st.window().startT()));
+        double epochT = epochOf(samples);
+        NavigationFilter main = withMain
+                ? new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile) : null;
         List<Branch> active = new ArrayList<>();
         int next = 0;
+        int unreported = 0;
         for (Sample s : samples) {
-            while (next < pending.size() && pending.get(next).startT() <= s.t()) {
-                OutageWindow w = pending.get(next++);
-                if (main.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
-                    Branch b = new Branch(w, main.copy(), epochT, reference, keepTraces);
+            while (next < pending.size() && pending.get(next).window().startT() <= s.t()) {
+                Start st = pending.get(next++);
+                OutageWindow w = st.window();
+                NavigationFilter from = withMain ? main : st.state();
+                if (from.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
+                    Branch b = new Branch(w, from.copy(), epochT, reference, keepTraces);
                     b.filter.predictTo(w.startT() - epochT);
                     b.evaluateUpTo(w.startT());
                     active.add(b);
@@ -119,8 +174,15 @@ public final class OutageReplay {
                     SampleFeeder.feed(b.filter, s, epochT, frame);
                 }
             }
-            SampleFeeder.feed(main, s, epochT, frame);
+            if (withMain) {
+                SampleFeeder.feed(main, s, epochT, frame);
+            }
+            if (++unreported == ProgressListener.REPORT_EVERY) {
+                progress.samplesDone(unreported);
+                unreported = 0;
+            }
         }
+        progress.samplesDone(unreported);
         // Windows still open when the drive ends are not scored: their length was not reached.
         scores.sort(Comparator.comparingDouble((WindowScore w) -> w.window().startT())
                 .thenComparingDouble(w -> w.window().lengthS()));
@@ -136,6 +198,8 @@ public final class OutageReplay {
         final double epochT;
         final ReferenceTrack reference;
         final List<TracePoint> trace;
+        /** Evaluation times when the reference is known only at its points, else null (regular step). */
+        final double[] times;
         double nextEvalT;
         int count;
         int inside;
@@ -150,6 +214,11 @@ public final class OutageReplay {
         double lastErrNorth;
         double lastError;
         double lastNees;
+        double lastT = Double.NaN;
+        double lastEstEast = Double.NaN;
+        double lastEstNorth = Double.NaN;
+        double lastRefEastFinal = Double.NaN;
+        double lastRefNorthFinal = Double.NaN;
 
         Branch(OutageWindow window, NavigationFilter filter, double epochT, ReferenceTrack reference,
                boolean keepTrace) {
@@ -159,11 +228,19 @@ public final class OutageReplay {
             this.reference = reference;
             this.trace = keepTrace ? new ArrayList<>() : null;
             this.nextEvalT = window.startT();
+            this.times = reference.continuous() ? null : reference.timesWithin(window.startT(), window.endT());
         }
 
         /** Evaluates at every evaluation time up to and including {@code tS}. */
         void evaluateUpTo(double tS) {
             double end = Math.min(tS, window.endT());
+            if (times != null) {
+                while (count < times.length && times[count] <= end) {
+                    evaluateAt(times[count]);
+                    count++;
+                }
+                return;
+            }
             while (nextEvalT <= end + 1e-9) {
                 evaluateAt(Math.min(nextEvalT, window.endT()));
                 count++;
@@ -208,6 +285,11 @@ public final class OutageReplay {
             lastErrEast = de;
             lastErrNorth = dn;
             lastError = err;
+            lastT = t;
+            lastEstEast = s.eastM();
+            lastEstNorth = s.northM();
+            lastRefEastFinal = refEast;
+            lastRefNorthFinal = refNorth;
             if (trace != null) {
                 trace.add(new TracePoint(t, s.eastM(), s.northM(), refEast, refNorth, err, ellipse.semiMajorM()));
             }
@@ -216,7 +298,8 @@ public final class OutageReplay {
         WindowScore finish() {
             FilterSnapshot s = filter.snapshot();
             double t = window.endT();
-            double yaw = reference.yawAt(t);
+            // Split the error along the reference's direction where that error was measured.
+            double yaw = times == null || Double.isNaN(lastT) ? reference.yawAt(t) : reference.yawAt(lastT);
             double along = Double.NaN;
             double cross = Double.NaN;
             if (!Double.isNaN(yaw)) {
@@ -228,7 +311,8 @@ public final class OutageReplay {
             double pct = distance > 0.0 ? 100.0 * lastError / distance : Double.NaN;
             return new WindowScore(window, distance, lastError, maxError, pct, count == 0 ? Double.NaN
                     : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, lastNees, timeToAlert,
-                    timeToUnreliable, missed, along, cross, s.eastM(), s.northM(), count);
+                    timeToUnreliable, missed, along, cross, s.eastM(), s.northM(), count, lastT, lastEstEast, lastEstNorth,
+                    lastRefEastFinal, lastRefNorthFinal);
         }
     }
 }

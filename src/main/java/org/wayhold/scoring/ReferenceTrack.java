@@ -17,4 +17,21 @@ public interface ReferenceTrack {
 
     /** Yaw at {@code tS} (rad, counter-clockwise from east), NaN when unknown. */
     double yawAt(double tS);
+
+    /**
+     * True when the reference is known at any time it covers (a trajectory, a simulator's truth), so a
+     * window is evaluated on a regular time step; false when it is known only at its own points (the
+     * withheld fixes), which are then the evaluation times.
+     */
+    default boolean continuous() {
+        return true;
+    }
+
+    /**
+     * The times of the reference's own points in {@code [fromT, toT]} (s, vehicle clock, ascending);
+     * only asked of a reference that is not {@link #continuous()}.
+     */
+    default double[] timesWithin(double fromT, double toT) {
+        throw new UnsupportedOperationException("a continuous reference has no discrete times");
+    }
 }

@@ -19,9 +19,17 @@ package org.wayhold.scoring;
  * @param endEastM         estimated east at the end (m)
  * @param endNorthM        estimated north at the end (m)
  * @param samples          evaluation times in the window (count)
+ * @param finalT           time of the last evaluation (s, vehicle clock): the window's end on a regular
+ *                         step, the last withheld fix when the reference is the fixes; NaN if none
+ * @param finalEastM       estimated east at {@code finalT} (m), the position {@code finalErrorM} is of
+ * @param finalNorthM      estimated north at {@code finalT} (m)
+ * @param refEastM         reference east at {@code finalT} (m)
+ * @param refNorthM        reference north at {@code finalT} (m)
  */
 public record WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
                           double errorPct, double inside95, double meanNees, double finalNees, double timeToAlertS,
                           double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
-                          double crossTrackErrorM, double endEastM, double endNorthM, int samples) {
+                          double crossTrackErrorM, double endEastM, double endNorthM, int samples,
+                          double finalT, double finalEastM, double finalNorthM, double refEastM,
+                          double refNorthM) {
 }

@@ -168,6 +168,11 @@ class PoseQueriesTest {
         assertThat(p.get("outage").fieldNames()).toIterable().containsExactly("active", "since", "seconds", "meters");
         assertThat(p.get("origin").fieldNames()).toIterable().containsExactly("lat", "lon", "alt");
         assertThat(p.get("radius95").asDouble()).isEqualTo(p.get("ellipse95").get("semi_major").asDouble());
+        // Epoch times are written in plain decimal and parse back to the sample's own double.
+        String text = server.get("/v1/vehicles/" + CAR + "/pose").body();
+        assertThat(text).doesNotContain("E9");
+        double t = LiveServer.json(server.get("/v1/vehicles/" + CAR + "/pose")).get("t").asDouble();
+        assertThat(samples.stream().mapToDouble(Sample::t).anyMatch(s -> s == t)).isTrue();
 
         // Before the first fix there is no position: numbers are null, not NaN (which is not JSON).
         server.post("/v1/vehicles/blind/samples", "application/x-ndjson",

@@ -97,8 +97,14 @@ class ProblemResponsesTest {
     void anUnknownVehicleIs404OnEveryVehicleRoute() {
         problem(server.get("/v1/vehicles/ghost/pose"), 404, "vehicle");
         problem(server.get("/v1/vehicles/ghost/track"), 404, "vehicle");
-        problem(server.get("/v1/vehicles/ghost/stream"), 404, "vehicle");
+        problem(server.send(server.request("/v1/vehicles/ghost/stream").header("Accept", "text/event-stream")
+                .GET().build()), 404, "vehicle");
         problem(server.delete("/v1/vehicles/ghost"), 404, "vehicle");
+    }
+
+    @Test
+    void aStreamRequestThatDoesNotAcceptEventsIs406() {
+        problem(server.get("/v1/vehicles/car-1/stream"), 406, "Accept");
     }
 
     @Test

@@ -1,0 +1,192 @@
+package org.wayhold.scoring;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.NavigationFilter;
+import org.wayhold.filter.SampleFeeder;
+import org.wayhold.geo.LocalFrame;
+import org.wayhold.pose.Ellipse95;
+import org.wayhold.pose.NavState;
+import org.wayhold.pose.PoseAssembler;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.Sample;
+import org.wayhold.settings.Settings;
+import org.wayhold.settings.VehicleProfile;
+
+/**
+ * The first pass of a scoring: one plain replay of a log that learns where the filter was
+ * {@code aided} and keeps its state at the times a window may start, so the windows can be chosen
+ * afterwards and scored from those states with {@link OutageReplay#runFrom} without a second main pass.
+ *
+ * <p>Window starts lie on a grid of {@code gridStepS} from {@code gridStartT}. The state at a grid time
+ * c is the main filter just before the first sample at or after c, predicted to c: exactly what
+ * {@link OutageReplay#run} branches from. It is kept only where the filter has been aided for at least
+ * {@code minAidedS}; states at the extra times (the starts of real gaps) are kept whatever the state.
+ *
+ * <p>The navigation state is classified as the service does ({@link PoseAssembler}) just before and
+ * just after each fix and at each grid time, so a run of {@code aided} is broken by any gap in the
+ * fixes, however short the grid misses it by.
+ */
+public final class DriveSurvey {
+
+    private final double gridStartT;
+    private final double gridStepS;
+    private final NavigationFilter[] gridStates;
+    private final double[] extraTimes;
+    private final NavigationFilter[] extraStates;
+    private final List<TimeSpan> aidedSpans;
+
+    private DriveSurvey(double gridStartT, double gridStepS, NavigationFilter[] gridStates, double[] extraTimes,
+                        NavigationFilter[] extraStates, List<TimeSpan> aidedSpans) {
+        this.gridStartT = gridStartT;
+        this.gridStepS = gridStepS;
+        this.gridStates = gridStates;
+        this.extraTimes = extraTimes;
+        this.extraStates = extraStates;
+        this.aidedSpans = List.copyOf(aidedSpans);
+    }
+
+    /**
+     * Replays the samples once.
+     *
+     * @param samples    the log, in time order
+     * @param settings   the configuration
+     * @param profile    the vehicle's lever arm
+     * @param frame      the log's ENU frame
+     * @param gridStartT first grid time (s, vehicle clock)
+     * @param gridStepS  grid spacing (s, > 0)
+     * @param minAidedS  aided time needed before a grid time for its state to be kept (s, >= 0)
+     * @param extraTimes further times whose states are kept (s, ascending)
+     * @param progress   hears about replayed samples
+     */
+    public static DriveSurvey run(List<? extends Sample> samples, Settings settings, VehicleProfile profile,
+                                  LocalFrame frame, double gridStartT, double gridStepS, double minAidedS,
+                                  double[] extraTimes, ProgressListener progress) {
+        if (!(gridStepS > 0.0)) {
+            throw new IllegalArgumentException("gridStepS: must be a positive number of s, was " + gridStepS);
+        }
+        if (!(minAidedS >= 0.0)) {
+            throw new IllegalArgumentException("min_aided: must be a non-negative number of s, was " + minAidedS);
+        }
+        int gridCount = samples.isEmpty() ? 0
+                : (int) Math.floor((samples.get(samples.size() - 1).t() - gridStartT) / gridStepS) + 1;
+        NavigationFilter[] grid = new NavigationFilter[Math.max(gridCount, 0)];
+        NavigationFilter[] extra = new NavigationFilter[extraTimes.length];
+        double epochT = OutageReplay.epochOf(samples);
+        NavigationFilter main = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile);
+        AidedTracker aided = new AidedTracker(new PoseAssembler(settings.outage()));
+        int k = 0;
+        int x = 0;
+        int unreported = 0;
+        for (Sample s : samples) {
+            while (k < grid.length && gridStartT + k * gridStepS <= s.t()) {
+                double c = gridStartT + k * gridStepS;
+                if (main.initialized()) {
+                    NavigationFilter state = main.copy();
+                    state.predictTo(c - epochT);
+                    aided.observe(c, state.snapshot());
+                    if (aided.since(c) >= minAidedS) {
+                        grid[k] = state;
+                    }
+                }
+                k++;
+            }
+            while (x < extra.length && extraTimes[x] <= s.t()) {
+                extra[x++] = main.copy();
+            }
+            if (s instanceof GnssFix && main.initialized()) {
+                // Predicting first changes nothing (feed predicts to the same time) but lets a gap
+                // show before the fix ends it.
+                main.predictTo(s.t() - epochT);
+                aided.observe(s.t(), main.snapshot());
+            }
+            SampleFeeder.feed(main, s, epochT, frame);
+            if (s instanceof GnssFix && main.initialized()) {
+                aided.observe(s.t(), main.snapshot());
+            }
+            if (++unreported == ProgressListener.REPORT_EVERY) {
+                progress.samplesDone(unreported);
+                unreported = 0;
+            }
+        }
+        progress.samplesDone(unreported);
+        aided.close();
+        return new DriveSurvey(gridStartT, gridStepS, grid, extraTimes.clone(), extra, aided.spans);
+    }
+
+    /** Runs of the {@code aided} state as observed (s, vehicle clock), in time order. */
+    public List<TimeSpan> aidedSpans() {
+        return aidedSpans;
+    }
+
+    /** Number of grid times. */
+    public int gridCount() {
+        return gridStates.length;
+    }
+
+    /** Grid time {@code k} (s, vehicle clock). */
+    public double gridTime(int k) {
+        return gridStartT + k * gridStepS;
+    }
+
+    /** True when a window may start at grid time {@code k}: the filter had been aided long enough. */
+    public boolean startAllowed(int k) {
+        return k >= 0 && k < gridStates.length && gridStates[k] != null;
+    }
+
+    /** The state at grid time {@code k}; only where {@link #startAllowed} (not to be modified). */
+    public NavigationFilter gridState(int k) {
+        if (!startAllowed(k)) {
+            throw new IllegalArgumentException("k: no window may start at grid time " + k);
+        }
+        return gridStates[k];
+    }
+
+    /** The state at extra time {@code i}, null when the log ended before it (not to be modified). */
+    public NavigationFilter extraState(int i) {
+        return extraStates[i];
+    }
+
+    /** The extra times (s, vehicle clock). */
+    public double[] extraTimes() {
+        return extraTimes.clone();
+    }
+
+    /** Follows the navigation state through time and records its aided runs. */
+    private static final class AidedTracker {
+        final PoseAssembler assembler;
+        final List<TimeSpan> spans = new ArrayList<>();
+        double since = Double.NaN;
+        double lastAidedT = Double.NaN;
+
+        AidedTracker(PoseAssembler assembler) {
+            this.assembler = assembler;
+        }
+
+        void observe(double t, FilterSnapshot s) {
+            NavState state = assembler.classify(s,
+                    Ellipse95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2()));
+            if (state == NavState.AIDED) {
+                if (Double.isNaN(since)) {
+                    since = t;
+                }
+                lastAidedT = t;
+            } else {
+                close();
+            }
+        }
+
+        /** Aided time up to {@code t} (s), -infinity when not aided. */
+        double since(double t) {
+            return Double.isNaN(since) ? Double.NEGATIVE_INFINITY : t - since;
+        }
+
+        void close() {
+            if (!Double.isNaN(since)) {
+                spans.add(new TimeSpan(since, lastAidedT));
+            }
+            since = Double.NaN;
+        }
+    }
+}

@@ -1,0 +1,377 @@
+package org.wayhold.scoring;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Comparator;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Set;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.CompletionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Semaphore;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.geo.LocalFrame;
+import org.wayhold.sample.FixType;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.ReferencePoint;
+import org.wayhold.sample.Sample;
+import org.wayhold.settings.Settings;
+
+/**
+ * Scores several logs under one or more configurations, on all cores.
+ *
+ * <p>Per log: load it; survey it once per configuration ({@link DriveSurvey}, in parallel); choose the
+ * windows once for all configurations ({@link WindowPlan}, a start must be allowed in every one, so the
+ * configurations are compared on the same windows); score each configuration from its saved states
+ * ({@link OutageReplay#runFrom}, in parallel). With a reference trajectory the log's real gaps are
+ * scored too, each from just after its last fix to its first fix after. At most {@code threads + 1}
+ * logs are held in memory at once.
+ *
+ * <p>The result does not depend on the number of threads or on timing: each task is deterministic and
+ * the results are put in the order of the logs and configurations given.
+ */
+public final class ScoringRun {
+
+    /** Spacing of the times a window may start at (s): one saved filter state per second of log. */
+    public static final double GRID_STEP_S = 1.0;
+    /**
+     * Reference points farther apart than this are not interpolated across (s). A reference trajectory
+     * normally comes at 10 Hz or more; a longer hole is a gap in the reference, not a straight road.
+     */
+    public static final double REFERENCE_MAX_GAP_S = 1.0;
+
+    private ScoringRun() {
+    }
+
+    /** What the error is measured against. */
+    public enum ReferenceKind {
+        /** The log's {@code reference} lines, interpolated to each evaluation time. */
+        REFERENCE("reference"),
+        /** The withheld GNSS fixes, at their own times. */
+        WITHHELD_FIXES("withheld_fixes");
+
+        private final String wireName;
+
+        ReferenceKind(String wireName) {
+            this.wireName = wireName;
+        }
+
+        public String wireName() {
+            return wireName;
+        }
+    }
+
+    /**
+     * How to score.
+     *
+     * @param schedule   the windows
+     * @param minAidedS  aided time before a window may start (s, >= 0)
+     * @param evalStepS  evaluation step inside windows against a trajectory (s, > 0)
+     * @param vehicle    the vehicle profile to use (name in the configuration)
+     * @param keepTraces keep the evaluation points of every window (for plots)
+     * @param threads    worker threads (>= 1)
+     */
+    public record Options(WindowPlan.Schedule schedule, double minAidedS, double evalStepS, String vehicle,
+                          boolean keepTraces, int threads) {
+
+        public Options {
+            if (!(minAidedS >= 0.0) || Double.isInfinite(minAidedS)) {
+                throw new IllegalArgumentException("min_aided: must be a non-negative number of s, was " + minAidedS);
+            }
+            if (!(evalStepS > 0.0) || Double.isInfinite(evalStepS)) {
+                throw new IllegalArgumentException("eval_step: must be a positive number of s, was " + evalStepS);
+            }
+            WindowPlan.requireWholeSteps("skip", schedule.skipS(), GRID_STEP_S);
+            WindowPlan.requireWholeSteps("every", schedule.everyS(), GRID_STEP_S);
+            if (threads < 1) {
+                throw new IllegalArgumentException("threads: must be at least 1, was " + threads);
+            }
+        }
+    }
+
+    /**
+     * A configuration under a name.
+     *
+     * @param name     short name shown in reports
+     * @param source   where it came from (a file name, or "built-in defaults")
+     * @param settings the settings
+     */
+    public record NamedSettings(String name, String source, Settings settings) {
+    }
+
+    /**
+     * A log as read.
+     *
+     * @param name    name shown in reports
+     * @param samples its samples (any order; sorted by time here, stably)
+     * @param notes   what the reader wants said about the input (rejected lines and the like)
+     */
+    public record LoadedLog(String name, List<Sample> samples, List<String> notes) {
+    }
+
+    /** Reads one log when its turn comes, so that not every log is in memory at once. */
+    public interface LogSource {
+        /** The name shown in progress and errors. */
+        String name();
+
+        /** Reads the log. */
+        LoadedLog load() throws IOException;
+    }
+
+    /** Hears how far the run has come; called from worker threads. */
+    public interface Listener {
+        Listener NONE = new Listener() {
+        };
+
+        /** A log was read; it will be replayed {@code passes} times over {@code samples} samples. */
+        default void logLoaded(String log, int samples, int passes) {
+        }
+
+        /** More samples were replayed (count). */
+        default void samplesDone(int samples) {
+        }
+
+        /** Windows of a log and configuration were scored (count). */
+        default void windowsScored(int windows) {
+        }
+
+        /** Everything of a log is done. */
+        default void logDone(String log) {
+        }
+    }
+
+    /**
+     * One configuration's scores on one log.
+     *
+     * @param config        the configuration's name
+     * @param windows       scores of the simulated windows, by start then length
+     * @param realGaps      scores of the real gaps (empty without a reference trajectory)
+     * @param traces        evaluation points of the simulated windows (empty unless kept)
+     * @param realGapTraces evaluation points of the real gaps (empty unless kept)
+     * @param aidedSpans    where this configuration's filter was aided
+     */
+    public record ConfigScores(String config, List<WindowScore> windows, List<WindowScore> realGaps,
+                               List<OutageReplay.WindowTrace> traces,
+                               List<OutageReplay.WindowTrace> realGapTraces, List<TimeSpan> aidedSpans) {
+    }
+
+    /**
+     * Everything scored on one log.
+     *
+     * @param name      the log's name
+     * @param index     its position among the logs
+     * @param samples   its sample count
+     * @param startT    first sample (s)
+     * @param endT      last sample (s)
+     * @param frame     its ENU frame (origin at its first fix)
+     * @param reference what the error was measured against
+     * @param track     the reference as interpolated
+     * @param gaps      its real GNSS gaps
+     * @param plan      the simulated windows
+     * @param configs   scores per configuration, in the order given
+     * @param notes     the reader's notes
+     */
+    public record LogScores(String name, int index, int samples, double startT, double endT, LocalFrame frame,
+                            ReferenceKind reference, InterpolatedTrack track, List<TimeSpan> gaps, WindowPlan plan,
+                            List<ConfigScores> configs, List<String> notes) {
+    }
+
+    /**
+     * Scores the logs.
+     *
+     * @throws IllegalArgumentException naming the log when one cannot be scored (no fix, say)
+     * @throws UncheckedIOException     naming the log when one cannot be read
+     */
+    public static List<LogScores> run(List<? extends LogSource> logs, List<NamedSettings> configs, Options options,
+                                      Listener listener) {
+        if (configs.isEmpty()) {
+            throw new IllegalArgumentException("config: at least one configuration is needed");
+        }
+        ExecutorService pool = Executors.newFixedThreadPool(options.threads(), r -> {
+            Thread t = new Thread(r, "wayhold-score");
+            t.setDaemon(true);
+            return t;
+        });
+        Semaphore inFlight = new Semaphore(options.threads() + 1);
+        List<CompletableFuture<LogScores>> futures = new ArrayList<>();
+        try {
+            for (int i = 0; i < logs.size(); i++) {
+                LogSource src = logs.get(i);
+                int index = i;
+                inFlight.acquireUninterruptibly();
+                CompletableFuture<LogScores> f = CompletableFuture
+                        .supplyAsync(() -> load(src), pool)
+                        .thenCompose(log -> scoreLog(log, index, configs, options, listener, pool))
+                        .whenComplete((r, e) -> {
+                            inFlight.release();
+                            if (r != null) {
+                                listener.logDone(r.name());
+                            }
+                        });
+                futures.add(f);
+                if (f.isCompletedExceptionally()) {
+                    break;
+                }
+            }
+            List<LogScores> out = new ArrayList<>();
+            for (CompletableFuture<LogScores> f : futures) {
+                try {
+                    out.add(f.join());
+                } catch (CompletionException e) {
+                    if (e.getCause() instanceof RuntimeException re) {
+                        throw re;
+                    }
+                    throw e;
+                }
+            }
+            return out;
+        } finally {
+            pool.shutdownNow();
+        }
+    }
+
+    private static LoadedLog load(LogSource src) {
+        try {
+            return src.load();
+        } catch (IOException e) {
+            throw new UncheckedIOException(src.name() + ": cannot be read: " + e.getMessage(), e);
+        }
+    }
+
+    private static CompletableFuture<LogScores> scoreLog(LoadedLog log, int index, List<NamedSettings> configs,
+                                                         Options options, Listener listener, ExecutorService pool) {
+        Prepared p = prepare(log, configs, options);
+        listener.logLoaded(log.name(), p.samples.size(), 2 * configs.size());
+        List<CompletableFuture<DriveSurvey>> surveys = new ArrayList<>();
+        for (NamedSettings c : configs) {
+            surveys.add(CompletableFuture.supplyAsync(() -> DriveSurvey.run(p.samples, c.settings(),
+                    c.settings().profileFor(options.vehicle()), p.frame, p.startT, GRID_STEP_S, options.minAidedS(),
+                    p.extraTimes, listener::samplesDone), pool));
+        }
+        return CompletableFuture.allOf(surveys.toArray(CompletableFuture[]::new)).thenCompose(done -> {
+            List<DriveSurvey> ss = surveys.stream().map(CompletableFuture::join).toList();
+            int gridCount = ss.get(0).gridCount();
+            WindowPlan plan = WindowPlan.choose(options.schedule(),
+                    new WindowPlan.Log(p.startT, GRID_STEP_S, gridCount, p.firstFixT, p.lastFixT, p.gaps,
+                            k -> ss.stream().allMatch(s -> s.startAllowed(k))), index);
+            List<CompletableFuture<ConfigScores>> scored = new ArrayList<>();
+            for (int c = 0; c < configs.size(); c++) {
+                NamedSettings cfg = configs.get(c);
+                DriveSurvey survey = ss.get(c);
+                scored.add(CompletableFuture.supplyAsync(() -> {
+                    ConfigScores cs = scoreConfig(p, cfg, survey, plan, options, listener);
+                    listener.windowsScored(cs.windows().size() + cs.realGaps().size());
+                    return cs;
+                }, pool));
+            }
+            return CompletableFuture.allOf(scored.toArray(CompletableFuture[]::new)).thenApply(d2 ->
+                    new LogScores(log.name(), index, p.samples.size(), p.startT, p.endT, p.frame, p.kind, p.track,
+                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), log.notes()));
+        });
+    }
+
+    private static ConfigScores scoreConfig(Prepared p, NamedSettings cfg, DriveSurvey survey, WindowPlan plan,
+                                            Options options, Listener listener) {
+        Settings s = cfg.settings();
+        List<OutageReplay.Start> starts = new ArrayList<>();
+        for (OutageWindow w : plan.windows()) {
+            int k = (int) Math.round((w.startT() - p.startT) / GRID_STEP_S);
+            starts.add(new OutageReplay.Start(w, survey.gridState(k)));
+        }
+        Set<OutageWindow> real = new HashSet<>();
+        for (int i = 0; i < p.realGapWindows.size(); i++) {
+            if (survey.extraState(i) != null) {
+                starts.add(new OutageReplay.Start(p.realGapWindows.get(i), survey.extraState(i)));
+                real.add(p.realGapWindows.get(i));
+            }
+        }
+        OutageReplay replay = new OutageReplay(s, s.profileFor(options.vehicle()), p.frame, options.evalStepS());
+        OutageReplay.Result r = replay.runFrom(p.samples, starts, p.track, options.keepTraces(),
+                listener::samplesDone);
+        List<WindowScore> windows = new ArrayList<>();
+        List<WindowScore> gaps = new ArrayList<>();
+        for (WindowScore w : r.scores()) {
+            // A window with no withheld fix inside has nothing to be scored against.
+            if (w.samples() == 0) {
+                continue;
+            }
+            (real.contains(w.window()) ? gaps : windows).add(w);
+        }
+        List<OutageReplay.WindowTrace> traces = new ArrayList<>();
+        List<OutageReplay.WindowTrace> gapTraces = new ArrayList<>();
+        for (OutageReplay.WindowTrace t : r.traces()) {
+            (real.contains(t.window()) ? gapTraces : traces).add(t);
+        }
+        return new ConfigScores(cfg.name(), windows, gaps, traces, gapTraces, survey.aidedSpans());
+    }
+
+    /** What every configuration of a log shares. */
+    private static final class Prepared {
+        List<Sample> samples;
+        double startT;
+        double endT;
+        double firstFixT;
+        double lastFixT;
+        LocalFrame frame;
+        ReferenceKind kind;
+        InterpolatedTrack track;
+        List<TimeSpan> gaps;
+        List<OutageWindow> realGapWindows = new ArrayList<>();
+        double[] extraTimes = new double[0];
+    }
+
+    private static Prepared prepare(LoadedLog log, List<NamedSettings> configs, Options options) {
+        Prepared p = new Prepared();
+        List<Sample> sorted = new ArrayList<>(log.samples());
+        // Stable: samples with the same time keep their order in the file.
+        sorted.sort(Comparator.comparingDouble(Sample::t));
+        p.samples = List.copyOf(sorted);
+        List<GnssFix> fixes = new ArrayList<>();
+        List<ReferencePoint> refs = new ArrayList<>();
+        for (Sample s : p.samples) {
+            if (s instanceof GnssFix f && f.fix() != FixType.NONE) {
+                fixes.add(f);
+            } else if (s instanceof ReferencePoint r) {
+                refs.add(r);
+            }
+        }
+        if (fixes.isEmpty()) {
+            throw new IllegalArgumentException(log.name() + ": has no GNSS fix with a solution, nothing to score");
+        }
+        GnssFix first = fixes.get(0);
+        p.frame = new LocalFrame(new Geodetic(first.latDeg(), first.lonDeg(), first.hasAlt() ? first.altM() : 0.0));
+        p.startT = p.samples.get(0).t();
+        p.endT = p.samples.get(p.samples.size() - 1).t();
+        p.firstFixT = first.t();
+        p.lastFixT = fixes.get(fixes.size() - 1).t();
+        // With several configurations the shortest gap is used, so no window of any of them overlaps one.
+        double gapS = configs.stream().mapToDouble(c -> c.settings().outage().gapS()).min().orElseThrow();
+        p.gaps = GnssGaps.find(p.samples, gapS);
+        if (refs.size() >= 2) {
+            p.kind = ReferenceKind.REFERENCE;
+            p.track = InterpolatedTrack.ofReference(refs, p.frame, REFERENCE_MAX_GAP_S);
+            double[] extra = new double[p.gaps.size()];
+            for (int i = 0; i < p.gaps.size(); i++) {
+                TimeSpan g = p.gaps.get(i);
+                // Just after the last fix: the branch has seen it, and nothing else is withheld.
+                double start = Math.nextUp(g.startT());
+                extra[i] = start;
+                p.realGapWindows.add(new OutageWindow(start, g.endT() - start));
+            }
+            p.extraTimes = extra;
+        } else {
+            p.kind = ReferenceKind.WITHHELD_FIXES;
+            p.track = InterpolatedTrack.ofFixes(fixes, p.frame, gapS);
+        }
+        return p;
+    }
+
+    /** The lengths of the schedule, for summaries. */
+    public static double[] lengths(Options options) {
+        return Arrays.copyOf(options.schedule().lengthsS(), options.schedule().lengthsS().length);
+    }
+}

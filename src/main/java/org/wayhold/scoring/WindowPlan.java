@@ -1,0 +1,185 @@
+package org.wayhold.scoring;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Random;
+import java.util.function.IntPredicate;
+
+/**
+ * Chooses the simulated outage windows of one log.
+ *
+ * <p>Starts lie on a grid (one start state per grid time is kept by {@link DriveSurvey}). A window may
+ * start at grid time c with length L when: c is at least {@code skipS} after the grid's start; the
+ * filter had been aided for the minimum time at c in every configuration compared (the caller's
+ * predicate); [c, c + L] lies between the first and last fix and overlaps no real gap.
+ *
+ * <p>Fixed schedule: one window of each length at every {@code everyS} from the skip; a start that is
+ * not allowed is left out and counted. Random: {@code perLength} distinct allowed starts for each length,
+ * drawn with {@link java.util.Random} (its generator is specified by the Java platform, so a seed gives
+ * the same windows on every JVM) seeded from the seed, the log's index and the length's index.
+ *
+ * @param windows the windows, ordered by start then length
+ * @param skipped fixed schedule: nominal windows left out (count); random: windows short of the ask
+ */
+public record WindowPlan(List<OutageWindow> windows, int skipped) {
+
+    public WindowPlan {
+        windows = List.copyOf(windows);
+    }
+
+    /**
+     * The schedule.
+     *
+     * @param lengthsS  outage lengths (s, each > 0)
+     * @param skipS     time from the log's first sample before any window (s, >= 0, a whole number of grid steps)
+     * @param everyS    spacing of the fixed schedule (s, > 0, a whole number of grid steps)
+     * @param perLength random windows per length (count), 0 for the fixed schedule
+     * @param seed      seed of the random draw
+     */
+    public record Schedule(double[] lengthsS, double skipS, double everyS, int perLength, long seed) {
+
+        public Schedule {
+            if (lengthsS.length == 0) {
+                throw new IllegalArgumentException("outage: at least one outage length in s is needed");
+            }
+            for (double l : lengthsS) {
+                if (!(l > 0.0) || Double.isInfinite(l)) {
+                    throw new IllegalArgumentException("outage: lengths must be positive numbers of s, was " + l);
+                }
+            }
+            if (!(skipS >= 0.0) || Double.isInfinite(skipS)) {
+                throw new IllegalArgumentException("skip: must be a non-negative number of s, was " + skipS);
+            }
+            if (!(everyS > 0.0) || Double.isInfinite(everyS)) {
+                throw new IllegalArgumentException("every: must be a positive number of s, was " + everyS);
+            }
+            if (perLength < 0) {
+                throw new IllegalArgumentException("random: must be a count >= 0, was " + perLength);
+            }
+            lengthsS = lengthsS.clone();
+        }
+
+        @Override
+        public double[] lengthsS() {
+            return lengthsS.clone();
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Schedule s && Arrays.equals(lengthsS, s.lengthsS) && skipS == s.skipS
+                    && everyS == s.everyS && perLength == s.perLength && seed == s.seed;
+        }
+
+        @Override
+        public int hashCode() {
+            return Arrays.hashCode(lengthsS) * 31 + Long.hashCode(seed);
+        }
+    }
+
+    /**
+     * The log's side of the plan.
+     *
+     * @param gridStartT first grid time (s)
+     * @param gridStepS  grid spacing (s)
+     * @param gridCount  number of grid times
+     * @param firstFixT  first fix (s)
+     * @param lastFixT   last fix (s)
+     * @param gaps       real gaps
+     * @param allowed    whether the filter state allows a start at grid index k in every configuration
+     */
+    public record Log(double gridStartT, double gridStepS, int gridCount, double firstFixT, double lastFixT,
+                      List<TimeSpan> gaps, IntPredicate allowed) {
+    }
+
+    /**
+     * @param schedule the schedule
+     * @param log      the log's grid, fixes and gaps
+     * @param logIndex position of the log among those scored together (mixed into the random seed)
+     */
+    public static WindowPlan choose(Schedule schedule, Log log, int logIndex) {
+        int skipSteps = wholeSteps("skip", schedule.skipS(), log.gridStepS());
+        List<OutageWindow> out = new ArrayList<>();
+        int skipped = 0;
+        double[] lengths = schedule.lengthsS();
+        if (schedule.perLength() == 0) {
+            int everySteps = wholeSteps("every", schedule.everyS(), log.gridStepS());
+            for (int k = skipSteps; k < log.gridCount(); k += everySteps) {
+                double start = log.gridStartT() + k * log.gridStepS();
+                for (double len : lengths) {
+                    if (start + len > log.lastFixT()) {
+                        continue;
+                    }
+                    if (eligible(log, k, len)) {
+                        out.add(new OutageWindow(start, len));
+                    } else {
+                        skipped++;
+                    }
+                }
+            }
+        } else {
+            for (int li = 0; li < lengths.length; li++) {
+                double len = lengths[li];
+                int[] candidates = new int[Math.max(log.gridCount() - skipSteps, 0)];
+                int n = 0;
+                for (int k = skipSteps; k < log.gridCount(); k++) {
+                    if (eligible(log, k, len)) {
+                        candidates[n++] = k;
+                    }
+                }
+                Random random = new Random(mix(schedule.seed(), logIndex, li));
+                int take = Math.min(schedule.perLength(), n);
+                // Partial Fisher-Yates shuffle: the first `take` entries become a uniform draw without
+                // replacement (Knuth, TAOCP vol. 2, 3.4.2, algorithm P).
+                for (int i = 0; i < take; i++) {
+                    int j = i + random.nextInt(n - i);
+                    int tmp = candidates[i];
+                    candidates[i] = candidates[j];
+                    candidates[j] = tmp;
+                    out.add(new OutageWindow(log.gridStartT() + candidates[i] * log.gridStepS(), len));
+                }
+                skipped += schedule.perLength() - take;
+            }
+        }
+        out.sort(Comparator.comparingDouble(OutageWindow::startT).thenComparingDouble(OutageWindow::lengthS));
+        return new WindowPlan(out, skipped);
+    }
+
+    private static boolean eligible(Log log, int k, double len) {
+        double start = log.gridStartT() + k * log.gridStepS();
+        double end = start + len;
+        if (!(start >= log.firstFixT()) || !(end <= log.lastFixT()) || !log.allowed().test(k)) {
+            return false;
+        }
+        for (TimeSpan g : log.gaps()) {
+            if (g.overlaps(start, end)) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /** A seed per log and length from the user's seed (SplitMix64 finaliser, Steele et al., OOPSLA 2014). */
+    private static long mix(long seed, int logIndex, int lengthIndex) {
+        long z = seed + 0x9E3779B97F4A7C15L * (1 + logIndex * 1_000_003L + lengthIndex);
+        z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+        z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+        return z ^ (z >>> 31);
+    }
+
+    /** Throws unless {@code valueS} is a whole number of grid steps, naming the option. */
+    public static void requireWholeSteps(String name, double valueS, double stepS) {
+        wholeSteps(name, valueS, stepS);
+    }
+
+    private static int wholeSteps(String name, double valueS, double stepS) {
+        double steps = valueS / stepS;
+        long r = Math.round(steps);
+        if (Math.abs(steps - r) > 1e-9) {
+            throw new IllegalArgumentException(name + ": must be a whole number of " + stepS + " s steps, was "
+                    + valueS + " s");
+        }
+        return (int) r;
+    }
+}

@@ -1,0 +1,157 @@
+package org.wayhold.cli;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.BufferedWriter;
+import java.io.PrintWriter;
+import java.io.StringWriter;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.util.Locale;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.wayhold.ingest.NdjsonWriter;
+import org.wayhold.nmea.NmeaReader;
+import org.wayhold.sample.GnssFix;
+import org.wayhold.sample.Sample;
+import org.wayhold.simulate.DriveSimulator;
+import org.wayhold.simulate.SimulatedDrive;
+import org.wayhold.simulate.SimulationSettings;
+import picocli.CommandLine;
+
+class ScoreCommandTest {
+
+    private record Run(int exit, String out, String err) {
+    }
+
+    private static Run run(String... args) {
+        CommandLine cl = Main.newCommandLine();
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        cl.setOut(new PrintWriter(out));
+        cl.setErr(new PrintWriter(err));
+        int exit = cl.execute(args);
+        return new Run(exit, out.toString(), err.toString());
+    }
+
+    private static Path writeLog(Path dir, SimulatedDrive drive) throws Exception {
+        Path log = dir.resolve("drive.ndjson.gz");
+        try (NdjsonWriter w = NdjsonWriter.open(log)) {
+            for (Sample s : drive.samples()) {
+                w.write(s);
+            }
+        }
+        return log;
+    }
+
+    @Test
+    void scoresALogIntoTheThreeFilesAndComparesTwoConfigurations(@TempDir Path dir) throws Exception {
+        SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(5).withWarmUpS(120)
+                .withTunnelsS(30), 61L);
+        Path log = writeLog(dir, drive);
+        Path a = dir.resolve("a.yaml");
+        Path b = dir.resolve("b.yaml");
+        Files.writeString(a, "outage:\n  alert_limit_m: 10.0\n");
+        Files.writeString(b, "outage:\n  alert_limit_m: 5.0\n");
+        Path out = dir.resolve("report");
+        Run r = run("score", log.toString(), "--outage", "10,30", "--every", "20", "--min-aided", "30",
+                "--config", a.toString(), "--config", b.toString(), "--out", out.toString(), "--quiet");
+        assertThat(r.exit()).as(r.err()).isZero();
+        assertThat(r.err()).isEmpty();
+        assertThat(r.out()).contains("wrote report.json");
+        JsonNode json = new ObjectMapper().readTree(out.resolve("report.json").toFile());
+        assertThat(json.get("reference").asText()).isEqualTo("reference");
+        assertThat(json.get("outages").size()).isGreaterThan(4);
+        assertThat(json.get("outages").get(0).get("config").asText()).isEqualTo("a");
+        assertThat(json.get("comparison").get(0).get("config").asText()).isEqualTo("b");
+        assertThat(json.get("configs").get(1).get("outage").get("alert_limit_m").asDouble()).isEqualTo(5.0);
+        assertThat(out.resolve("outages.csv")).exists();
+        assertThat(out.resolve("report.html")).exists();
+    }
+
+    @Test
+    void badOptionsExitWithTwoAndSayWhy(@TempDir Path dir) throws Exception {
+        Run r = run("score", dir.resolve("none.ndjson").toString(), "--every", "12.5", "--out", dir.toString());
+        assertThat(r.exit()).isEqualTo(2);
+        assertThat(r.err()).contains("every: must be a whole number");
+    }
+
+    /**
+     * NMEA fixes replace the log's gnss lines: the same drive's fixes written as GGA and RMC (positions to
+     * 1e-7 minute, about 0.2 mm) give the same windows and nearly the same errors.
+     */
+    @Test
+    void nmeaFixesReplaceTheGnssLines(@TempDir Path dir) throws Exception {
+        SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(4).withWarmUpS(120)
+                .withStartT(1_800_000_000.0), 62L);
+        Path log = writeLog(dir, drive);
+        Path nmea = dir.resolve("drive.nmea");
+        int fixes = 0;
+        try (BufferedWriter w = Files.newBufferedWriter(nmea)) {
+            w.write("$GPGGA,bad line*00\n");
+            for (GnssFix f : drive.samplesOf(GnssFix.class)) {
+                w.write(gga(f) + "\n" + rmc(f) + "\n");
+                fixes++;
+            }
+        }
+        Path outA = dir.resolve("ndjson");
+        Path outB = dir.resolve("nmea");
+        assertThat(run("score", log.toString(), "--outage", "10", "--every", "20", "--out", outA.toString(),
+                "--quiet").exit()).isZero();
+        Run r = run("score", log.toString(), "--gnss", nmea.toString(), "--outage", "10", "--every", "20", "--out",
+                outB.toString(), "--quiet");
+        assertThat(r.exit()).as(r.err()).isZero();
+        ObjectMapper mapper = new ObjectMapper();
+        JsonNode a = mapper.readTree(outA.resolve("report.json").toFile());
+        JsonNode b = mapper.readTree(outB.resolve("report.json").toFile());
+        assertThat(b.get("logs").get(0).get("notes").toString()).contains(fixes + " fixes").contains("1 sentences skipped")
+                .contains("line 1: checksum");
+        assertThat(a.get("outages").size()).isPositive();
+        assertThat(b.get("outages").size()).isPositive();
+        // The fixes read back are the drive's own, to the 1e-7 minute written (0.2 mm) and the millisecond.
+        java.util.List<GnssFix> read = NmeaReader.readFile(nmea).fixes();
+        java.util.List<GnssFix> orig = drive.samplesOf(GnssFix.class);
+        assertThat(read).hasSize(orig.size());
+        for (int i = 0; i < orig.size(); i++) {
+            assertThat(read.get(i).t()).isCloseTo(orig.get(i).t(), org.assertj.core.data.Offset.offset(5e-4));
+            assertThat(read.get(i).latDeg()).isCloseTo(orig.get(i).latDeg(), org.assertj.core.data.Offset.offset(2e-9));
+            assertThat(read.get(i).lonDeg()).isCloseTo(orig.get(i).lonDeg(), org.assertj.core.data.Offset.offset(2e-9));
+        }
+        // NMEA has no sigma_h, so the filter weighs these fixes by HDOP instead: windows and errors differ.
+    }
+
+    private static String gga(GnssFix f) {
+        return sentence(String.format(Locale.ROOT, "GPGGA,%s,%s,1,%02d,%.2f,%.3f,M,0.000,M,,", time(f.t()),
+                latLon(f.latDeg(), f.lonDeg()), f.sats(), f.hdop(), f.altM()));
+    }
+
+    private static String rmc(GnssFix f) {
+        Instant i = Instant.ofEpochMilli(Math.round(f.t() * 1000));
+        String date = String.format(Locale.ROOT, "%02d%02d%02d", i.atZone(ZoneOffset.UTC).getDayOfMonth(),
+                i.atZone(ZoneOffset.UTC).getMonthValue(), i.atZone(ZoneOffset.UTC).getYear() % 100);
+        return sentence(String.format(Locale.ROOT, "GPRMC,%s,A,%s,%.3f,%.1f,%s,,", time(f.t()),
+                latLon(f.latDeg(), f.lonDeg()), f.hasSpeed() ? f.speedMps() / NmeaReader.MPS_PER_KNOT : 0.0,
+                f.hasCourse() ? f.courseDeg() : 0.0, date));
+    }
+
+    private static String time(double t) {
+        Instant i = Instant.ofEpochMilli(Math.round(t * 1000));
+        var z = i.atZone(ZoneOffset.UTC);
+        return String.format(Locale.ROOT, "%02d%02d%02d.%03d", z.getHour(), z.getMinute(), z.getSecond(),
+                z.getNano() / 1_000_000);
+    }
+
+    private static String latLon(double lat, double lon) {
+        return String.format(Locale.ROOT, "%02d%010.7f,%s,%03d%010.7f,%s", (int) Math.abs(lat),
+                (Math.abs(lat) % 1) * 60, lat >= 0 ? "N" : "S", (int) Math.abs(lon), (Math.abs(lon) % 1) * 60,
+                lon >= 0 ? "E" : "W");
+    }
+
+    private static String sentence(String body) {
+        return "$" + body + "*" + String.format("%02X", NmeaReader.checksum(body));
+    }
+}
