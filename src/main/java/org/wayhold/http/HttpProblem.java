@@ -93,6 +93,16 @@ final class HttpProblem extends RuntimeException {
                 java.util.Map.of("Retry-After", Long.toString(retryAfterS)));
     }
 
+    /**
+     * The journal could not make accepted samples durable. They may be applied in memory, but the
+     * client was not told so and must send them again (duplicates are ignored).
+     */
+    static HttpProblem journalUnavailable(java.io.IOException cause) {
+        return new HttpProblem(503, "journal-unavailable", "Service unavailable", null,
+                "the samples could not be written to the journal (" + cause.getClass().getSimpleName()
+                        + "), so they are not acknowledged; send them again later");
+    }
+
     int status() {
         return status;
     }

@@ -14,7 +14,6 @@ import org.wayhold.ingest.SampleSink;
 import org.wayhold.ordering.Admission;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionRegistry;
-import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -31,6 +30,10 @@ import org.wayhold.settings.ServerSettings;
  * that point stay applied (the problem says how many samples that was). Resending the whole body is
  * safe: exact duplicates are recognised and ignored by the session. A vehicle that has sent more than
  * its rate allows gets 429 before its body is read ({@link IngestRate}).
+ *
+ * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
+ * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
+ * cannot write, the reply is 503 and the client must send the batch again.
  */
 final class SampleIngest {
 
@@ -100,16 +103,19 @@ final class SampleIngest {
             batch.flush();
         } catch (BoundedBody.TooLarge e) {
             batch.flush();
+            batch.awaitRecorded();
             throw HttpProblem.bodyTooLarge("over the limit of " + limits.maxBodyBytes()
                     + " bytes (server.max_body_bytes); the " + batch.accepted
                     + " samples read before the limit were accepted");
         } catch (IOException e) {
             // The client went away or sent a broken transfer encoding; what arrived whole is kept.
             batch.flush();
+            batch.awaitRecorded();
             // The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4).
             throw HttpProblem.invalidParameter("body", "could not be read to its end (the connection ended early"
                     + " or the transfer coding was broken); the " + batch.accepted + " samples read before were accepted");
         }
+        batch.awaitRecorded();
         return batch.reply();
     }
 
@@ -117,7 +123,7 @@ final class SampleIngest {
     private final class Batch implements SampleSink {
         private final String vehicleId;
         private final BlankLines blanks;
-        private VehicleSession session;
+        private final List<SessionRegistry.Submission> submitted = new ArrayList<>();
         private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
         private long[] chunkLines = new long[CHUNK_SAMPLES];
         private final List<LineError> pending = new ArrayList<>();
@@ -141,6 +147,7 @@ final class SampleIngest {
             samplesRead++;
             if (samplesRead > limits.maxSamplesPerRequest()) {
                 flush();
+                awaitRecorded();
                 throw HttpProblem.bodyTooLarge("more than " + limits.maxSamplesPerRequest()
                         + " samples in one request (server.max_samples_per_request); the " + accepted
                         + " samples read before the limit were accepted");
@@ -162,12 +169,10 @@ final class SampleIngest {
 
         void flush() {
             if (!chunk.isEmpty()) {
-                if (session == null) {
-                    session = sessions.getOrCreate(vehicleId).session();
-                }
                 rate.charge(vehicleId, chunk.size());
-                List<Admission> admissions = session.submit(chunk);
-                tally(admissions);
+                SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
+                submitted.add(s);
+                tally(s.admissions());
                 chunk.clear();
             }
             pending.sort(Comparator.comparingLong(LineError::line));
@@ -177,6 +182,22 @@ final class SampleIngest {
                 }
             }
             pending.clear();
+        }
+
+        /**
+         * Waits until every chunk submitted so far is in the journal: no reply, success or problem,
+         * reports samples as accepted before they are durable. A chunk the journal could not write
+         * turns the reply into 503.
+         */
+        void awaitRecorded() {
+            for (SessionRegistry.Submission s : submitted) {
+                try {
+                    s.awaitRecorded();
+                } catch (IOException e) {
+                    throw HttpProblem.journalUnavailable(e);
+                }
+            }
+            submitted.clear();
         }
 
         private void tally(List<Admission> admissions) {

@@ -11,6 +11,7 @@ import java.util.regex.Pattern;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;
 
 /**
@@ -149,7 +150,13 @@ final class VehicleRoutes {
 
     void delete(Context ctx) {
         String id = vehicleId(ctx);
-        if (!sessions.remove(id)) {
+        boolean deleted;
+        try {
+            deleted = sessions.delete(id);
+        } catch (IOException e) {
+            throw HttpProblem.journalUnavailable(e);
+        }
+        if (!deleted) {
             throw HttpProblem.unknownVehicle(id);
         }
         ctx.status(204);
@@ -164,6 +171,9 @@ final class VehicleRoutes {
                 Optional<Pose> latest = s.latest();
                 g.writeStartObject();
                 g.writeStringField("vehicle", s.vehicleId());
+                SessionStats stats = s.stats();
+                g.writeNumberField("samples", stats.wheelSpeedApplied() + stats.yawRateApplied() + stats.gnssApplied()
+                        + stats.referenceApplied());
                 if (latest.isPresent()) {
                     Pose p = latest.get();
                     g.writeStringField("state", p.state().wireName());

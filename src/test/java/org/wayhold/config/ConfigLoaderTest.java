@@ -18,6 +18,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
+import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
@@ -159,6 +160,34 @@ class ConfigLoaderTest {
         assertThat(s.history().maxPoses()).isEqualTo(500);
         assertThat(s.profileFor("van_3")).isEqualTo(new VehicleProfile(1.25, -0.5, 1.75));
         assertThat(s.profileFor("car_9")).isEqualTo(VehicleProfile.defaults());
+    }
+
+    @Test
+    void everyJournalKeyReachesItsOwnField() {
+        Settings s = parse("""
+                journal:
+                  fsync: false
+                  group_commit_max_s: 0.005
+                  segment_bytes: 1048576
+                  retention_age_s: 3600.0
+                  retention_bytes: 8388608
+                  snapshot_interval_s: 30.0
+                """);
+        assertThat(s.journal()).isEqualTo(new JournalSettings(false, 0.005, 1_048_576, 3600.0, 8_388_608, 30.0));
+        assertThat(parse("journal:\n  snapshot_interval_s: 10.0\n").journal().segmentBytes())
+                .isEqualTo(JournalSettings.defaults().segmentBytes());
+    }
+
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {
+        "'journal:\n  fsync: 1\n'                     | journal.fsync: must be true or false, was 1",
+        "'journal:\n  fsync: sometimes\n'             | journal.fsync: must be true or false, was 'sometimes'",
+        "'journal:\n  segment_bytes: 100\n'           | journal.segment_bytes: must be at least 4096 bytes, was 100 bytes",
+        "'journal:\n  group_commit_max_s: -0.1\n'     | journal.group_commit_max_s: must be a finite number >= 0, was -0.1",
+        "'journal:\n  snapshot_interval_s: 0\n'       | journal.snapshot_interval_s: must be a positive finite number, was 0.0",
+        "'journal:\n  retention_bytes: 4096\n'        | journal.retention_bytes: must be at least journal.segment_bytes (67108864 bytes), was 4096 bytes"})
+    void aBadJournalValueIsNamedWithItsKey(String yaml, String message) {
+        assertThat(errorOf(yaml)).isEqualTo(message + " (in test.yaml)");
     }
 
     @Test
