@@ -10,6 +10,7 @@ import java.util.Locale;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
+import org.wayhold.http.BindRule;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
 import org.wayhold.journal.Journal;
@@ -36,6 +37,9 @@ import picocli.CommandLine.Spec;
  * journal before its reply; snapshots every {@code journal.snapshot_interval_s} bound what a restart
  * replays.
  *
+ * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
+ * tokens or {@code --insecure}.
+ *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
  * connector stops accepting, requests in flight get up to ten seconds to finish, and a last snapshot
  * is written.
@@ -56,6 +60,10 @@ final class ServeCommand implements Callable<Integer> {
 
     @Option(names = "--bind", paramLabel = "ADDR", description = "Address to listen on, overrides server.bind.")
     private String bind;
+
+    @Option(names = "--insecure",
+            description = "Allows a non-loopback --bind without write tokens (anyone reaching it may write).")
+    private boolean insecure;
 
     @Option(names = "--data", paramLabel = "DIR",
             description = "Journal of accepted samples; a restart on the same DIR restores every session "
@@ -84,6 +92,17 @@ final class ServeCommand implements Callable<Integer> {
             throw new ParameterException(spec.commandLine(), "--replay: no such file " + replay);
         }
         Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
         List<Sample> log = replay == null ? List.of() : readLog(replay, out);
 
         // Every session is restored before the connector opens: no request sees a half-recovered state.
@@ -156,9 +175,7 @@ final class ServeCommand implements Callable<Integer> {
             return s;
         }
         ServerSettings v = s.server();
-        ServerSettings server = new ServerSettings(port != null ? port : v.port(), bind != null ? bind : v.bind(),
-                v.writeTokens(), v.readTokens(), v.maxBodyBytes(), v.maxLineBytes(), v.maxSamplesPerRequest(),
-                v.maxSessions(), v.maxSamplesPerSecondPerVehicle(), v.corsOrigins(), v.sseKeepAliveS());
+        ServerSettings server = v.withAddress(port != null ? port : v.port(), bind != null ? bind : v.bind());
         return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles(),
                 s.journal());
     }

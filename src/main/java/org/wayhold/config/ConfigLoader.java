@@ -90,7 +90,9 @@ public final class ConfigLoader {
                 s.integer("max_line_bytes", d.maxLineBytes()),
                 s.integer("max_samples_per_request", d.maxSamplesPerRequest()),
                 s.integer("max_sessions", d.maxSessions()),
+                s.integer("max_vehicle_id_chars", d.maxVehicleIdChars()),
                 s.number("max_samples_per_second_per_vehicle", d.maxSamplesPerSecondPerVehicle()),
+                s.number("rate_burst_s", d.rateBurstS()),
                 s.texts("cors_origins", d.corsOrigins()),
                 s.number("sse_keep_alive_s", d.sseKeepAliveS()));
     }

@@ -38,6 +38,7 @@ public final class HttpService implements AutoCloseable {
     private final PoseStreams streams;
     private final ServiceMetrics metrics;
     private final byte[] openApiYaml;
+    private final BearerTokens tokens;
     private final List<String> routes = Collections.synchronizedList(new ArrayList<>());
     private final Javalin app;
     private final long startedNanos = System.nanoTime();
@@ -65,7 +66,10 @@ public final class HttpService implements AutoCloseable {
         this.metrics = new ServiceMetrics(sessions, streams);
         this.openApiYaml = readOpenApi();
         sessions.addRemovalListener(streams::closeVehicle);
-        SampleIngest ingest = new SampleIngest(sessions, server, metrics);
+        IngestRate rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
+        sessions.addRemovalListener(rate::forget);
+        this.tokens = new BearerTokens(server);
+        SampleIngest ingest = new SampleIngest(sessions, server, metrics, rate);
         VehicleRoutes vehicles = new VehicleRoutes(sessions, ingest, streams);
         this.app = Javalin.create(config -> configure(config, vehicles));
     }
@@ -83,7 +87,11 @@ public final class HttpService implements AutoCloseable {
             s.setStopTimeout(STOP_TIMEOUT_MS);
         });
         config.events.serverStopping(streams::closeAll);
-        config.events.handlerAdded(h -> routes.add(h.getHttpMethod().name() + " " + h.getPath()));
+        config.events.handlerAdded(h -> {
+            if (h.getHttpMethod().isHttpMethod()) {
+                routes.add(h.getHttpMethod().name() + " " + h.getPath());
+            }
+        });
         if (!server.corsOrigins().isEmpty()) {
             config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
                 for (String origin : server.corsOrigins()) {
@@ -100,6 +108,7 @@ public final class HttpService implements AutoCloseable {
                 ctx.statusCode(), ms));
 
         ErrorMapping.install(config.routes);
+        config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
         config.routes.get("/v1/vehicles/{vehicle}/track", vehicles::getTrack);

@@ -28,7 +28,8 @@ import org.wayhold.settings.ServerSettings;
  * samples end the request with 413. A body with a {@code Content-Length} over the limit is refused before
  * anything is read; a chunked body is cut where it passes the limit, and the chunks submitted before
  * that point stay applied (the problem says how many samples that was). Resending the whole body is
- * safe: exact duplicates are recognised and ignored by the session.
+ * safe: exact duplicates are recognised and ignored by the session. A vehicle that has sent more than
+ * its rate allows gets 429 before its body is read ({@link IngestRate}).
  *
  * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
  * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
@@ -49,12 +50,14 @@ final class SampleIngest {
     private final ServerSettings limits;
     private final ServiceMetrics metrics;
     private final NdjsonReader reader;
+    private final IngestRate rate;
 
-    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics) {
+    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics, IngestRate rate) {
         this.sessions = sessions;
         this.limits = limits;
         this.metrics = metrics;
         this.reader = new NdjsonReader(limits.maxLineBytes());
+        this.rate = rate;
     }
 
     /** The format named by a Content-Type header; 415 for anything else. */
@@ -84,6 +87,7 @@ final class SampleIngest {
      * @return the reply document (UTF-8 JSON)
      */
     byte[] ingest(String vehicleId, Format format, long contentLength, InputStream body) {
+        rate.admit(vehicleId);
         if (contentLength > limits.maxBodyBytes()) {
             throw HttpProblem.bodyTooLarge("Content-Length " + contentLength + " is over the limit of "
                     + limits.maxBodyBytes() + " bytes (server.max_body_bytes)");
@@ -107,8 +111,9 @@ final class SampleIngest {
             // The client went away or sent a broken transfer encoding; what arrived whole is kept.
             batch.flush();
             batch.awaitRecorded();
-            throw HttpProblem.invalidParameter("body", "could not be read to its end ("
-                    + e.getClass().getSimpleName() + "); the " + batch.accepted + " samples read before were accepted");
+            // The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4).
+            throw HttpProblem.invalidParameter("body", "could not be read to its end (the connection ended early"
+                    + " or the transfer coding was broken); the " + batch.accepted + " samples read before were accepted");
         }
         batch.awaitRecorded();
         return batch.reply();
@@ -164,6 +169,7 @@ final class SampleIngest {
 
         void flush() {
             if (!chunk.isEmpty()) {
+                rate.charge(vehicleId, chunk.size());
                 SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
                 submitted.add(s);
                 tally(s.admissions());

@@ -21,10 +21,11 @@ import org.wayhold.session.VehicleSession;
 final class VehicleRoutes {
 
     /**
-     * Vehicle ids: 1 to 64 characters from letters, digits, {@code . _ : -}, starting with a letter or
-     * digit. Enough for fleet numbers, plates and UUIDs, and safe in paths, logs and metric labels.
+     * Vehicle ids: letters, digits, {@code . _ : -}, starting with a letter or digit, at most
+     * {@code server.max_vehicle_id_chars} characters (64 by default). Enough for fleet numbers, plates and
+     * UUIDs, and safe in paths, logs, metric labels and file names.
      */
-    static final Pattern VEHICLE_ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._:-]{0,63}");
+    static final Pattern VEHICLE_ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._:-]*");
 
     /** {@code EPSG:} followed by a code of 4 or 5 digits (the EPSG dataset's range). */
     private static final Pattern EPSG = Pattern.compile("(?i)EPSG:(\\d{4,5})");
@@ -34,11 +35,13 @@ final class VehicleRoutes {
     private final SessionRegistry sessions;
     private final SampleIngest ingest;
     private final PoseStreams streams;
+    private final int maxIdChars;
 
     VehicleRoutes(SessionRegistry sessions, SampleIngest ingest, PoseStreams streams) {
         this.sessions = sessions;
         this.ingest = ingest;
         this.streams = streams;
+        this.maxIdChars = sessions.settings().server().maxVehicleIdChars();
     }
 
     void postSamples(Context ctx) {
@@ -201,11 +204,12 @@ final class VehicleRoutes {
         return sessions.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
     }
 
-    static String vehicleId(Context ctx) {
+    String vehicleId(Context ctx) {
         String id = ctx.pathParam("vehicle");
-        if (!VEHICLE_ID.matcher(id).matches()) {
-            throw HttpProblem.invalidParameter("vehicle", "must be 1 to 64 letters, digits or . _ : -, "
-                    + "starting with a letter or digit, was '" + clip(id) + "'");
+        if (id.length() > maxIdChars || !VEHICLE_ID.matcher(id).matches()) {
+            throw HttpProblem.invalidParameter("vehicle", "must be 1 to " + maxIdChars
+                    + " letters, digits or . _ : -, starting with a letter or digit (server.max_vehicle_id_chars), was '"
+                    + clip(id) + "'" + (id.length() > maxIdChars ? " (" + id.length() + " characters)" : ""));
         }
         return id;
     }
