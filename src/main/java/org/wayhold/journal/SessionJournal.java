@@ -142,14 +142,22 @@ public final class SessionJournal implements Closeable {
                 throw new UncheckedIOException(new IOException("snapshot of vehicle '" + vehicleId
                         + "' does not fit this version or these settings: " + e.getMessage(), e));
             } catch (SessionLimitException e) {
-                throw new UncheckedIOException(new IOException("the journal holds more sessions than "
-                        + "server.max_sessions allows (" + e.getMessage() + ")", e));
+                throw tooMany(e);
             }
+        }
+
+        private static UncheckedIOException tooMany(SessionLimitException e) {
+            return new UncheckedIOException(new IOException("the journal holds more sessions than "
+                    + "server.max_sessions allows (" + e.getMessage() + "); raise the limit to restore them", e));
         }
 
         @Override
         public void replay(String vehicleId, List<Sample> batch, long seq) {
-            sessions.getOrCreate(vehicleId).session().submit(batch);
+            try {
+                sessions.getOrCreate(vehicleId).session().submit(batch);
+            } catch (SessionLimitException e) {
+                throw tooMany(e);
+            }
         }
 
         @Override
