@@ -86,7 +86,8 @@ public final class Soak {
         HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5))
                 .executor(Executors.newFixedThreadPool(4)).build();
         long endNanos = System.nanoTime() + (long) (minutes * 60e9);
-        ExecutorService workers = Executors.newFixedThreadPool(Math.min(16, vehicles + dashboards));
+        // One thread per vehicle and per dashboard, so every one of them runs for the whole time.
+        ExecutorService workers = Executors.newFixedThreadPool(vehicles + dashboards);
         AtomicLong requests = new AtomicLong();
         // Vehicle k starts k seconds into the drive so the fleet is not in lock step.
         List<Runnable> tasks = new ArrayList<>();
@@ -115,7 +116,7 @@ public final class Soak {
         long httpErrors = statuses.entrySet().stream()
                 .filter(e -> !e.getKey().endsWith(" 200") && !e.getKey().endsWith(" 304"))
                 .mapToLong(Map.Entry::getValue).sum();
-        System.out.println("http_errors " + httpErrors);
+        System.out.println("http_not_2xx_304 " + httpErrors);
         System.out.println("transport_errors " + TRANSPORT_ERRORS.sum());
         System.out.println("post " + POST_LATENCY.summary());
         System.out.println("get " + GET_LATENCY.summary());
