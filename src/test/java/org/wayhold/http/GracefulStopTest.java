@@ -4,16 +4,13 @@ import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import java.io.ByteArrayInputStream;
 import java.io.IOException;
-import java.io.InputStream;
-import java.io.SequenceInputStream;
+import java.io.OutputStream;
+import java.net.Socket;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
 import java.util.List;
-import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.CountDownLatch;
-import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.Test;
 import org.wayhold.sample.Sample;
 
@@ -27,44 +24,34 @@ class GracefulStopTest {
     @Test
     void stopEndsStreamsFinishesRequestsInFlightAndThenRefusesConnections() throws Exception {
         LiveServer server = new LiveServer(LiveServer.settings(s -> s));
-        List<Sample> samples = Drives.openSky(51L, 10.0);
+        List<Sample> samples = Drives.openSky(51L, 45.0);
         server.postNdjson("busy", Drives.ndjson(samples.subList(0, 100)));
         SseClientLines sse = new SseClientLines(server, "/v1/vehicles/busy/stream");
         assertThat(sse.nextEvent()).containsEntry("event", "pose");
 
-        // A body in two halves; the second half is held back until the stop has begun.
-        CountDownLatch stopBegun = new CountDownLatch(1);
-        byte[] firstHalf = Drives.ndjson(samples.subList(100, 300));
-        byte[] secondHalf = Drives.ndjson(samples.subList(300, 500));
-        InputStream held = new InputStream() {
-            private InputStream rest;
+        // A body in two parts, sent by hand on a plain socket so that the test decides when each part
+        // leaves: the second is held back until the stop has begun. The first holds more than one
+        // submission chunk, so the session shows when the server is busy with the request.
+        int split = 100 + SampleIngest.CHUNK_SAMPLES + 50;
+        byte[] firstHalf = Drives.ndjson(samples.subList(100, split));
+        byte[] secondHalf = Drives.ndjson(samples.subList(split, split + 500));
+        long versionBefore = server.sessions.find("busy").orElseThrow().session().version();
+        Socket socket = new Socket("127.0.0.1", server.service.port());
+        socket.setSoTimeout(60_000);
+        OutputStream out = socket.getOutputStream();
+        out.write(("POST /v1/vehicles/busy/samples HTTP/1.1\r\nHost: 127.0.0.1\r\n"
+                + "Content-Type: application/x-ndjson\r\nContent-Length: " + (firstHalf.length + secondHalf.length)
+                + "\r\n\r\n").getBytes(StandardCharsets.US_ASCII));
+        out.write(firstHalf);
+        out.flush();
 
-            @Override
-            public int read() throws IOException {
-                byte[] one = new byte[1];
-                return read(one, 0, 1) < 0 ? -1 : one[0] & 0xff;
-            }
-
-            @Override
-            public int read(byte[] b, int off, int len) throws IOException {
-                if (rest == null) {
-                    try {
-                        stopBegun.await(30, TimeUnit.SECONDS);
-                    } catch (InterruptedException e) {
-                        throw new IOException(e);
-                    }
-                    rest = new ByteArrayInputStream(secondHalf);
-                }
-                return rest.read(b, off, len);
-            }
-        };
-        CompletableFuture<HttpResponse<String>> inFlight = server.client.sendAsync(
-                server.request("/v1/vehicles/busy/samples").header("Content-Type", "application/x-ndjson")
-                        .POST(HttpRequest.BodyPublishers.ofInputStream(
-                                () -> new SequenceInputStream(new ByteArrayInputStream(firstHalf), held)))
-                        .build(), HttpResponse.BodyHandlers.ofString());
-
+        // Wait (bounded) until the first chunk of the request is applied: the request is then in flight.
+        for (int i = 0; i < 3000 && server.sessions.find("busy").orElseThrow().session().version() == versionBefore; i++) {
+            Thread.sleep(10);
+        }
+        assertThat(server.sessions.find("busy").orElseThrow().session().version()).isGreaterThan(versionBefore);
         HttpRequest healthAfterStop = server.request("/health").GET().build();
+        int port = server.service.port();
         Thread stopper = new Thread(server::close, "stopper");
         stopper.start();
         // The stream ends first: its end shows that the stop has begun.
@@ -73,12 +60,25 @@ class GracefulStopTest {
             end = sse.next();
         } while (end != null && !end.equals(SseClientLines.END) && !end.equals(SseClientLines.FAILED));
         assertThat(end).as("the pose stream completes cleanly").isEqualTo(SseClientLines.END);
-        stopBegun.countDown();
+        // Then wait (bounded) until the service accepts no new connection: only now is the request above
+        // truly in flight during a stop, and only now is its second half sent.
+        boolean refusing = false;
+        for (int i = 0; i < 1000 && !refusing; i++) {
+            try (Socket probe = new Socket("127.0.0.1", port)) {
+                Thread.sleep(10);
+            } catch (IOException e) {
+                refusing = true;
+            }
+        }
+        assertThat(refusing).as("new connections are refused during the stop").isTrue();
+        out.write(secondHalf);
+        out.flush();
 
-        HttpResponse<String> r = inFlight.get(30, TimeUnit.SECONDS);
-        assertThat(r.statusCode()).as(r.body()).isEqualTo(200);
-        JsonNode reply = LiveServer.json(r);
-        assertThat(reply.get("accepted").asInt()).isEqualTo(400);
+        String response = new String(socket.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        socket.close();
+        assertThat(response).startsWith("HTTP/1.1 200");
+        JsonNode reply = LiveServer.JSON.readTree(response.substring(response.indexOf("\r\n\r\n") + 4));
+        assertThat(reply.get("accepted").asInt()).isEqualTo(split + 500 - 100);
         stopper.join(30_000);
         assertThat(stopper.isAlive()).isFalse();
         assertThatThrownBy(() -> server.client.send(healthAfterStop, HttpResponse.BodyHandlers.ofString()))
