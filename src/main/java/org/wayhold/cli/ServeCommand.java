@@ -148,6 +148,7 @@ final class ServeCommand implements Callable<Integer> {
             } catch (IOException | RuntimeException e) {
                 out.println("journal: closing failed: " + e);
             }
+            out.println("wayhold stopped");
             out.flush();
             stopped.countDown();
         }, "wayhold-shutdown"));

@@ -94,13 +94,15 @@ final class HttpProblem extends RuntimeException {
     }
 
     /**
-     * The journal could not make accepted samples durable. They may be applied in memory, but the
-     * client was not told so and must send them again (duplicates are ignored).
+     * The journal could not make a change durable (accepted samples, a deletion). It may be applied in
+     * memory, but the client was not told so and must send the request again (duplicate samples are
+     * ignored). The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4);
+     * the server log has the cause.
      */
-    static HttpProblem journalUnavailable(java.io.IOException cause) {
+    static HttpProblem journalUnavailable() {
         return new HttpProblem(503, "journal-unavailable", "Service unavailable", null,
-                "the samples could not be written to the journal (" + cause.getClass().getSimpleName()
-                        + "), so they are not acknowledged; send them again later");
+                "the change could not be written to the journal, so it is not acknowledged; send the request"
+                        + " again later (the server log has the cause)");
     }
 
     int status() {

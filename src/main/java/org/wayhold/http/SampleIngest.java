@@ -194,7 +194,7 @@ final class SampleIngest {
                 try {
                     s.awaitRecorded();
                 } catch (IOException e) {
-                    throw HttpProblem.journalUnavailable(e);
+                    throw HttpProblem.journalUnavailable();
                 }
             }
             submitted.clear();

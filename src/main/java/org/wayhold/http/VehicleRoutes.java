@@ -154,7 +154,7 @@ final class VehicleRoutes {
         try {
             deleted = sessions.delete(id);
         } catch (IOException e) {
-            throw HttpProblem.journalUnavailable(e);
+            throw HttpProblem.journalUnavailable();
         }
         if (!deleted) {
             throw HttpProblem.unknownVehicle(id);
