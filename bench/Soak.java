@@ -31,8 +31,8 @@ import java.util.zip.GZIPInputStream;
  * Soak client for bench/soak.sh (JDK only, run as a single source file: {@code java bench/Soak.java}).
  *
  * <p>N vehicles each post the next 1/M s of a recorded demo drive M times per second (so each vehicle
- * sends in real time, times --speed), D dashboards each read a random vehicle's pose 5 times per second
- * and the vehicle list once per second, for T minutes. Loopback only; every bound is checked.
+ * sends in real time, times --speed), D dashboards each make 5 reads per second (a random vehicle's
+ * pose 4 times, the vehicle list once), for T minutes. Loopback only; every bound is checked.
  *
  * <p>Arguments: BASE_URL LOG N M T_MINUTES D SPEED [WRITE_TOKEN]. Prints one "key value" line per figure.
  */
@@ -213,7 +213,7 @@ public final class Soak {
         }
     }
 
-    /** One dashboard: a random vehicle's pose 5 times a second, the vehicle list once a second. */
+    /** One dashboard: 5 reads a second, a random vehicle's pose 4 times and the vehicle list once. */
     private record Dashboard(HttpClient client, URI base, String token, int vehicles, long endNanos, long seed)
             implements Runnable {
         @Override
