@@ -66,10 +66,14 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
      * demo drives carry 165 samples per second (100 Hz yaw rate, 50 Hz wheel speed, 5 Hz GNSS, 10 Hz
      * reference), so 16,500 samples/s; 100,000 samples/s leaves room for richer rigs. The bucket holds 2 s of that rate,
      * enough for one large batch.
+     *
+     * <p>Sessions: a session at its full history of 3000 poses holds about 0.8 MiB (measured with
+     * bench/soak.sh: 160 B per pose plus 40 B for its ellipse, and a little for ordering and the filter),
+     * so 1000 sessions bound the sessions' heap to about 0.8 GB.
      */
     public static ServerSettings defaults() {
         return new ServerSettings(8470, "127.0.0.1", List.of(), List.of(), 64L * 1024 * 1024, 4096,
-                1_000_000, 10_000, 64, 100_000.0, 2.0, List.of(), 15.0);
+                1_000_000, 1_000, 64, 100_000.0, 2.0, List.of(), 15.0);
     }
 
     /** The same settings listening on another port and address. */

@@ -57,9 +57,14 @@ final class RawHttp {
         try (Socket s = new Socket(InetAddress.getLoopbackAddress(), port)) {
             s.setSoTimeout(20_000);
             OutputStream out = s.getOutputStream();
-            out.write(request);
-            out.flush();
-            s.shutdownOutput();
+            try {
+                out.write(request);
+                out.flush();
+                s.shutdownOutput();
+            } catch (IOException e) {
+                // The server may answer and close before it has read everything (a 413 on the declared
+                // length, say): the reply is already on its way, so read it.
+            }
             InputStream in = s.getInputStream();
             ByteArrayOutputStream all = new ByteArrayOutputStream();
             byte[] buf = new byte[16384];
