@@ -227,6 +227,7 @@ class CrashRecoveryTest {
         long recoveredSum = 0;
         long inFlightDurable = 0;
         long bytesCutSum = 0;
+        long finalHeld = 0;
         try {
             for (int threshold : killAt) {
                 while (totalAcked.get() < threshold && failure.get() == null) {
@@ -284,6 +285,12 @@ class CrashRecoveryTest {
                 }
             }
             assertSameAsReference(child, vehicles, "after the last batch");
+            Map<String, Long> finalCounts = sampleCounts(child.baseUrl());
+            for (int v = 0; v < VEHICLES; v++) {
+                Vehicle vehicle = vehicles.get(v);
+                assertThat(finalCounts.get(vehicle.id)).isEqualTo(vehicle.appliedAfter[mainBatches[v]]);
+                finalHeld += finalCounts.get(vehicle.id);
+            }
 
             child.process().destroyForcibly();
             child.process().waitFor(30, TimeUnit.SECONDS);
@@ -335,12 +342,14 @@ class CrashRecoveryTest {
                 t.interrupt();
             }
         }
-        figures.add(0, String.format(Locale.ROOT, "%d SIGKILLs, %d vehicles, %d batches (%d samples): over the"
-                        + " kills %d samples acknowledged, %d recovered; %d requests failed by a kill, %d batches posted"
-                        + " again; %d unacknowledged batches found durable, %d of their samples answered as"
-                        + " duplicates when posted again; %d bytes of torn tail cut",
-                KILLS, VEHICLES, total, totalSamples(vehicles, mainBatches), ackedSum, recoveredSum,
-                interrupted.get(), reposted.get(), inFlightDurable, duplicateSamples.get(), bytesCutSum));
+        figures.add(0, String.format(Locale.ROOT, "%d SIGKILLs, %d vehicles, %d batches (%d samples) posted by"
+                        + " %d threads. Summed over the %d restarts: %d samples acknowledged before the kill, %d of them"
+                        + " recovered. %d requests failed by a kill, %d batches posted again, %d unacknowledged batches"
+                        + " found durable (%d of their samples answered as duplicates when posted again), %d bytes of"
+                        + " torn tail cut. At the end: %d of %d samples held, poses and tracks byte-identical.",
+                KILLS, VEHICLES, total, totalSamples(vehicles, mainBatches), VEHICLES, KILLS, ackedSum, recoveredSum,
+                interrupted.get(), reposted.get(), inFlightDurable, duplicateSamples.get(), bytesCutSum,
+                finalHeld, totalSamples(vehicles, mainBatches)));
         Files.createDirectories(Path.of("target"));
         Files.write(Path.of("target", "crash-recovery-figures.txt"), figures);
     }
