@@ -50,6 +50,9 @@ public final class VehicleSession {
     private static final int SNAPSHOT_FORMAT = 3;
 
     private double epochT = Double.NaN;
+    /** Time of the newest pose given to listeners (s, vehicle clock); not part of the state. */
+    private double emittedUpToT = Double.NEGATIVE_INFINITY;
+    private Pose lastEmitted;
     private volatile Pose latest;
     private volatile long version;
     private final long[] appliedByType = new long[4];
@@ -93,6 +96,7 @@ public final class VehicleSession {
         }
         List<Admission> result = ordering.submit(samples);
         refreshLatest();
+        notifyListeners();
         return result;
     }
 
@@ -104,7 +108,39 @@ public final class VehicleSession {
         version++;
     }
 
-    /** Registers a listener called with every pose added to the history (from the writer's thread). */
+    /**
+     * Gives listeners the history's poses that are new since the last call, oldest first, once each and
+     * never going back in time. Re-filtering after a late sample re-creates poses (identical before the
+     * late sample's time, corrected after it) inside a batch; listeners see only the final pose of each
+     * instant, and a pose of the last instant they saw again only if it changed (a fix sent after the
+     * inputs of its own time). The corrected past is in the history.
+     */
+    private void notifyListeners() {
+        if (history.isEmpty()) {
+            return;
+        }
+        if (listeners.isEmpty()) {
+            // A listener that registers later starts from what is new then.
+            lastEmitted = history.newest();
+            emittedUpToT = lastEmitted.t();
+            return;
+        }
+        for (Pose p : history.between(emittedUpToT, Double.POSITIVE_INFINITY)) {
+            if (p.t() == emittedUpToT && p.equals(lastEmitted)) {
+                continue;
+            }
+            for (Consumer<Pose> l : listeners) {
+                l.accept(p);
+            }
+            lastEmitted = p;
+            emittedUpToT = p.t();
+        }
+    }
+
+    /**
+     * Registers a listener called, from the writer's thread at the end of each batch, with the poses the
+     * batch added to the history (see {@link #notifyListeners}).
+     */
     public void addListener(Consumer<Pose> listener) {
         listeners.add(listener);
     }
@@ -274,9 +310,7 @@ public final class VehicleSession {
                 Pose pose = assembler.assemble(filter.snapshot(), epochT, frame);
                 history.add(pose);
                 lastHistoryTRel = tRel;
-                for (Consumer<Pose> l : listeners) {
-                    l.accept(pose);
-                }
+
             }
         }
 
