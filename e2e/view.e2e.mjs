@@ -4,11 +4,18 @@
 // stream at laptop size, one at wall-display size in large type with EventSource removed so that it
 // must poll), and checks what a person watching would see: the vehicle appears, its state text turns to
 // "bridging" inside a tunnel and back to "aided" after it, the dead-reckoned stretch and the 95 % ellipse
-// are drawn, no console errors, no request leaves the service. Screenshots go to the --out folder.
+// are drawn, the time since the last fix grows with the vehicle clock inside the tunnel, fix markers are
+// drawn (accepted ones, the pending ones right after a tunnel exit, a gated outlier), the 95 % radius is
+// shown against the 10 m alert limit, no console errors, no request leaves the service. Screenshots go
+// to the --out folder.
 // Prints one line per check and a closing line "e2e: N passed, N failed"; exits 1 when any check failed.
 //
 // Tunnel times come from sample-logs/README.md (the generator's settings for two-tunnels: a 30 s tunnel
-// 135.9-165.9 s and a 90 s tunnel 225.9-315.9 s after the first sample). At 20x the first tunnel begins
+// 135.9-165.9 s and a 90 s tunnel 225.9-315.9 s after the first sample). The same README says the fixes
+// of the first 2 s after each exit are 5-15 m off; with the default gating.reacquire_fixes (4) the filter
+// holds the fixes after a gap as pending until four agree, so pending markers must appear within a few
+// seconds of each exit. The log has about one 20-40 m outlier every two minutes, which the 99.9 % gate
+// rejects, so a gated marker must appear at some time in the drive. At 20x the first tunnel begins
 // about 7 s after the replay does; a page must be showing poses before a tunnel begins to watch it. On
 // a machine so loaded that neither tunnel could be watched, the run is repeated once and says so.
 
@@ -34,6 +41,10 @@ const TUNNELS = [[135.9, 165.9], [225.9, 315.9]];
 const DRIVE_S = 360;
 /** The issue's limit on the page's weight (bytes). */
 const PAGE_LIMIT_BYTES = 300 * 1024;
+/** Default outage.alert_limit_m (config/wayhold.yaml), which the replay runs with (m). */
+const ALERT_LIMIT_M = 10;
+/** Vehicle time after a tunnel exit within which the held-back (pending) fixes fall (s; README: 2 s of multipath, then 4 agreeing fixes at 5 Hz). */
+const PENDING_WITHIN_S = 5;
 /** Chromium flags for this closed network (see the machine notes): no background traffic at all. */
 const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking',
   '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'];
@@ -81,12 +92,27 @@ function startService() {
   return { ready, stop };
 }
 
-/** Test-side recorder (not part of the page): logs every change of the state text. */
+/**
+ * Test-side recorder (not part of the page): logs every change of the state text, and every redraw of
+ * the "since last fix" value with the list's cell for the selected vehicle and the pose time shown.
+ */
 const RECORDER = () => {
   window.__states = [];
+  window.__since = [];
   const watch = () => {
     const el = document.getElementById('state-text');
     if (!el) return false;
+    const since = document.getElementById('v-sincefix');
+    new MutationObserver(() => {
+      if (window.__since.length >= 20000) return;
+      const cell = document.querySelector('#vehicle-rows tr[aria-selected="true"] td.since');
+      window.__since.push({
+        t: Number(el.dataset.t),
+        state: el.textContent,
+        value: since.firstChild ? since.firstChild.nodeValue : '',
+        list: cell ? cell.textContent : '',
+      });
+    }).observe(since, { childList: true, characterData: true, subtree: true });
     const note = () => {
       const last = window.__states[window.__states.length - 1];
       const state = el.textContent;
@@ -108,6 +134,14 @@ const RECORDER = () => {
  * Waits until the recorded states hold `state` at a vehicle time of at least `minT`, after index `from`;
  * returns that entry's index.
  */
+/** Seconds from the page's duration text ("12.3 s", "2 min 05 s"); NaN for anything else. */
+function durationS(text) {
+  let m = /^(\d+(?:\.\d+)?) s$/.exec(text);
+  if (m) return Number(m[1]);
+  m = /^(\d+) min (\d+) s$/.exec(text);
+  return m ? Number(m[1]) * 60 + Number(m[2]) : NaN;
+}
+
 async function waitForState(page, state, from, minT, timeoutMs) {
   const handle = await page.waitForFunction(([s, i, t]) => {
     const k = window.__states.findIndex((e, j) => j > i && e.state === s && e.t >= t);
@@ -184,6 +218,27 @@ async function attempt(browser, t0, shots) {
     const streaming = await live.page.waitForFunction(() => /pose stream/.test(document.getElementById('link').textContent),
       null, { timeout: 5000 }).then(() => true, () => false);
     check('the live page reads the pose stream', streaming, `link text: ${await live.page.textContent('#link')}`);
+    // Fix markers: the fixes the filter accepted are drawn beside the track, and the legend counts them.
+    const accepted = await live.page.waitForFunction(() => {
+      const path = document.querySelector('#g-fixes-used path.fx-accepted');
+      return path && Number(path.dataset.count) > 0 && Number(document.getElementById('n-accepted').textContent) > 0
+        ? path.dataset.count : false;
+    }, null, { timeout: 15000, polling: 100 }).then((h) => h.jsonValue(), () => null);
+    check('accepted fixes are drawn as markers and counted in the legend', accepted, `accepted in the window: ${accepted}`);
+    // A gated outlier may come at any time of the drive: watch for its marker from now on.
+    const gatedSeen = live.page.waitForFunction(() => {
+      const mark = document.querySelector('#g-fixes .fx-gated');
+      return mark ? { t: Number(mark.dataset.t), title: mark.textContent, legend: document.getElementById('n-gated').textContent } : false;
+    }, null, { timeout: driveLeftMs(), polling: 100 }).then((h) => h.jsonValue(), () => null);
+    // The 95 % radius against the alert limit, in words and on the gauge.
+    for (const [label, p] of [['stream', live], ['polling', polled]]) {
+      const limit = await p.page.waitForFunction(() => {
+        const text = document.getElementById('v-limit').textContent;
+        return /^r95 \d+\.\d m of \d+ m limit$/.test(text) ? { text, max: document.getElementById('limit-gauge').getAttribute('aria-valuemax') } : false;
+      }, null, { timeout: 15000, polling: 100 }).then((h) => h.jsonValue(), () => null);
+      check(`${label}: the 95 % radius is shown against the ${ALERT_LIMIT_M} m alert limit`,
+        limit && limit.text.endsWith(`of ${ALERT_LIMIT_M} m limit`) && limit.max === String(ALERT_LIMIT_M), JSON.stringify(limit));
+    }
     if (shots) await live.page.screenshot({ path: join(OUT, '01-laptop-start.png') });
 
     // 2. Inside a tunnel the state text turns to "bridging", then back to "aided" after it and before
@@ -216,6 +271,17 @@ async function attempt(browser, t0, shots) {
       } catch (e) {
         // Reported below from what was recorded.
       }
+      // Fixes are fetched every second on their own: give the pending ones after the exit that long
+      // and more (they stay in the 3 min track window long after).
+      const exitT = t0 + tunnel[1];
+      const pending = await p.page.waitForFunction(([from, to]) => {
+        const marks = [...document.querySelectorAll('#g-fixes .fx-pending')].map((m) => Number(m.dataset.t));
+        const after = marks.filter((t) => t >= from && t <= to);
+        return after.length ? { n: after.length, legend: document.getElementById('n-pending').textContent } : false;
+      }, [exitT, exitT + PENDING_WITHIN_S], { timeout: Math.min(driveLeftMs(), 20000), polling: 100 })
+        .then((h) => h.jsonValue(), () => null);
+      check(`${label}: pending fixes after the exit of ${`tunnel ${k + 1}`} are drawn as their own markers`,
+        pending && pending.n > 0 && Number(pending.legend) >= pending.n, JSON.stringify(pending));
       const states = await p.page.evaluate(() => window.__states);
       const seen = states.filter((e) => e.t > 0).map((e) => `${e.state}@${rel(e)}`).join(' ');
       const nextStart = k + 1 < TUNNELS.length ? TUNNELS[k + 1][0] : DRIVE_S;
@@ -228,6 +294,22 @@ async function attempt(browser, t0, shots) {
         b && b.shape === '#shape-bridging' && drawn, `${JSON.stringify(b)}, stretch drawn: ${drawn}`);
       check(`${label}: state text returns to 'aided' after ${name} and before ${k + 1 < TUNNELS.length ? 'the next one' : 'the end'}`,
         a && a.t - t0 >= tunnel[1] && a.t - t0 < nextStart, `aided again at ${rel(a)}; seen: ${seen}`);
+      if (label === 'stream') {
+        // The stream page redraws with (nearly) every pose, so it sees the timer run: inside the tunnel
+        // the time since the last fix, in the values and in the list, grows as the vehicle clock does
+        // (to within the 0.1 s the text shows, twice), and nothing resets it.
+        const inside = (await p.page.evaluate(() => window.__since))
+          .filter((e) => e.state === 'bridging' && e.t - t0 >= tunnel[0] && e.t - t0 <= tunnel[1])
+          .map((e) => ({ t: e.t, value: durationS(e.value), list: durationS(e.list) }));
+        const first = inside[0];
+        const last = inside[inside.length - 1];
+        const span = last && first ? last.t - first.t : 0;
+        const grows = (key) => inside.length >= 2 && span >= 3 && Math.abs(last[key] - first[key] - span) <= 0.25
+          && inside.every((e, i) => i === 0 || e[key] >= inside[i - 1][key]) && first[key] >= 1;
+        check(`${label}: inside ${name} the time since the last fix grows with the vehicle clock, in the values and the list`,
+          grows('value') && grows('list'),
+          `${inside.length} redraws over ${span.toFixed(1)} s; first ${JSON.stringify(first)}, last ${JSON.stringify(last)}`);
+      }
     }
     await Promise.all([
       tunnelChecks('stream', live, '02-laptop'),
@@ -249,6 +331,10 @@ async function attempt(browser, t0, shots) {
       await live.page.waitForTimeout(400);
       await live.page.screenshot({ path: join(OUT, '07-narrow-end.png'), fullPage: true });
     }
+
+    const gated = await gatedSeen;
+    check('a gated fix (an outlier the gate rejected) is drawn as its own marker with a tooltip',
+      gated && /^gated fix/.test(gated.title) && Number(gated.legend) >= 1, JSON.stringify(gated));
 
     // 4. Quiet console, nothing outside the service, no failed requests, a light page.
     const errors = [...live.errors, ...polled.errors];
@@ -285,7 +371,7 @@ async function main() {
   let failed = 0;
   for (const r of run.results) {
     if (!r.ok) failed++;
-    console.log(`${r.ok ? 'ok' : 'not ok'} - ${r.name}${!r.ok && r.detail ? ` (${r.detail})` : ''}`);
+    console.log(`${r.ok ? 'ok' : 'not ok'} - ${r.name}${(!r.ok || TRACE) && r.detail ? ` (${r.detail})` : ''}`);
   }
   console.log(`screenshots in ${OUT}; ran ${((Date.now() - started) / 1000).toFixed(1)} s`);
   console.log(`e2e: ${run.results.length - failed} passed, ${failed} failed`);

@@ -1,7 +1,8 @@
 // wayhold live view: vehicles, the selected vehicle's recent track in local ENU metres, and its current
 // values. Data comes only from this service: the pose stream (Server-Sent Events) while it is open, and
-// polling of the latest pose with its ETag when it is not. Units follow the pose JSON: metres, seconds,
-// degrees clockwise from north for heading and ellipse orientation, rad/s for the gyro bias.
+// polling of the latest pose with its ETag when it is not; the received GNSS fixes with the filter's
+// decision on each are polled on their own. Units follow the pose JSON: metres, seconds, degrees
+// clockwise from north for heading and ellipse orientation, rad/s for the gyro bias.
 'use strict';
 
 (() => {
@@ -21,6 +22,30 @@
   const PLOT_PERIOD_MS = 150;
   /** A pose older than this on the wall clock marks the view as stale (ms). */
   const STALE_MS = 10000;
+  /** Vehicle time of the fixes shown in the close-up (s). */
+  const CLOSEUP_FIX_S = 10;
+  /** How often the selected vehicle's new fixes are fetched (ms). */
+  const FIX_PERIOD_MS = 1000;
+  /**
+   * Each fetch of fixes starts this long before the newest fix held (s). A late sample makes the
+   * service re-filter, and re-decide, the fixes of the last ordering.max_lag_s (2 s by default), so
+   * that stretch is fetched again and replaces what the page held.
+   */
+  const FIX_OVERLAP_S = 3;
+  /** Smallest on-screen spacing of fixes the filter used (CSS px, before large type); others are all drawn. */
+  const FIX_SPACING_PX = 10;
+  /** Fix outcomes, as the service names them, in drawing order (rarer, more telling ones on top). */
+  const OUTCOMES = ['accepted', 'initializing', 'reacquired', 'unusable', 'pending', 'gated'];
+  /** Outcomes that corrected or started the estimate: many, so thinned on screen. */
+  const USED = new Set(['accepted', 'initializing', 'reacquired']);
+  const OUTCOME_TEXT = {
+    accepted: 'accepted fix',
+    initializing: 'fix used to start',
+    reacquired: 'fix reacquired after a gap',
+    pending: 'pending fix (held back after a gap)',
+    gated: 'gated fix (rejected by the chi-square gate)',
+    unusable: 'fix without a position solution',
+  };
 
   const STATES = ['initializing', 'aided', 'degraded', 'bridging', 'unreliable'];
   const STATE_HELP = {
@@ -41,6 +66,9 @@
     vehicles: new Map(), // id -> { summary, pose, etag, row }
     selected: null,
     track: [], // poses of the selected vehicle, time-ordered
+    fixes: [], // fixes of the selected vehicle with the filter's decisions, time-ordered
+    fixGen: 0, // bumped whenever the held fixes are dropped, so that a fetch in flight is ignored
+    fixBusy: false,
     latest: null,
     latestAtMs: 0,
     windowS: 180,
@@ -91,10 +119,24 @@
     return `t = ${t.toFixed(1)} s`;
   }
 
+  /** Vehicle-clock seconds from the last fix that corrected the estimate to the pose; NaN before one. */
+  function sinceFixS(pose) {
+    if (!pose || !Number.isFinite(pose.t) || !Number.isFinite(pose.last_fix_t)) return NaN;
+    return Math.max(0, pose.t - pose.last_fix_t);
+  }
+
+  /** "0.2 s", "48.6 s", "2 min 05 s". */
+  function durationText(s) {
+    if (!Number.isFinite(s)) return '–';
+    if (s < 100) return `${s.toFixed(1)} s`;
+    const whole = Math.floor(s);
+    return `${Math.floor(whole / 60)} min ${String(whole % 60).padStart(2, '0')} s`;
+  }
+
   function sinceFixText(pose) {
-    if (!pose || !pose.outage) return '–';
-    if (pose.outage.active) return `${num(pose.outage.seconds, 1)} s`;
-    return pose.state === 'initializing' ? '–' : 'fresh';
+    if (!pose) return '–';
+    const s = sinceFixS(pose);
+    return Number.isFinite(s) ? durationText(s) : 'no fix yet';
   }
 
   function chip(state) {
@@ -222,7 +264,7 @@
       const tdState = document.createElement('td');
       tdState.append(chip(state));
       const tdSince = document.createElement('td');
-      tdSince.className = 'num';
+      tdSince.className = 'num since';
       tdSince.textContent = pose ? sinceFixText(pose) : (v.summary.outage_active ? 'outage' : '–');
       const tdRadius = document.createElement('td');
       tdRadius.className = 'num';
@@ -242,6 +284,7 @@
     stopPolling();
     view.selected = id;
     view.track = [];
+    dropFixes();
     view.latest = null;
     view.latestAtMs = 0;
     view.pollEtag = null;
@@ -250,6 +293,7 @@
       history.replaceState(null, '', '#vehicle=' + encodeURIComponent(id));
       openStream(id);
       loadTrack(id, view.selectGen);
+      fetchFixes();
     }
     updateLink();
     renderList();
@@ -272,6 +316,53 @@
     } catch (e) {
       // A gap in the drawn history is acceptable; live poses keep arriving.
     }
+  }
+
+  // ---------- selected vehicle: fixes ----------
+
+  function dropFixes() {
+    view.fixes = [];
+    view.fixGen++;
+  }
+
+  /**
+   * Fetches the fixes since the newest one held (less FIX_OVERLAP_S), or the whole track window when
+   * none is held, and replaces the held ones from the start of the fetched stretch on.
+   */
+  async function fetchFixes() {
+    const id = view.selected;
+    if (!id || view.fixBusy) return;
+    const gen = view.selectGen;
+    const fixGen = view.fixGen;
+    let from;
+    if (view.fixes.length) {
+      from = view.fixes[view.fixes.length - 1].t - FIX_OVERLAP_S;
+    } else {
+      const v = view.vehicles.get(id);
+      const t = view.latest ? view.latest.t : v && v.summary ? v.summary.t : null;
+      if (!Number.isFinite(t)) return; // no pose yet: nothing to draw fixes beside
+      from = t - view.windowS;
+    }
+    view.fixBusy = true;
+    try {
+      const r = await getJson(`${vehiclePath(id)}/fixes?from=${encodeURIComponent(from.toFixed(3))}`);
+      if (gen !== view.selectGen || fixGen !== view.fixGen || r.status !== 200) return;
+      mergeFixes(from, r.body.fixes || []);
+    } catch (e) {
+      // The next period tries again from the same fix.
+    } finally {
+      view.fixBusy = false;
+    }
+  }
+
+  function mergeFixes(from, fetched) {
+    const kept = view.fixes.filter((f) => f.t < from);
+    for (const f of fetched) {
+      if (Number.isFinite(f.t) && f.t >= from && Number.isFinite(f.east) && Number.isFinite(f.north)) kept.push(f);
+    }
+    view.fixes = kept;
+    trimTrack();
+    schedulePlot();
   }
 
   function openStream(id) {
@@ -386,12 +477,16 @@
     scheduleRender();
   }
 
+  /** Drops poses, and fixes, older than the track window. */
   function trimTrack() {
     if (!view.latest) return;
     const from = view.latest.t - view.windowS;
     let drop = 0;
     while (drop < view.track.length && view.track[drop].t < from) drop++;
     if (drop) view.track.splice(0, drop);
+    drop = 0;
+    while (drop < view.fixes.length && view.fixes[drop].t < from) drop++;
+    if (drop) view.fixes.splice(0, drop);
   }
 
   // ---------- rendering ----------
@@ -447,8 +542,9 @@
     text.dataset.t = p ? String(p.t) : '';
     $('state-help').textContent = view.selected ? STATE_HELP[st] : 'Select a vehicle.';
     if (!p) {
-      for (const id of ['v-latlon', 'v-enu', 'v-heading', 'v-speed', 'v-bias', 'v-scale', 'v-outage', 'v-meters', 'v-radius', 'v-time']) setValue(id, '–');
+      for (const id of ['v-latlon', 'v-enu', 'v-heading', 'v-speed', 'v-bias', 'v-scale', 'v-sincefix', 'v-meters', 'v-radius', 'v-time']) setValue(id, '–');
       $('v-ellipse').textContent = '';
+      renderLimit(NaN, NaN);
       renderCloseup(null);
       return;
     }
@@ -462,19 +558,59 @@
     setValue('v-scale', num(p.speed_scale, 4), '', Number.isFinite(p.speed_scale) ? `${signed((p.speed_scale - 1) * 100, 2)} % from 1` : '');
     const o = p.outage || {};
     const starting = p.state === 'initializing';
-    if (o.active) {
-      setValue('v-outage', num(o.seconds, 1), 's', Number.isFinite(o.since) ? `last usable fix ${shortClock(o.since)}` : '');
-      setValue('v-meters', num(o.meters, 1), 'm');
+    const since = sinceFixS(p);
+    if (Number.isFinite(since)) {
+      // The vehicle clock below says whether times are UTC; this line has no room to repeat it.
+      setValue('v-sincefix', durationText(since), '', `fix ${shortClock(p.last_fix_t).replace(/ UTC$/, '')}`);
     } else {
-      setValue('v-outage', starting ? '–' : 'none', '', starting ? '' : 'usable fixes arriving');
+      setValue('v-sincefix', 'no fix yet', '', 'no fix has corrected the estimate');
+    }
+    if (o.active) {
+      setValue('v-meters', num(o.meters, 1), 'm', Number.isFinite(o.seconds) ? `outage for ${durationText(o.seconds)}` : '');
+    } else {
       setValue('v-meters', starting ? '–' : '0', starting ? '' : 'm');
     }
     const e = p.ellipse95 || {};
     const radius = Number.isFinite(p.radius95) ? p.radius95 : e.semi_major;
     setValue('v-radius', num(radius, 2), 'm');
-    $('v-ellipse').textContent = `ellipse ${num(e.semi_major, 2)} × ${num(e.semi_minor, 2)} m, long axis ${num(e.orientation_deg, 0)}° from north`;
+    renderLimit(radius, p.alert_limit);
+    $('v-ellipse').textContent = `ellipse ${num(e.semi_major, 1)} × ${num(e.semi_minor, 1)} m at ${num(e.orientation_deg, 0)}°`;
+    $('v-ellipse').title = `95 % ellipse: semi-axes ${num(e.semi_major, 2)} m and ${num(e.semi_minor, 2)} m, long axis ${num(e.orientation_deg, 0)}° clockwise from north`;
     renderAge();
     renderCloseup(p);
+  }
+
+  /**
+   * The 95 % radius against the alert limit, in words and as a bar: the bar runs to 1.5 times the
+   * limit, with the limit marked, so that a radius past it still shows how far past. Past the limit
+   * the fill is striped and the words say so: never colour alone.
+   */
+  function renderLimit(radiusM, limitM) {
+    const gauge = $('limit-gauge');
+    const fill = $('gauge-fill');
+    const status = $('v-limit-status');
+    if (!Number.isFinite(radiusM) || !Number.isFinite(limitM) || limitM <= 0) {
+      $('v-limit').textContent = Number.isFinite(radiusM) ? 'alert limit not given' : '–';
+      status.textContent = '';
+      gauge.hidden = true;
+      return;
+    }
+    const limitText = limitM >= 10 ? limitM.toFixed(0) : String(Number(limitM.toFixed(1)));
+    const share = radiusM / limitM;
+    const over = share > 1;
+    $('v-limit').textContent = `r95 ${radiusM.toFixed(1)} m of ${limitText} m limit`;
+    status.textContent = over ? `past the limit by ${(radiusM - limitM).toFixed(1)} m`
+      : `within the limit (${Math.round(share * 100)} %)`;
+    status.dataset.over = String(over);
+    gauge.hidden = false;
+    gauge.dataset.over = String(over);
+    gauge.setAttribute('aria-valuemax', limitText);
+    gauge.setAttribute('aria-valuenow', radiusM.toFixed(1));
+    gauge.setAttribute('aria-valuetext', `${radiusM.toFixed(1)} m of ${limitText} m`);
+    const full = 1.5; // the bar's length in alert limits
+    fill.style.width = `${(Math.min(share, full) / full * 100).toFixed(1)}%`;
+    $('gauge-mark').style.left = `${(100 / full).toFixed(1)}%`;
+    $('gauge-mark').dataset.label = `${limitText} m`;
   }
 
   /** "at 09:02:16.3 UTC" for epoch-like times, else "at t = 1234.5 s". */
@@ -521,6 +657,10 @@
       prev = pt;
     }
     for (const kind in d) parts.push(el('path', { class: `seg seg-${kind}`, d: d[kind] }));
+    // Fixes of the last CLOSEUP_FIX_S seconds that fall in the box, all of them (no thinning here).
+    const near = view.fixes.filter((f) => f.t > p.t - CLOSEUP_FIX_S && f.t <= p.t
+      && Math.abs(f.east - p.east) < halfM * 1.1 && Math.abs(f.north - p.north) < halfM * 1.1);
+    parts.push(...fixEls(near, X, Y, 4, 0));
     const ell = ellipseEl(p, X, Y, s, 'ell-now');
     ell.dataset.state = knownState(p.state);
     parts.push(ell);
@@ -568,11 +708,14 @@
     const gGrid = $('g-grid');
     const gEll = $('g-ellipses');
     const gTrack = $('g-track');
+    const gFixes = $('g-fixes');
+    const gFixesUsed = $('g-fixes-used');
     const gNow = $('g-now');
     const gFrame = $('g-frame');
     $('plot-empty').hidden = pts.length > 0;
     if (!pts.length || w < 10 || h < 10) {
-      for (const g of [gGrid, gEll, gTrack, gNow, gFrame]) g.replaceChildren();
+      for (const g of [gGrid, gEll, gTrack, gFixes, gFixesUsed, gNow, gFrame]) g.replaceChildren();
+      renderFixCounts([]);
       return;
     }
     const scaleUi = parseFloat(getComputedStyle(document.documentElement).getPropertyValue('--scale')) || 1;
@@ -590,6 +733,18 @@
     }
     minE = Math.min(minE, now.east - reach); maxE = Math.max(maxE, now.east + reach);
     minN = Math.min(minN, now.north - reach); maxN = Math.max(maxN, now.north + reach);
+    // Fixes beside the track widen the view too, by at most a quarter of the track's span, so that an
+    // outlier kilometres off does not shrink the track to a dot (it is counted in the legend anyway).
+    const fixes = fixesInSpan(pts[0].t, now.t);
+    const grow = Math.max(maxE - minE, maxN - minN, MIN_SPAN_M) / 4;
+    const [e0, e1, n0, n1] = [minE - grow, maxE + grow, minN - grow, maxN + grow];
+    for (const f of fixes) {
+      if (f.east < e0 || f.east > e1 || f.north < n0 || f.north > n1) continue;
+      if (f.east < minE) minE = f.east;
+      if (f.east > maxE) maxE = f.east;
+      if (f.north < minN) minN = f.north;
+      if (f.north > maxN) maxN = f.north;
+    }
     const margin = 44 * scaleUi;
     const spanE = Math.max(maxE - minE, MIN_SPAN_M);
     const spanN = Math.max(maxN - minN, MIN_SPAN_M);
@@ -660,6 +815,12 @@
     }
     gTrack.replaceChildren(...track);
     gEll.replaceChildren(...ellipses);
+    // Fixes the filter used go beneath the track line (they lie on it, and the line's style tells the
+    // state); the others above it.
+    const fixMarks = fixEls(fixes, X, Y, 3.2 * scaleUi, FIX_SPACING_PX * scaleUi);
+    gFixesUsed.replaceChildren(...fixMarks.filter((m) => USED.has(m.dataset.outcome)));
+    gFixes.replaceChildren(...fixMarks.filter((m) => !USED.has(m.dataset.outcome)));
+    renderFixCounts(fixes);
 
     // Now: the 95 % ellipse, a heading arrow and a label with the state in words.
     const st = knownState(now.state);
@@ -709,6 +870,78 @@
     frame.push(el('path', { class: 'scalebar', d: `M${f1(bx)} ${f1(by - 6)}V${f1(by)}H${f1(bx + barPx)}V${f1(by - 6)}` }));
     frame.push(el('text', { class: 'scalebar-text', x: f1(bx + 3), y: f1(by - 8) }, `${barM >= 1 ? barM : barM.toFixed(1)} m`));
     gFrame.replaceChildren(...frame);
+  }
+
+  /** The held fixes from t0 to t1 (s, vehicle clock): those beside the track drawn. */
+  function fixesInSpan(t0, t1) {
+    return view.fixes.filter((f) => f.t >= t0 && f.t <= t1);
+  }
+
+  /**
+   * SVG elements for fixes. Fixes the filter used come five a second and would smear into a band, so
+   * they are drawn in one path per outcome, at least `spacing` px apart on screen; every pending,
+   * gated or unusable fix is drawn, each as its own element with its time and NIS as a tooltip.
+   * Each path carries data-count, the number of fixes of its outcome in the window.
+   */
+  function fixEls(fixes, X, Y, r, spacing) {
+    const d = {};
+    const count = {};
+    const single = [];
+    let last = null;
+    for (const f of fixes) {
+      const outcome = OUTCOMES.includes(f.outcome) ? f.outcome : 'unusable';
+      count[outcome] = (count[outcome] || 0) + 1;
+      const x = X(f.east);
+      const y = Y(f.north);
+      if (USED.has(outcome)) {
+        if (last && Math.hypot(x - last[0], y - last[1]) < spacing) continue;
+        last = [x, y];
+        d[outcome] = (d[outcome] || '') + fixMarker(outcome, x, y, r);
+      } else {
+        const mark = el('path', { class: `fx fx-${outcome}`, d: fixMarker(outcome, x, y, r), 'data-t': String(f.t), 'data-outcome': outcome });
+        const nis = Number.isFinite(f.nis) ? `, NIS ${f.nis.toFixed(1)}` : '';
+        mark.append(el('title', {}, `${OUTCOME_TEXT[outcome]}, ${shortClock(f.t)}${nis}`));
+        single.push(mark);
+      }
+    }
+    const out = [];
+    for (const outcome of OUTCOMES) {
+      if (d[outcome]) out.push(el('path', { class: `fx fx-${outcome}`, d: d[outcome], 'data-count': String(count[outcome]), 'data-outcome': outcome }));
+    }
+    return out.concat(single);
+  }
+
+  /** Fix marker shapes: circle, circle with a dot, diamond, square, boxed X, bar (see the legend). */
+  function fixMarker(outcome, x, y, r) {
+    const circle = (rr) => `M${f1(x - rr)} ${f1(y)}a${f1(rr)} ${f1(rr)} 0 1 0 ${f1(2 * rr)} 0a${f1(rr)} ${f1(rr)} 0 1 0 ${f1(-2 * rr)} 0Z`;
+    switch (outcome) {
+      case 'accepted':
+        return circle(r);
+      case 'reacquired':
+        return circle(r * 1.2) + circle(0.4);
+      case 'initializing':
+        return `M${f1(x)} ${f1(y - r * 1.3)}L${f1(x + r * 1.3)} ${f1(y)}L${f1(x)} ${f1(y + r * 1.3)}L${f1(x - r * 1.3)} ${f1(y)}Z`;
+      case 'pending':
+        return `M${f1(x - r)} ${f1(y - r)}h${f1(2 * r)}v${f1(2 * r)}h${f1(-2 * r)}Z`;
+      case 'gated': {
+        const g = r * 1.35;
+        return `M${f1(x - g)} ${f1(y - g)}h${f1(2 * g)}v${f1(2 * g)}h${f1(-2 * g)}Z`
+          + `M${f1(x - g)} ${f1(y - g)}L${f1(x + g)} ${f1(y + g)}M${f1(x + g)} ${f1(y - g)}L${f1(x - g)} ${f1(y + g)}`;
+      }
+      default:
+        return `M${f1(x - r * 1.3)} ${f1(y)}H${f1(x + r * 1.3)}`;
+    }
+  }
+
+  /** The legend's counts: fixes of each outcome beside the drawn track. */
+  function renderFixCounts(fixes) {
+    const count = {};
+    for (const f of fixes) count[f.outcome] = (count[f.outcome] || 0) + 1;
+    for (const outcome of OUTCOMES) {
+      const n = $('n-' + outcome);
+      const text = String(count[outcome] || 0);
+      if (n.textContent !== text) n.textContent = text;
+    }
   }
 
   /** Marker shapes per stretch kind, matching the state shapes: circle, diamond, triangle, cross. */
@@ -774,7 +1007,11 @@
       const grow = Number(sel.value) > view.windowS;
       view.windowS = Number(sel.value);
       trimTrack();
-      if (grow && view.selected && view.latest) loadTrack(view.selected, view.selectGen, view.latest.t - view.windowS);
+      if (grow && view.selected && view.latest) {
+        loadTrack(view.selected, view.selectGen, view.latest.t - view.windowS);
+        dropFixes(); // refetched for the wider window
+        fetchFixes();
+      }
       scheduleRender();
     });
     window.addEventListener('hashchange', () => {
@@ -784,6 +1021,7 @@
     new ResizeObserver(scheduleRender).observe($('plot'));
     refreshList();
     setInterval(refreshList, LIST_PERIOD_MS);
+    setInterval(fetchFixes, FIX_PERIOD_MS);
     setInterval(renderAge, 1000);
   }
 
