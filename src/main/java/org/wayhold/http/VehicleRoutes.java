@@ -223,6 +223,8 @@ final class VehicleRoutes {
                     PoseJson.number(g, "lat", p.latDeg());
                     PoseJson.number(g, "lon", p.lonDeg());
                     PoseJson.number(g, "radius95", p.radius95M());
+                    PoseJson.number(g, "alert_limit", p.alertLimitM());
+                    PoseJson.number(g, "last_fix_t", p.lastFixT());
                     g.writeBooleanField("outage_active", p.outage().active());
                 } else {
                     g.writeNullField("state");
@@ -230,6 +232,8 @@ final class VehicleRoutes {
                     g.writeNullField("lat");
                     g.writeNullField("lon");
                     g.writeNullField("radius95");
+                    g.writeNullField("alert_limit");
+                    g.writeNullField("last_fix_t");
                     g.writeBooleanField("outage_active", false);
                 }
                 g.writeEndObject();
