@@ -6,11 +6,15 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Locale;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
+import org.wayhold.http.BindRule;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
+import org.wayhold.journal.Journal;
+import org.wayhold.journal.SessionJournal;
 import org.wayhold.ingest.NdjsonReader;
 import org.wayhold.ingest.SampleSink;
 import org.wayhold.sample.Sample;
@@ -28,8 +32,17 @@ import picocli.CommandLine.Spec;
  * {@code wayhold serve}: runs the HTTP service until SIGTERM or Ctrl-C, optionally replaying a recorded
  * log into one vehicle so that poses (and an outage) can be watched with no logging rig attached.
  *
+ * <p>Start-up: the journal in {@code --data DIR} is recovered (every session restored, a torn tail
+ * cut) and reported before the connector accepts a request. Every accepted batch and deletion is in the
+ * journal before its reply; snapshots every {@code journal.snapshot_interval_s} bound what a restart
+ * replays.
+ *
+ * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
+ * tokens or {@code --insecure}.
+ *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
- * connector stops accepting and requests in flight get up to ten seconds to finish.
+ * connector stops accepting, requests in flight get up to ten seconds to finish, and a last snapshot
+ * is written.
  */
 @Command(name = "serve", mixinStandardHelpOptions = true,
         description = "Runs the HTTP service (default http://127.0.0.1:8470) until SIGTERM or Ctrl-C.")
@@ -47,6 +60,15 @@ final class ServeCommand implements Callable<Integer> {
 
     @Option(names = "--bind", paramLabel = "ADDR", description = "Address to listen on, overrides server.bind.")
     private String bind;
+
+    @Option(names = "--insecure",
+            description = "Allows a non-loopback --bind without write tokens (anyone reaching it may write).")
+    private boolean insecure;
+
+    @Option(names = "--data", paramLabel = "DIR",
+            description = "Journal of accepted samples; a restart on the same DIR restores every session "
+                    + "(default: ${DEFAULT-VALUE}).")
+    private Path data = Path.of("data");
 
     @Option(names = "--replay", paramLabel = "FILE",
             description = "Replays this NDJSON log (.gz allowed) into one vehicle in scaled real time.")
@@ -70,16 +92,38 @@ final class ServeCommand implements Callable<Integer> {
             throw new ParameterException(spec.commandLine(), "--replay: no such file " + replay);
         }
         Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
         List<Sample> log = replay == null ? List.of() : readLog(replay, out);
 
-        SessionRegistry sessions = new SessionRegistry(settings, null);
-        HttpService service = new HttpService(sessions).start();
+        // Every session is restored before the connector opens: no request sees a half-recovered state.
+        long recoveryStart = System.nanoTime();
+        SessionJournal journal = SessionJournal.open(data, settings, null);
+        printRecovery(out, journal, (System.nanoTime() - recoveryStart) / 1e9);
+        SessionRegistry sessions = journal.sessions();
+        HttpService service;
+        try {
+            service = new HttpService(journal).start();
+        } catch (RuntimeException e) {
+            journal.close();
+            throw e;
+        }
+        journal.startSnapshots();
         out.println("wayhold serving on " + service.baseUrl() + "  (Ctrl-C to stop)");
 
         LogReplay replayer = null;
         Thread replayThread = null;
         if (replay != null) {
-            replayer = new LogReplay(log, speed, batch -> sessions.getOrCreate(vehicle).session().submit(batch));
+            replayer = new LogReplay(log, speed, batch -> sessions.submit(vehicle, batch));
             replayThread = new Thread(replayer, "replay-" + vehicle);
             replayThread.setDaemon(true);
             replayThread.start();
@@ -97,6 +141,13 @@ final class ServeCommand implements Callable<Integer> {
                 finalReplayThread.interrupt();
             }
             service.stop();
+            // After the last request: the final snapshot holds everything, so the next start replays nothing.
+            try {
+                journal.close();
+                out.println("journal: closed with a snapshot of " + sessions.size() + " sessions");
+            } catch (IOException | RuntimeException e) {
+                out.println("journal: closing failed: " + e);
+            }
             out.println("wayhold stopped");
             out.flush();
             stopped.countDown();
@@ -105,15 +156,28 @@ final class ServeCommand implements Callable<Integer> {
         return 0;
     }
 
+    /** One line of what was restored and, when anything was cut or set aside, one line per note. */
+    private void printRecovery(PrintWriter out, SessionJournal journal, double seconds) {
+        Journal.RecoveryReport r = journal.recovery();
+        out.printf(Locale.ROOT, "journal %s: restored %d sessions (%d from the snapshot at record %d, "
+                        + "then %d records with %d samples replayed, %d already in the snapshot), cut %d bytes"
+                        + " in %.3f s%n",
+                data, journal.sessions().size(), r.sessionsFromSnapshot(), r.snapshotFloorSeq(), r.recordsReplayed(),
+                r.samplesReplayed(), r.recordsSkipped(), r.bytesCut(), seconds);
+        for (String note : r.notes()) {
+            out.println("journal: " + note);
+        }
+        out.flush();
+    }
+
     private Settings withOverrides(Settings s) {
         if (port == null && bind == null) {
             return s;
         }
         ServerSettings v = s.server();
-        ServerSettings server = new ServerSettings(port != null ? port : v.port(), bind != null ? bind : v.bind(),
-                v.writeTokens(), v.readTokens(), v.maxBodyBytes(), v.maxLineBytes(), v.maxSamplesPerRequest(),
-                v.maxSessions(), v.maxSamplesPerSecondPerVehicle(), v.corsOrigins(), v.sseKeepAliveS());
-        return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles());
+        ServerSettings server = v.withAddress(port != null ? port : v.port(), bind != null ? bind : v.bind());
+        return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles(),
+                s.journal());
     }
 
     private static List<Sample> readLog(Path file, PrintWriter out) throws IOException {

@@ -23,6 +23,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.GatingSettings;
 import org.wayhold.settings.HistorySettings;
+import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.OrderingSettings;
 import org.wayhold.settings.OutageSettings;
 import org.wayhold.settings.ServerSettings;
@@ -74,7 +75,8 @@ public final class ConfigLoader {
                 root.section("outage", ConfigLoader::outage),
                 root.section("ordering", ConfigLoader::ordering),
                 root.section("history", ConfigLoader::history),
-                root.vehicles("vehicles", ConfigLoader::vehicle));
+                root.vehicles("vehicles", ConfigLoader::vehicle),
+                root.section("journal", ConfigLoader::journal));
     }
 
     private static ServerSettings server(Section s, Function<String, String> env) {
@@ -88,7 +90,9 @@ public final class ConfigLoader {
                 s.integer("max_line_bytes", d.maxLineBytes()),
                 s.integer("max_samples_per_request", d.maxSamplesPerRequest()),
                 s.integer("max_sessions", d.maxSessions()),
+                s.integer("max_vehicle_id_chars", d.maxVehicleIdChars()),
                 s.number("max_samples_per_second_per_vehicle", d.maxSamplesPerSecondPerVehicle()),
+                s.number("rate_burst_s", d.rateBurstS()),
                 s.texts("cors_origins", d.corsOrigins()),
                 s.number("sse_keep_alive_s", d.sseKeepAliveS()));
     }
@@ -144,6 +148,17 @@ public final class ConfigLoader {
         return new HistorySettings(
                 s.number("interval_s", d.intervalS()),
                 s.integer("max_poses", d.maxPoses()));
+    }
+
+    private static JournalSettings journal(Section s) {
+        JournalSettings d = JournalSettings.defaults();
+        return new JournalSettings(
+                s.bool("fsync", d.fsync()),
+                s.number("group_commit_max_s", d.groupCommitMaxS()),
+                s.longInteger("segment_bytes", d.segmentBytes()),
+                s.number("retention_age_s", d.retentionAgeS()),
+                s.longInteger("retention_bytes", d.retentionBytes()),
+                s.number("snapshot_interval_s", d.snapshotIntervalS()));
     }
 
     private static VehicleProfile vehicle(Section s) {
@@ -341,6 +356,17 @@ public final class ConfigLoader {
                 throw wrongType(key, "must be a whole number", v);
             }
             return v.longValue();
+        }
+
+        boolean bool(String key, boolean fallback) {
+            JsonNode v = value(key);
+            if (v == null) {
+                return fallback;
+            }
+            if (!v.isBoolean()) {
+                throw wrongType(key, "must be true or false", v);
+            }
+            return v.booleanValue();
         }
 
         String text(String key, String fallback) {

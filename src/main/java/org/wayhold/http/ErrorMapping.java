@@ -87,11 +87,14 @@ final class ErrorMapping {
     static String titleOf(int status) {
         return switch (status) {
             case 400 -> "Bad request";
+            case 401 -> "Unauthorized";
+            case 403 -> "Forbidden";
             case 404 -> "Not found";
             case 405 -> "Method not allowed";
             case 413 -> "Request body too large";
             case 406 -> "Not acceptable";
             case 415 -> "Unsupported media type";
+            case 429 -> "Too many requests";
             case 503 -> "Service unavailable";
             default -> status >= 500 ? "Server error" : "Request error";
         };
@@ -108,6 +111,7 @@ final class ErrorMapping {
     static void write(Context ctx, HttpProblem p) {
         ctx.attribute(WRITTEN, Boolean.TRUE);
         ctx.status(p.status());
+        p.headers().forEach(ctx::header);
         ctx.header("Cache-Control", "no-store");
         ctx.contentType(PROBLEM_JSON);
         ctx.result(toBytes(p, ctx.path()));

@@ -17,6 +17,7 @@ final class HttpProblem extends RuntimeException {
     private final String type;
     private final String title;
     private final String field;
+    private final java.util.Map<String, String> headers;
 
     /**
      * @param status HTTP status code
@@ -26,11 +27,18 @@ final class HttpProblem extends RuntimeException {
      * @param detail what was wrong with this request, starting with the field name when there is one
      */
     HttpProblem(int status, String slug, String title, String field, String detail) {
+        this(status, slug, title, field, detail, java.util.Map.of());
+    }
+
+    /** As above, with response headers that belong to the problem ({@code Retry-After}, {@code WWW-Authenticate}). */
+    HttpProblem(int status, String slug, String title, String field, String detail,
+                java.util.Map<String, String> headers) {
         super(detail, null, false, false);
         this.status = status;
         this.type = TYPE_BASE + slug;
         this.title = title;
         this.field = field;
+        this.headers = java.util.Map.copyOf(headers);
     }
 
     static HttpProblem invalidParameter(String field, String detail) {
@@ -60,6 +68,43 @@ final class HttpProblem extends RuntimeException {
         return new HttpProblem(503, "unavailable", "Service unavailable", field, detail);
     }
 
+    /**
+     * 401: no usable credentials. RFC 6750 sec. 3: the challenge names the scheme, and {@code error} says
+     * whether a token was sent and not recognised ({@code invalid_token}) or none was sent (no error code).
+     */
+    static HttpProblem unauthorized(String detail, boolean tokenWasSent) {
+        String challenge = tokenWasSent
+                ? "Bearer realm=\"wayhold\", error=\"invalid_token\""
+                : "Bearer realm=\"wayhold\"";
+        return new HttpProblem(401, "unauthorized", "Unauthorized", "Authorization", "Authorization: " + detail,
+                java.util.Map.of("WWW-Authenticate", challenge));
+    }
+
+    /** 403: a recognised token whose scope does not cover the request (RFC 6750 sec. 3.1, insufficient_scope). */
+    static HttpProblem forbidden(String detail) {
+        return new HttpProblem(403, "forbidden", "Forbidden", "Authorization", "Authorization: " + detail,
+                java.util.Map.of("WWW-Authenticate",
+                        "Bearer realm=\"wayhold\", error=\"insufficient_scope\", scope=\"write\""));
+    }
+
+    /** 429 with the whole seconds to wait (RFC 6585 sec. 4; Retry-After as delay-seconds, RFC 9110 sec. 10.2.3). */
+    static HttpProblem tooManyRequests(String field, String detail, long retryAfterS) {
+        return new HttpProblem(429, "too-many-requests", "Too many requests", field, field + ": " + detail,
+                java.util.Map.of("Retry-After", Long.toString(retryAfterS)));
+    }
+
+    /**
+     * The journal could not make a change durable (accepted samples, a deletion). It may be applied in
+     * memory, but the client was not told so and must send the request again (duplicate samples are
+     * ignored). The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4);
+     * the server log has the cause.
+     */
+    static HttpProblem journalUnavailable() {
+        return new HttpProblem(503, "journal-unavailable", "Service unavailable", null,
+                "the change could not be written to the journal, so it is not acknowledged; send the request"
+                        + " again later (the server log has the cause)");
+    }
+
     int status() {
         return status;
     }
@@ -70,6 +115,11 @@ final class HttpProblem extends RuntimeException {
 
     String title() {
         return title;
+    }
+
+    /** Response headers that go with this problem. */
+    java.util.Map<String, String> headers() {
+        return headers;
     }
 
     /** The request field at fault, or null. */

@@ -1,17 +1,22 @@
 package org.wayhold.http;
 
+import com.fasterxml.jackson.core.JsonGenerator;
 import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
 import io.javalin.http.staticfiles.Location;
 import io.javalin.router.Endpoint;
+import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
+import java.util.Optional;
 import org.eclipse.jetty.server.handler.GracefulHandler;
+import org.wayhold.journal.Journal;
+import org.wayhold.journal.SessionJournal;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.settings.ServerSettings;
 
@@ -30,9 +35,11 @@ public final class HttpService implements AutoCloseable {
 
     private final ServerSettings server;
     private final SessionRegistry sessions;
+    private final Optional<SessionJournal> journal;
     private final PoseStreams streams;
     private final ServiceMetrics metrics;
     private final byte[] openApiYaml;
+    private final BearerTokens tokens;
     private final List<String> routes = Collections.synchronizedList(new ArrayList<>());
     private final Javalin app;
     private final long startedNanos = System.nanoTime();
@@ -41,13 +48,29 @@ public final class HttpService implements AutoCloseable {
      * @param sessions the vehicle sessions; their settings' {@code server} section configures this service
      */
     public HttpService(SessionRegistry sessions) {
+        this(sessions, Optional.empty());
+    }
+
+    /**
+     * A service whose sessions are kept in a journal: writes are acknowledged once durable, and
+     * {@code /health} shows the journal's state and what the last start recovered.
+     */
+    public HttpService(SessionJournal journal) {
+        this(journal.sessions(), Optional.of(journal));
+    }
+
+    private HttpService(SessionRegistry sessions, Optional<SessionJournal> journal) {
         this.server = sessions.settings().server();
         this.sessions = sessions;
+        this.journal = journal;
         this.streams = new PoseStreams(server.sseKeepAliveS());
         this.metrics = new ServiceMetrics(sessions, streams);
         this.openApiYaml = readOpenApi();
         sessions.addRemovalListener(streams::closeVehicle);
-        SampleIngest ingest = new SampleIngest(sessions, server, metrics);
+        IngestRate rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
+        sessions.addRemovalListener(rate::forget);
+        this.tokens = new BearerTokens(server);
+        SampleIngest ingest = new SampleIngest(sessions, server, metrics, rate);
         VehicleRoutes vehicles = new VehicleRoutes(sessions, ingest, streams);
         this.app = Javalin.create(config -> configure(config, vehicles));
     }
@@ -65,7 +88,11 @@ public final class HttpService implements AutoCloseable {
             s.setStopTimeout(STOP_TIMEOUT_MS);
         });
         config.events.serverStopping(streams::closeAll);
-        config.events.handlerAdded(h -> routes.add(h.getHttpMethod().name() + " " + h.getPath()));
+        config.events.handlerAdded(h -> {
+            if (h.getHttpMethod().isHttpMethod()) {
+                routes.add(h.getHttpMethod().name() + " " + h.getPath());
+            }
+        });
         if (!server.corsOrigins().isEmpty()) {
             config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
                 for (String origin : server.corsOrigins()) {
@@ -83,6 +110,7 @@ public final class HttpService implements AutoCloseable {
 
         config.staticFiles.add("/web", Location.CLASSPATH);
         ErrorMapping.install(config.routes);
+        config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
         config.routes.get("/v1/vehicles/{vehicle}/track", vehicles::getTrack);
@@ -96,12 +124,55 @@ public final class HttpService implements AutoCloseable {
         config.routes.get("/openapi.yaml", ctx -> ctx.contentType("application/yaml").result(openApiYaml));
     }
 
+    /**
+     * Liveness, and with a journal an admin view of it: whether it still writes, what the last start
+     * restored and cut, and the snapshots. {@code status} is {@code degraded} once the journal has
+     * failed (writes are then refused with 503 until a restart).
+     */
     private void health(Context ctx) {
         ctx.header("Cache-Control", "no-store");
         ctx.contentType("application/json");
-        ctx.result(String.format(java.util.Locale.ROOT,
-                "{\"status\":\"ok\",\"sessions\":%d,\"streams\":%d,\"uptime_s\":%.3f}",
-                sessions.size(), streams.openCount(), (System.nanoTime() - startedNanos) / 1e9));
+        Optional<SessionJournal.Status> j = journal.map(SessionJournal::status);
+        ByteArrayOutputStream out = new ByteArrayOutputStream(256);
+        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+            g.writeStartObject();
+            g.writeStringField("status", j.map(s -> s.writable() ? "ok" : "degraded").orElse("ok"));
+            g.writeNumberField("sessions", sessions.size());
+            g.writeNumberField("streams", streams.openCount());
+            g.writeNumberField("uptime_s", Math.round((System.nanoTime() - startedNanos) / 1e6) / 1e3);
+            if (j.isPresent()) {
+                writeJournal(g, j.get());
+            }
+            g.writeEndObject();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        ctx.result(out.toByteArray());
+    }
+
+    private static void writeJournal(JsonGenerator g, SessionJournal.Status s) throws IOException {
+        Journal.RecoveryReport r = s.recovery();
+        g.writeObjectFieldStart("journal");
+        g.writeBooleanField("writable", s.writable());
+        g.writeStringField("failure", s.failure());
+        g.writeNumberField("next_seq", s.nextSeq());
+        g.writeNumberField("snapshots_written", s.snapshotsWritten());
+        PoseJson.number(g, "last_snapshot_age_s", s.lastSnapshotAgeS());
+        g.writeStringField("last_snapshot_error", s.lastSnapshotError());
+        g.writeObjectFieldStart("recovery");
+        g.writeNumberField("sessions_from_snapshot", r.sessionsFromSnapshot());
+        g.writeNumberField("snapshot_floor_seq", r.snapshotFloorSeq());
+        g.writeNumberField("records_replayed", r.recordsReplayed());
+        g.writeNumberField("samples_replayed", r.samplesReplayed());
+        g.writeNumberField("records_skipped", r.recordsSkipped());
+        g.writeNumberField("bytes_cut", r.bytesCut());
+        g.writeArrayFieldStart("notes");
+        for (String note : r.notes()) {
+            g.writeString(note);
+        }
+        g.writeEndArray();
+        g.writeEndObject();
+        g.writeEndObject();
     }
 
     /** The matched route template for metric labels; never the raw path (unbounded label values). */

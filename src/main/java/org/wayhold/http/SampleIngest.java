@@ -14,7 +14,6 @@ import org.wayhold.ingest.SampleSink;
 import org.wayhold.ordering.Admission;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionRegistry;
-import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -29,7 +28,12 @@ import org.wayhold.settings.ServerSettings;
  * samples end the request with 413. A body with a {@code Content-Length} over the limit is refused before
  * anything is read; a chunked body is cut where it passes the limit, and the chunks submitted before
  * that point stay applied (the problem says how many samples that was). Resending the whole body is
- * safe: exact duplicates are recognised and ignored by the session.
+ * safe: exact duplicates are recognised and ignored by the session. A vehicle that has sent more than
+ * its rate allows gets 429 before its body is read ({@link IngestRate}).
+ *
+ * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
+ * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
+ * cannot write, the reply is 503 and the client must send the batch again.
  */
 final class SampleIngest {
 
@@ -46,12 +50,14 @@ final class SampleIngest {
     private final ServerSettings limits;
     private final ServiceMetrics metrics;
     private final NdjsonReader reader;
+    private final IngestRate rate;
 
-    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics) {
+    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics, IngestRate rate) {
         this.sessions = sessions;
         this.limits = limits;
         this.metrics = metrics;
         this.reader = new NdjsonReader(limits.maxLineBytes());
+        this.rate = rate;
     }
 
     /** The format named by a Content-Type header; 415 for anything else. */
@@ -81,6 +87,7 @@ final class SampleIngest {
      * @return the reply document (UTF-8 JSON)
      */
     byte[] ingest(String vehicleId, Format format, long contentLength, InputStream body) {
+        rate.admit(vehicleId);
         if (contentLength > limits.maxBodyBytes()) {
             throw HttpProblem.bodyTooLarge("Content-Length " + contentLength + " is over the limit of "
                     + limits.maxBodyBytes() + " bytes (server.max_body_bytes)");
@@ -96,15 +103,19 @@ final class SampleIngest {
             batch.flush();
         } catch (BoundedBody.TooLarge e) {
             batch.flush();
+            batch.awaitRecorded();
             throw HttpProblem.bodyTooLarge("over the limit of " + limits.maxBodyBytes()
                     + " bytes (server.max_body_bytes); the " + batch.accepted
                     + " samples read before the limit were accepted");
         } catch (IOException e) {
             // The client went away or sent a broken transfer encoding; what arrived whole is kept.
             batch.flush();
-            throw HttpProblem.invalidParameter("body", "could not be read to its end ("
-                    + e.getClass().getSimpleName() + "); the " + batch.accepted + " samples read before were accepted");
+            batch.awaitRecorded();
+            // The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4).
+            throw HttpProblem.invalidParameter("body", "could not be read to its end (the connection ended early"
+                    + " or the transfer coding was broken); the " + batch.accepted + " samples read before were accepted");
         }
+        batch.awaitRecorded();
         return batch.reply();
     }
 
@@ -112,7 +123,7 @@ final class SampleIngest {
     private final class Batch implements SampleSink {
         private final String vehicleId;
         private final BlankLines blanks;
-        private VehicleSession session;
+        private final List<SessionRegistry.Submission> submitted = new ArrayList<>();
         private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
         private long[] chunkLines = new long[CHUNK_SAMPLES];
         private final List<LineError> pending = new ArrayList<>();
@@ -136,6 +147,7 @@ final class SampleIngest {
             samplesRead++;
             if (samplesRead > limits.maxSamplesPerRequest()) {
                 flush();
+                awaitRecorded();
                 throw HttpProblem.bodyTooLarge("more than " + limits.maxSamplesPerRequest()
                         + " samples in one request (server.max_samples_per_request); the " + accepted
                         + " samples read before the limit were accepted");
@@ -157,11 +169,10 @@ final class SampleIngest {
 
         void flush() {
             if (!chunk.isEmpty()) {
-                if (session == null) {
-                    session = sessions.getOrCreate(vehicleId).session();
-                }
-                List<Admission> admissions = session.submit(chunk);
-                tally(admissions);
+                rate.charge(vehicleId, chunk.size());
+                SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
+                submitted.add(s);
+                tally(s.admissions());
                 chunk.clear();
             }
             pending.sort(Comparator.comparingLong(LineError::line));
@@ -171,6 +182,22 @@ final class SampleIngest {
                 }
             }
             pending.clear();
+        }
+
+        /**
+         * Waits until every chunk submitted so far is in the journal: no reply, success or problem,
+         * reports samples as accepted before they are durable. A chunk the journal could not write
+         * turns the reply into 503.
+         */
+        void awaitRecorded() {
+            for (SessionRegistry.Submission s : submitted) {
+                try {
+                    s.awaitRecorded();
+                } catch (IOException e) {
+                    throw HttpProblem.journalUnavailable();
+                }
+            }
+            submitted.clear();
         }
 
         private void tally(List<Admission> admissions) {

@@ -12,6 +12,7 @@ import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
 import org.wayhold.session.FixRecord;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;
 
 /**
@@ -21,10 +22,11 @@ import org.wayhold.session.VehicleSession;
 final class VehicleRoutes {
 
     /**
-     * Vehicle ids: 1 to 64 characters from letters, digits, {@code . _ : -}, starting with a letter or
-     * digit. Enough for fleet numbers, plates and UUIDs, and safe in paths, logs and metric labels.
+     * Vehicle ids: letters, digits, {@code . _ : -}, starting with a letter or digit, at most
+     * {@code server.max_vehicle_id_chars} characters (64 by default). Enough for fleet numbers, plates and
+     * UUIDs, and safe in paths, logs, metric labels and file names.
      */
-    static final Pattern VEHICLE_ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._:-]{0,63}");
+    static final Pattern VEHICLE_ID = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._:-]*");
 
     /** {@code EPSG:} followed by a code of 4 or 5 digits (the EPSG dataset's range). */
     private static final Pattern EPSG = Pattern.compile("(?i)EPSG:(\\d{4,5})");
@@ -34,11 +36,13 @@ final class VehicleRoutes {
     private final SessionRegistry sessions;
     private final SampleIngest ingest;
     private final PoseStreams streams;
+    private final int maxIdChars;
 
     VehicleRoutes(SessionRegistry sessions, SampleIngest ingest, PoseStreams streams) {
         this.sessions = sessions;
         this.ingest = ingest;
         this.streams = streams;
+        this.maxIdChars = sessions.settings().server().maxVehicleIdChars();
     }
 
     void postSamples(Context ctx) {
@@ -188,7 +192,13 @@ final class VehicleRoutes {
 
     void delete(Context ctx) {
         String id = vehicleId(ctx);
-        if (!sessions.remove(id)) {
+        boolean deleted;
+        try {
+            deleted = sessions.delete(id);
+        } catch (IOException e) {
+            throw HttpProblem.journalUnavailable();
+        }
+        if (!deleted) {
             throw HttpProblem.unknownVehicle(id);
         }
         ctx.status(204);
@@ -203,6 +213,9 @@ final class VehicleRoutes {
                 Optional<Pose> latest = s.latest();
                 g.writeStartObject();
                 g.writeStringField("vehicle", s.vehicleId());
+                SessionStats stats = s.stats();
+                g.writeNumberField("samples", stats.wheelSpeedApplied() + stats.yawRateApplied() + stats.gnssApplied()
+                        + stats.referenceApplied());
                 if (latest.isPresent()) {
                     Pose p = latest.get();
                     g.writeStringField("state", p.state().wireName());
@@ -233,11 +246,12 @@ final class VehicleRoutes {
         return sessions.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
     }
 
-    static String vehicleId(Context ctx) {
+    String vehicleId(Context ctx) {
         String id = ctx.pathParam("vehicle");
-        if (!VEHICLE_ID.matcher(id).matches()) {
-            throw HttpProblem.invalidParameter("vehicle", "must be 1 to 64 letters, digits or . _ : -, "
-                    + "starting with a letter or digit, was '" + clip(id) + "'");
+        if (id.length() > maxIdChars || !VEHICLE_ID.matcher(id).matches()) {
+            throw HttpProblem.invalidParameter("vehicle", "must be 1 to " + maxIdChars
+                    + " letters, digits or . _ : -, starting with a letter or digit (server.max_vehicle_id_chars), was '"
+                    + clip(id) + "'" + (id.length() > maxIdChars ? " (" + id.length() + " characters)" : ""));
         }
         return id;
     }

@@ -176,7 +176,9 @@ public final class NdjsonReader {
                 sink.reject(new LineError(index, "malformed JSON: more content after the end of the body"));
             }
         } catch (JsonProcessingException e) {
-            sink.reject(new LineError(index, malformed(e)));
+            // Inside an array the index is 0 until the first element starts: a syntax error there (such
+            // as "[}") belongs to element 1, and line numbers are 1-based.
+            sink.reject(new LineError(Math.max(1, index), malformed(e)));
         }
     }
 

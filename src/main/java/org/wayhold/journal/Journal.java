@@ -25,6 +25,7 @@ import java.util.concurrent.LinkedBlockingQueue;
 import java.util.zip.CRC32C;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.SampleCodec;
+import org.wayhold.settings.JournalSettings;
 
 /**
  * An append-only journal of accepted sample batches with snapshots of all sessions.
@@ -185,7 +186,14 @@ public final class Journal implements Closeable {
                 stop = true;
             }
         }
-        nextSeq = Math.max(lastSeq + 1, floor);
+        // A snapshot may cover records that were queued but never written before a crash: numbering
+        // must go on past every covered sequence, or a new record could reuse a covered number and be
+        // skipped by the next recovery as if the snapshot held it.
+        long maxCovered = floor - 1;
+        for (long c : covered.values()) {
+            maxCovered = Math.max(maxCovered, c);
+        }
+        nextSeq = Math.max(Math.max(lastSeq, maxCovered) + 1, floor);
         startSegment();
         writer = new Thread(this::writeLoop, "wayhold-journal");
         writer.setDaemon(true);
@@ -255,12 +263,6 @@ public final class Journal implements Closeable {
     }
 
     private CompletableFuture<Long> enqueue(byte[] payload) {
-        if (closed) {
-            return CompletableFuture.failedFuture(new IOException("journal is closed"));
-        }
-        if (failure != null) {
-            return CompletableFuture.failedFuture(failure);
-        }
         if (writer == null) {
             throw new IllegalStateException("recover the journal before appending");
         }
@@ -269,10 +271,23 @@ public final class Journal implements Closeable {
         ByteBuffer record = ByteBuffer.allocate(HEADER_BYTES + payload.length);
         record.putInt(payload.length).putInt((int) c.getValue()).put(payload);
         CompletableFuture<Long> done = new CompletableFuture<>();
+        // Closing and failing also take this lock, so nothing is queued behind the writer's last drain
+        // (a future queued there would never complete and its request would hang).
         synchronized (appendLock) {
+            if (closed) {
+                return CompletableFuture.failedFuture(new IOException("journal is closed"));
+            }
+            if (failure != null) {
+                return CompletableFuture.failedFuture(failure);
+            }
             queue.add(new Pending(nextSeq++, record.array(), done));
         }
         return done;
+    }
+
+    /** The failure that stopped the writer, if any: after it every append fails. */
+    public java.util.Optional<IOException> failure() {
+        return java.util.Optional.ofNullable(failure);
     }
 
     /** Waits for an appended batch to be durable; rethrows the journal's failure as IOException. */
@@ -366,7 +381,9 @@ public final class Journal implements Closeable {
     }
 
     private void fail(List<Pending> group, IOException e) {
-        failure = e;
+        synchronized (appendLock) {
+            failure = e;
+        }
         for (Pending p : group) {
             p.done.completeExceptionally(e);
         }
@@ -509,7 +526,9 @@ public final class Journal implements Closeable {
         if (closed) {
             return;
         }
-        closed = true;
+        synchronized (appendLock) {
+            closed = true;
+        }
         if (writer != null) {
             queue.add(new Pending(-1, new byte[0], new CompletableFuture<>()));
             try {

@@ -1,13 +1,17 @@
 package org.wayhold.session;
 
+import java.io.IOException;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
 import java.util.Optional;
+import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.function.Consumer;
 import org.wayhold.geo.Geodetic;
+import org.wayhold.ordering.Admission;
+import org.wayhold.sample.Sample;
 import org.wayhold.settings.Settings;
 
 /**
@@ -27,8 +31,20 @@ public final class SessionRegistry {
     public record Entry(VehicleSession session, long serial) {
     }
 
+    /**
+     * What {@link #submit} did: one admission per sample, and the write of the batch to the session log,
+     * which must complete before the batch is acknowledged ({@link #awaitRecorded}).
+     */
+    public record Submission(List<Admission> admissions, CompletableFuture<?> recorded) {
+        /** Waits until the batch is in the session log; IOException when it could not be written. */
+        public void awaitRecorded() throws IOException {
+            SessionLog.await(recorded);
+        }
+    }
+
     private final Settings settings;
     private final Geodetic configuredOrigin;
+    private final SessionLog log;
     private final ConcurrentHashMap<String, Entry> sessions = new ConcurrentHashMap<>();
     private final AtomicLong serials = new AtomicLong();
     private final List<Consumer<String>> removalListeners = new java.util.concurrent.CopyOnWriteArrayList<>();
@@ -38,8 +54,18 @@ public final class SessionRegistry {
      * @param configuredOrigin ENU origin for every session instead of its first fix, or null
      */
     public SessionRegistry(Settings settings, Geodetic configuredOrigin) {
+        this(settings, configuredOrigin, SessionLog.NONE);
+    }
+
+    /**
+     * @param settings         settings of every session; {@code server.maxSessions} bounds the count
+     * @param configuredOrigin ENU origin for every session instead of its first fix, or null
+     * @param log              where {@link #submit} and {@link #delete} record what they change
+     */
+    public SessionRegistry(Settings settings, Geodetic configuredOrigin, SessionLog log) {
         this.settings = java.util.Objects.requireNonNull(settings, "settings");
         this.configuredOrigin = configuredOrigin;
+        this.log = java.util.Objects.requireNonNull(log, "log");
     }
 
     /** The settings each session is created with. */
@@ -76,13 +102,71 @@ public final class SessionRegistry {
         }
     }
 
+    /**
+     * Applies a batch to the vehicle's session (created when absent) and records it in the session log,
+     * both under the session's lock, so the log's order per vehicle is the order of application and a
+     * restart that applies the log again rebuilds the same state. The caller waits on
+     * {@link Submission#awaitRecorded} outside any lock before acknowledging.
+     *
+     * <p>A batch that races a {@link #delete} of its vehicle goes to the session that is registered
+     * once the lock is held, never to a dropped one.
+     *
+     * @throws SessionLimitException when the vehicle has no session and the registry is full
+     */
+    public Submission submit(String vehicleId, List<? extends Sample> batch) {
+        while (true) {
+            Entry entry = getOrCreate(vehicleId);
+            VehicleSession session = entry.session();
+            synchronized (session) {
+                if (sessions.get(vehicleId) != entry) {
+                    continue;
+                }
+                List<Admission> admissions = session.submit(batch);
+                return new Submission(admissions, log.batch(vehicleId, batch));
+            }
+        }
+    }
+
+    /**
+     * Drops the vehicle's session, records the deletion in the session log and tells the removal
+     * listeners; waits (outside the lock) until the deletion is durable.
+     *
+     * @return true when there was a session to drop
+     * @throws IOException when the deletion could not be recorded (the session is dropped all the same)
+     */
+    public boolean delete(String vehicleId) throws IOException {
+        CompletableFuture<?> recorded = null;
+        while (recorded == null) {
+            Entry entry = sessions.get(vehicleId);
+            if (entry == null) {
+                return false;
+            }
+            synchronized (entry.session()) {
+                if (sessions.get(vehicleId) == entry) {
+                    // Logged before the entry leaves the map: a new session of the same id can only be
+                    // created afterwards, so its batches follow the deletion in the log.
+                    recorded = log.delete(vehicleId);
+                    synchronized (this) {
+                        sessions.remove(vehicleId, entry);
+                    }
+                }
+            }
+        }
+        for (Consumer<String> l : removalListeners) {
+            l.accept(vehicleId);
+        }
+        SessionLog.await(recorded);
+        return true;
+    }
+
     /** The vehicle's session, if it has one. */
     public Optional<Entry> find(String vehicleId) {
         return Optional.ofNullable(sessions.get(vehicleId));
     }
 
     /**
-     * Drops the vehicle's session and tells the removal listeners.
+     * Drops the vehicle's session and tells the removal listeners, without recording it in the session
+     * log: for replaying a logged deletion. Requests use {@link #delete}.
      *
      * @return true when there was a session to drop
      */

@@ -5,22 +5,35 @@ import java.util.List;
 /**
  * The HTTP service. YAML section {@code server}.
  *
+ * <p>The limits bound what one client can cost the service: bytes per request ({@code maxBodyBytes},
+ * {@code maxLineBytes}), samples per request, memory ({@code maxSessions}, each session holding at most
+ * {@code history.max_poses} poses) and filter time per vehicle ({@code maxSamplesPerSecondPerVehicle},
+ * a token bucket on wall-clock time that holds {@code rateBurstS} seconds of that rate).
+ *
  * @param port                  TCP port (1..65535; 0 picks a free port, for tests)
  * @param bind                  address to listen on; loopback by default
- * @param writeTokens           bearer tokens allowed to POST and DELETE; empty means no write check
+ * @param writeTokens           bearer tokens allowed to POST and DELETE (and to read); empty means no write check
  * @param readTokens            bearer tokens allowed to GET; empty means reads are open
  * @param maxBodyBytes          largest accepted request body (bytes)
  * @param maxLineBytes          longest accepted NDJSON line (bytes)
  * @param maxSamplesPerRequest  most samples in one request (count)
  * @param maxSessions           most vehicle sessions held at once (count)
+ * @param maxVehicleIdChars     longest vehicle id (characters, 1..{@value #VEHICLE_ID_CHARS_CEILING})
  * @param maxSamplesPerSecondPerVehicle sustained ingest rate allowed per vehicle (samples per second of wall time)
+ * @param rateBurstS            size of each vehicle's token bucket, as seconds of the sustained rate (s)
  * @param corsOrigins           origins allowed by CORS; empty means none
  * @param sseKeepAliveS         interval of Server-Sent Events keep-alive comments (s)
  */
 public record ServerSettings(int port, String bind, List<String> writeTokens, List<String> readTokens,
                              long maxBodyBytes, int maxLineBytes, int maxSamplesPerRequest, int maxSessions,
-                             double maxSamplesPerSecondPerVehicle, List<String> corsOrigins,
-                             double sseKeepAliveS) {
+                             int maxVehicleIdChars, double maxSamplesPerSecondPerVehicle, double rateBurstS,
+                             List<String> corsOrigins, double sseKeepAliveS) {
+
+    /**
+     * Upper bound of {@code maxVehicleIdChars} (characters): ids appear in paths, logs, metric labels and
+     * file names, and 255 is the usual file name limit of Linux file systems.
+     */
+    public static final int VEHICLE_ID_CHARS_CEILING = 255;
 
     public ServerSettings {
         if (port < 0 || port > 65535) {
@@ -29,8 +42,8 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
         if (bind == null || bind.isBlank()) {
             throw new IllegalArgumentException("server.bind: must name an address, was '" + bind + "'");
         }
-        writeTokens = List.copyOf(writeTokens == null ? List.of() : writeTokens);
-        readTokens = List.copyOf(readTokens == null ? List.of() : readTokens);
+        writeTokens = tokens("server.write_tokens", writeTokens);
+        readTokens = tokens("server.read_tokens", readTokens);
         corsOrigins = List.copyOf(corsOrigins == null ? List.of() : corsOrigins);
         if (maxBodyBytes < 1) {
             throw new IllegalArgumentException("server.max_body_bytes: must be at least 1, was " + maxBodyBytes);
@@ -38,12 +51,80 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
         Check.atLeast("server.max_line_bytes", maxLineBytes, 64);
         Check.atLeast("server.max_samples_per_request", maxSamplesPerRequest, 1);
         Check.atLeast("server.max_sessions", maxSessions, 1);
+        Check.atLeast("server.max_vehicle_id_chars", maxVehicleIdChars, 1);
+        if (maxVehicleIdChars > VEHICLE_ID_CHARS_CEILING) {
+            throw new IllegalArgumentException("server.max_vehicle_id_chars: must be at most "
+                    + VEHICLE_ID_CHARS_CEILING + " characters, was " + maxVehicleIdChars);
+        }
         Check.positive("server.max_samples_per_second_per_vehicle", maxSamplesPerSecondPerVehicle);
+        Check.positive("server.rate_burst_s", rateBurstS);
         Check.positive("server.sse_keep_alive_s", sseKeepAliveS);
     }
 
+    /**
+     * Defaults. The rate: replaying a recorded drive 100 times faster than real time must pass, and the
+     * demo drives carry 165 samples per second (100 Hz yaw rate, 50 Hz wheel speed, 5 Hz GNSS, 10 Hz
+     * reference), so 16,500 samples/s; 100,000 samples/s leaves room for richer rigs. The bucket holds 2 s of that rate,
+     * enough for one large batch.
+     *
+     * <p>Sessions: a session at its full history of 3000 poses holds about 0.8 MiB (measured with
+     * bench/soak.sh: 160 B per pose plus 40 B for its ellipse, and a little for ordering and the filter),
+     * so 1000 sessions bound the sessions' heap to about 0.8 GB.
+     */
     public static ServerSettings defaults() {
         return new ServerSettings(8470, "127.0.0.1", List.of(), List.of(), 64L * 1024 * 1024, 4096,
-                1_000_000, 10_000, 100_000.0, List.of(), 15.0);
+                1_000_000, 1_000, 64, 100_000.0, 2.0, List.of(), 15.0);
+    }
+
+    /** The same settings listening on another port and address. */
+    public ServerSettings withAddress(int newPort, String newBind) {
+        return new ServerSettings(newPort, newBind, writeTokens, readTokens, maxBodyBytes, maxLineBytes,
+                maxSamplesPerRequest, maxSessions, maxVehicleIdChars, maxSamplesPerSecondPerVehicle, rateBurstS,
+                corsOrigins, sseKeepAliveS);
+    }
+
+    /** The same settings with other tokens. */
+    public ServerSettings withTokens(List<String> newWriteTokens, List<String> newReadTokens) {
+        return new ServerSettings(port, bind, newWriteTokens, newReadTokens, maxBodyBytes, maxLineBytes,
+                maxSamplesPerRequest, maxSessions, maxVehicleIdChars, maxSamplesPerSecondPerVehicle, rateBurstS,
+                corsOrigins, sseKeepAliveS);
+    }
+
+    /** True when writes need a token. */
+    public boolean writesNeedToken() {
+        return !writeTokens.isEmpty();
+    }
+
+    /** True when reads need a token. */
+    public boolean readsNeedToken() {
+        return !readTokens.isEmpty();
+    }
+
+    /** Like the generated form, but tokens are shown only by count: settings may be logged, tokens never. */
+    @Override
+    public String toString() {
+        return "ServerSettings[port=" + port + ", bind=" + bind + ", writeTokens=" + writeTokens.size()
+                + " redacted, readTokens=" + readTokens.size() + " redacted, maxBodyBytes=" + maxBodyBytes
+                + ", maxLineBytes=" + maxLineBytes + ", maxSamplesPerRequest=" + maxSamplesPerRequest
+                + ", maxSessions=" + maxSessions + ", maxVehicleIdChars=" + maxVehicleIdChars
+                + ", maxSamplesPerSecondPerVehicle=" + maxSamplesPerSecondPerVehicle + ", rateBurstS=" + rateBurstS
+                + ", corsOrigins=" + corsOrigins + ", sseKeepAliveS=" + sseKeepAliveS + "]";
+    }
+
+    /**
+     * A token is sent in an {@code Authorization} header, so it must be a non-empty RFC 6750 b64token
+     * (letters, digits and {@code - . _ ~ + /}, then optional {@code =}); anything else could never match.
+     * The message never repeats the token.
+     */
+    private static List<String> tokens(String key, List<String> given) {
+        List<String> copy = List.copyOf(given == null ? List.of() : given);
+        for (int i = 0; i < copy.size(); i++) {
+            if (!copy.get(i).matches("[A-Za-z0-9\\-._~+/]+=*")) {
+                throw new IllegalArgumentException(key + ": item " + (i + 1)
+                        + " must be a bearer token of letters, digits and - . _ ~ + / (then optional =)"
+                        + " with no spaces; its value is not shown");
+            }
+        }
+        return copy;
     }
 }

@@ -6,10 +6,11 @@ import java.util.Map;
  * Everything {@code config/wayhold.yaml} configures.
  *
  * @param vehicles profiles by name; the profile named {@code default} serves vehicles without their own
+ * @param journal  how the journal of accepted samples writes and keeps its files
  */
 public record Settings(ServerSettings server, FilterSettings filter, GatingSettings gating,
                        OutageSettings outage, OrderingSettings ordering, HistorySettings history,
-                       Map<String, VehicleProfile> vehicles) {
+                       Map<String, VehicleProfile> vehicles, JournalSettings journal) {
 
     public static final String DEFAULT_PROFILE = "default";
 
@@ -20,12 +21,19 @@ public record Settings(ServerSettings server, FilterSettings filter, GatingSetti
         java.util.Objects.requireNonNull(outage, "outage");
         java.util.Objects.requireNonNull(ordering, "ordering");
         java.util.Objects.requireNonNull(history, "history");
+        java.util.Objects.requireNonNull(journal, "journal");
         java.util.HashMap<String, VehicleProfile> v = new java.util.HashMap<>();
         v.put(DEFAULT_PROFILE, VehicleProfile.defaults());
         if (vehicles != null) {
             v.putAll(vehicles);
         }
         vehicles = Map.copyOf(v);
+    }
+
+    /** Settings with the default journal: for uses that never write one (tests, offline scoring). */
+    public Settings(ServerSettings server, FilterSettings filter, GatingSettings gating, OutageSettings outage,
+                    OrderingSettings ordering, HistorySettings history, Map<String, VehicleProfile> vehicles) {
+        this(server, filter, gating, outage, ordering, history, vehicles, JournalSettings.defaults());
     }
 
     /** The profile for a vehicle id: its own when configured, else {@code default}. */
@@ -36,6 +44,7 @@ public record Settings(ServerSettings server, FilterSettings filter, GatingSetti
 
     public static Settings defaults() {
         return new Settings(ServerSettings.defaults(), FilterSettings.defaults(), GatingSettings.defaults(),
-                OutageSettings.defaults(), OrderingSettings.defaults(), HistorySettings.defaults(), Map.of());
+                OutageSettings.defaults(), OrderingSettings.defaults(), HistorySettings.defaults(), Map.of(),
+                JournalSettings.defaults());
     }
 }

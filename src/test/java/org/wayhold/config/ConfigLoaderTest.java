@@ -18,6 +18,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
+import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
@@ -98,7 +99,9 @@ class ConfigLoaderTest {
                   max_line_bytes: 8192
                   max_samples_per_request: 5000
                   max_sessions: 12
+                  max_vehicle_id_chars: 40
                   max_samples_per_second_per_vehicle: 250.5
+                  rate_burst_s: 3.5
                   cors_origins: ["https://example.org"]
                   sse_keep_alive_s: 7.5
                 filter:
@@ -141,7 +144,7 @@ class ConfigLoaderTest {
                     lever_arm_up_m: 1.75
                 """);
         assertThat(s.server()).isEqualTo(new ServerSettings(9001, "0.0.0.0", List.of("w1", "w2"), List.of("r1"),
-                5_000_000_000L, 8192, 5000, 12, 250.5, List.of("https://example.org"), 7.5));
+                5_000_000_000L, 8192, 5000, 12, 40, 250.5, 3.5, List.of("https://example.org"), 7.5));
         assertThat(s.filter()).isEqualTo(new FilterSettings(0.011, 12.0, 0.013, 14.0, 1.5e-6, 1.6e-6, 0.017, 0.018,
                 0.019, 0.21, 2.2, 2.3,
                 Map.of(FixType.NONE, 11.0, FixType.TWO_D, 2.5, FixType.THREE_D, 1.25, FixType.DGNSS, 0.75,
@@ -157,6 +160,34 @@ class ConfigLoaderTest {
         assertThat(s.history().maxPoses()).isEqualTo(500);
         assertThat(s.profileFor("van_3")).isEqualTo(new VehicleProfile(1.25, -0.5, 1.75));
         assertThat(s.profileFor("car_9")).isEqualTo(VehicleProfile.defaults());
+    }
+
+    @Test
+    void everyJournalKeyReachesItsOwnField() {
+        Settings s = parse("""
+                journal:
+                  fsync: false
+                  group_commit_max_s: 0.005
+                  segment_bytes: 1048576
+                  retention_age_s: 3600.0
+                  retention_bytes: 8388608
+                  snapshot_interval_s: 30.0
+                """);
+        assertThat(s.journal()).isEqualTo(new JournalSettings(false, 0.005, 1_048_576, 3600.0, 8_388_608, 30.0));
+        assertThat(parse("journal:\n  snapshot_interval_s: 10.0\n").journal().segmentBytes())
+                .isEqualTo(JournalSettings.defaults().segmentBytes());
+    }
+
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {
+        "'journal:\n  fsync: 1\n'                     | journal.fsync: must be true or false, was 1",
+        "'journal:\n  fsync: sometimes\n'             | journal.fsync: must be true or false, was 'sometimes'",
+        "'journal:\n  segment_bytes: 100\n'           | journal.segment_bytes: must be at least 4096 bytes, was 100 bytes",
+        "'journal:\n  group_commit_max_s: -0.1\n'     | journal.group_commit_max_s: must be a finite number >= 0, was -0.1",
+        "'journal:\n  snapshot_interval_s: 0\n'       | journal.snapshot_interval_s: must be a positive finite number, was 0.0",
+        "'journal:\n  retention_bytes: 4096\n'        | journal.retention_bytes: must be at least journal.segment_bytes (67108864 bytes), was 4096 bytes"})
+    void aBadJournalValueIsNamedWithItsKey(String yaml, String message) {
+        assertThat(errorOf(yaml)).isEqualTo(message + " (in test.yaml)");
     }
 
     @Test
@@ -208,6 +239,8 @@ class ConfigLoaderTest {
         "'server:\n  port: 70000\n'                     | server.port: must be 0..65535, was 70000",
         "'gating:\n  chi_square_probability: 1.5\n'     | gating.chi_square_probability: must lie strictly between 0 and 1, was 1.5",
         "'history:\n  max_poses: 0\n'                   | history.max_poses: must be at least 1, was 0",
+        "'server:\n  max_vehicle_id_chars: 256\n'       | server.max_vehicle_id_chars: must be at most 255 characters, was 256",
+        "'server:\n  rate_burst_s: 0\n'                 | server.rate_burst_s: must be a positive finite number, was 0.0",
         "'filter:\n  gnss_fix_scale:\n    2d: -1\n'     | filter.gnss_fix_scale.2d: must be a positive finite number, was -1.0"})
     void aValueOutOfRangeIsNamedWithItsKey(String yaml, String message) {
         assertThat(errorOf(yaml)).isEqualTo(message + " (in test.yaml)");
@@ -242,6 +275,19 @@ class ConfigLoaderTest {
         Settings s = ConfigLoader.parse("server:\n  write_tokens: [from_file]\n", "test.yaml", env::get);
         assertThat(s.server().writeTokens()).containsExactly("alpha", "beta");
         assertThat(s.server().readTokens()).containsExactly("gamma");
+    }
+
+    @Test
+    void aTokenThatCouldNotBeSentInAHeaderIsRefusedWithoutBeingShown() {
+        String message = errorOf("server:\n  write_tokens: [fine-token, \"two words\"]\n");
+        assertThat(message).startsWith("server.write_tokens: item 2 must be a bearer token").doesNotContain("two words");
+    }
+
+    @Test
+    void theSettingsTextShowsHowManyTokensThereAreButNeverATokenItself() {
+        Settings s = ConfigLoader.parse("", "test.yaml",
+                Map.of("WAYHOLD_WRITE_TOKENS", "w-secret-1,w-secret-2", "WAYHOLD_READ_TOKENS", "r-secret")::get);
+        assertThat(s.toString()).doesNotContain("secret").contains("writeTokens=2 redacted", "readTokens=1 redacted");
     }
 
     @Test

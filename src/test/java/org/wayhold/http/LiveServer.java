@@ -35,9 +35,7 @@ final class LiveServer implements AutoCloseable {
     static Settings settings(java.util.function.UnaryOperator<ServerSettings> change) {
         Settings d = Settings.defaults();
         ServerSettings s = d.server();
-        ServerSettings port0 = new ServerSettings(0, "127.0.0.1", s.writeTokens(), s.readTokens(), s.maxBodyBytes(),
-                s.maxLineBytes(), s.maxSamplesPerRequest(), s.maxSessions(), s.maxSamplesPerSecondPerVehicle(),
-                s.corsOrigins(), s.sseKeepAliveS());
+        ServerSettings port0 = s.withAddress(0, "127.0.0.1");
         return new Settings(change.apply(port0), d.filter(), d.gating(), d.outage(), d.ordering(), d.history(),
                 d.vehicles());
     }
@@ -45,7 +43,8 @@ final class LiveServer implements AutoCloseable {
     static ServerSettings withLimits(ServerSettings s, long maxBodyBytes, int maxSessions, List<String> cors,
                                      double keepAliveS) {
         return new ServerSettings(s.port(), s.bind(), s.writeTokens(), s.readTokens(), maxBodyBytes, s.maxLineBytes(),
-                s.maxSamplesPerRequest(), maxSessions, s.maxSamplesPerSecondPerVehicle(), cors, keepAliveS);
+                s.maxSamplesPerRequest(), maxSessions, s.maxVehicleIdChars(), s.maxSamplesPerSecondPerVehicle(),
+                s.rateBurstS(), cors, keepAliveS);
     }
 
     URI uri(String pathAndQuery) {

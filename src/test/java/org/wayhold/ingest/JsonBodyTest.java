@@ -79,6 +79,19 @@ class JsonBodyTest {
         });
     }
 
+    /** Regression: a syntax error before the first element of an array was reported as line 0 (a 500). */
+    @Test
+    void aSyntaxErrorBeforeTheFirstElementIsElementOne() throws IOException {
+        for (String body : new String[] {"[}", "[[[[", "[,", "[\u0000"}) {
+            ReadResult r = readJson(body);
+            assertThat(r.samples()).isEmpty();
+            assertThat(r.rejected()).as(body).singleElement().satisfies(e -> {
+                assertThat(e.line()).isEqualTo(1);
+                assertThat(e.reason()).startsWith("malformed JSON");
+            });
+        }
+    }
+
     @Test
     void emptyBodiesBodiesOfTheWrongKindAndTrailingContentAreRejected() throws IOException {
         assertThat(readJson("  ").rejected()).containsExactly(new LineError(1, "malformed JSON: the body is empty"));

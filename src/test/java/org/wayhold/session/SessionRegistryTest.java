@@ -19,8 +19,8 @@ class SessionRegistryTest {
         Settings d = Settings.defaults();
         ServerSettings s = d.server();
         return new Settings(new ServerSettings(s.port(), s.bind(), s.writeTokens(), s.readTokens(), s.maxBodyBytes(),
-                s.maxLineBytes(), s.maxSamplesPerRequest(), max, s.maxSamplesPerSecondPerVehicle(), s.corsOrigins(),
-                s.sseKeepAliveS()), d.filter(), d.gating(), d.outage(), d.ordering(), d.history(), Map.of());
+                s.maxLineBytes(), s.maxSamplesPerRequest(), max, s.maxVehicleIdChars(), s.maxSamplesPerSecondPerVehicle(),
+                s.rateBurstS(), s.corsOrigins(), s.sseKeepAliveS()), d.filter(), d.gating(), d.outage(), d.ordering(), d.history(), Map.of());
     }
 
     @Test

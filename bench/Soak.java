@@ -1,0 +1,287 @@
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.InputStreamReader;
+import java.net.InetAddress;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.SplittableRandom;
+import java.util.TreeMap;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.LongAdder;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import java.util.zip.GZIPInputStream;
+
+/**
+ * Soak client for bench/soak.sh (JDK only, run as a single source file: {@code java bench/Soak.java}).
+ *
+ * <p>N vehicles each post the next 1/M s of a recorded demo drive M times per second (so each vehicle
+ * sends in real time, times --speed), D dashboards each make 5 reads per second (a random vehicle's
+ * pose 4 times, the vehicle list once), for T minutes. Loopback only; every bound is checked.
+ *
+ * <p>Arguments: BASE_URL LOG N M T_MINUTES D SPEED [WRITE_TOKEN]. Prints one "key value" line per figure.
+ */
+public final class Soak {
+
+    private static final Pattern T_FIELD = Pattern.compile("\"t\":(-?[0-9.eE+]+)");
+    private static final Pattern ACCEPTED = Pattern.compile("\"accepted\":(\\d+)");
+    private static final Pattern REJECTED = Pattern.compile("\"rejected_count\":(\\d+)");
+
+    private static final LongAdder ACCEPTED_SAMPLES = new LongAdder();
+    private static final LongAdder REJECTED_SAMPLES = new LongAdder();
+    private static final LongAdder SENT_SAMPLES = new LongAdder();
+    private static final Map<String, LongAdder> STATUS = new ConcurrentHashMap<>();
+    private static final LongAdder TRANSPORT_ERRORS = new LongAdder();
+    private static final Latencies POST_LATENCY = new Latencies();
+    private static final Latencies GET_LATENCY = new Latencies();
+
+    public static void main(String[] args) throws Exception {
+        if (args.length < 7) {
+            throw new IllegalArgumentException("usage: BASE_URL LOG N M T_MINUTES D SPEED [WRITE_TOKEN]");
+        }
+        URI base = URI.create(args[0]);
+        if (!InetAddress.getByName(base.getHost()).isLoopbackAddress()) {
+            throw new IllegalArgumentException("loopback only, was " + base.getHost());
+        }
+        Path log = Path.of(args[1]);
+        int vehicles = bounded("N", Integer.parseInt(args[2]), 1, 500);
+        int postHz = bounded("M", Integer.parseInt(args[3]), 1, 50);
+        double minutes = Double.parseDouble(args[4]);
+        if (!(minutes > 0 && minutes <= 30)) {
+            throw new IllegalArgumentException("T: must be in (0, 30] minutes, was " + minutes);
+        }
+        int dashboards = bounded("D", Integer.parseInt(args[5]), 0, 100);
+        double speed = Double.parseDouble(args[6]);
+        if (!(speed > 0 && speed <= 100)) {
+            throw new IllegalArgumentException("SPEED: must be in (0, 100], was " + speed);
+        }
+        String token = args.length > 7 && !args[7].isBlank() ? args[7] : null;
+
+        List<String> lines = readLines(log);
+        double[] times = new double[lines.size()];
+        for (int i = 0; i < lines.size(); i++) {
+            Matcher m = T_FIELD.matcher(lines.get(i));
+            if (!m.find()) {
+                throw new IllegalStateException(log + " line " + (i + 1) + " has no t");
+            }
+            times[i] = Double.parseDouble(m.group(1));
+        }
+        double lapS = Math.ceil(times[times.length - 1] - times[0] + 1.0);
+
+        HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5))
+                .executor(Executors.newFixedThreadPool(4)).build();
+        long endNanos = System.nanoTime() + (long) (minutes * 60e9);
+        // One thread per vehicle and per dashboard, so every one of them runs for the whole time.
+        ExecutorService workers = Executors.newFixedThreadPool(vehicles + dashboards);
+        AtomicLong requests = new AtomicLong();
+        // Vehicle k starts k seconds into the drive so the fleet is not in lock step.
+        List<Runnable> tasks = new ArrayList<>();
+        for (int k = 0; k < vehicles; k++) {
+            String id = "soak-" + k;
+            int offsetIndex = firstAtOrAfter(times, times[0] + k % (int) lapS);
+            tasks.add(new VehicleFeed(client, base, token, id, lines, times, lapS, offsetIndex, postHz, speed, endNanos));
+        }
+        for (int d = 0; d < dashboards; d++) {
+            tasks.add(new Dashboard(client, base, token, vehicles, endNanos, 1000L + d));
+        }
+        for (Runnable t : tasks) {
+            workers.submit(t);
+        }
+        workers.shutdown();
+        if (!workers.awaitTermination((long) (minutes * 60 + 120), TimeUnit.SECONDS)) {
+            workers.shutdownNow();
+        }
+        System.out.printf(Locale.ROOT, "vehicles %d%nposts_per_s_per_vehicle %d%nspeed %.1f%ndashboards %d%nminutes %.2f%n",
+                vehicles, postHz, speed, dashboards, minutes);
+        System.out.printf(Locale.ROOT, "samples_sent %d%nsamples_accepted %d%nsamples_rejected %d%n",
+                SENT_SAMPLES.sum(), ACCEPTED_SAMPLES.sum(), REJECTED_SAMPLES.sum());
+        TreeMap<String, Long> statuses = new TreeMap<>();
+        STATUS.forEach((k, v) -> statuses.put(k, v.sum()));
+        System.out.println("statuses " + statuses);
+        long httpErrors = statuses.entrySet().stream()
+                .filter(e -> !e.getKey().endsWith(" 200") && !e.getKey().endsWith(" 304"))
+                .mapToLong(Map.Entry::getValue).sum();
+        System.out.println("http_not_2xx_304 " + httpErrors);
+        System.out.println("transport_errors " + TRANSPORT_ERRORS.sum());
+        System.out.println("post " + POST_LATENCY.summary());
+        System.out.println("get " + GET_LATENCY.summary());
+        System.exit(0);
+    }
+
+    private static int bounded(String name, int v, int lo, int hi) {
+        if (v < lo || v > hi) {
+            throw new IllegalArgumentException(name + ": must be in [" + lo + ", " + hi + "], was " + v);
+        }
+        return v;
+    }
+
+    private static List<String> readLines(Path log) throws IOException {
+        List<String> lines = new ArrayList<>();
+        try (BufferedReader r = new BufferedReader(new InputStreamReader(
+                log.toString().endsWith(".gz") ? new GZIPInputStream(Files.newInputStream(log)) : Files.newInputStream(log),
+                StandardCharsets.UTF_8))) {
+            String line;
+            while ((line = r.readLine()) != null) {
+                if (!line.isBlank()) {
+                    lines.add(line);
+                }
+            }
+        }
+        return lines;
+    }
+
+    private static int firstAtOrAfter(double[] times, double t) {
+        int i = Arrays.binarySearch(times, t);
+        return i >= 0 ? i : Math.min(times.length - 1, -i - 1);
+    }
+
+    private static void count(String method, int status) {
+        STATUS.computeIfAbsent(method + " " + status, k -> new LongAdder()).increment();
+    }
+
+    /** One vehicle: posts the drive in slices of 1/M s, looping with shifted times, paced on wall time. */
+    private record VehicleFeed(HttpClient client, URI base, String token, String id, List<String> lines,
+                               double[] times, double lapS, int startIndex, int postHz, double speed,
+                               long endNanos) implements Runnable {
+        @Override
+        public void run() {
+            URI uri = base.resolve("/v1/vehicles/" + id + "/samples");
+            double sliceS = speed / postHz;
+            long periodNanos = 1_000_000_000L / postHz;
+            int i = startIndex;
+            int lap = 0;
+            double sliceEnd = times[startIndex] + sliceS;
+            long next = System.nanoTime();
+            while (System.nanoTime() < endNanos) {
+                StringBuilder body = new StringBuilder(8192);
+                int n = 0;
+                while (times[i] < sliceEnd) {
+                    String line = lines.get(i);
+                    if (lap > 0) {
+                        double t = times[i] + lap * lapS;
+                        line = T_FIELD.matcher(line).replaceFirst("\"t\":" + BigDecimalText.of(t));
+                    }
+                    body.append(line).append('\n');
+                    n++;
+                    i++;
+                    if (i == times.length) {
+                        i = 0;
+                        lap++;
+                        sliceEnd -= lapS;
+                    }
+                }
+                sliceEnd += sliceS;
+                if (n > 0) {
+                    SENT_SAMPLES.add(n);
+                    HttpRequest.Builder b = HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(30))
+                            .header("Content-Type", "application/x-ndjson")
+                            .POST(HttpRequest.BodyPublishers.ofString(body.toString()));
+                    if (token != null) {
+                        b.header("Authorization", "Bearer " + token);
+                    }
+                    long t0 = System.nanoTime();
+                    try {
+                        HttpResponse<String> r = client.send(b.build(), HttpResponse.BodyHandlers.ofString());
+                        POST_LATENCY.add(System.nanoTime() - t0);
+                        count("POST", r.statusCode());
+                        if (r.statusCode() == 200) {
+                            ACCEPTED_SAMPLES.add(first(ACCEPTED, r.body()));
+                            REJECTED_SAMPLES.add(first(REJECTED, r.body()));
+                        }
+                    } catch (IOException | InterruptedException e) {
+                        TRANSPORT_ERRORS.increment();
+                    }
+                }
+                next += periodNanos;
+                sleepUntil(next);
+            }
+        }
+    }
+
+    /** One dashboard: 5 reads a second, a random vehicle's pose 4 times and the vehicle list once. */
+    private record Dashboard(HttpClient client, URI base, String token, int vehicles, long endNanos, long seed)
+            implements Runnable {
+        @Override
+        public void run() {
+            SplittableRandom r = new SplittableRandom(seed);
+            long next = System.nanoTime();
+            int tick = 0;
+            while (System.nanoTime() < endNanos) {
+                String path = tick % 5 == 4 ? "/v1/vehicles" : "/v1/vehicles/soak-" + r.nextInt(vehicles) + "/pose";
+                HttpRequest.Builder b = HttpRequest.newBuilder(base.resolve(path)).timeout(Duration.ofSeconds(30)).GET();
+                if (token != null) {
+                    b.header("Authorization", "Bearer " + token);
+                }
+                long t0 = System.nanoTime();
+                try {
+                    HttpResponse<Void> resp = client.send(b.build(), HttpResponse.BodyHandlers.discarding());
+                    GET_LATENCY.add(System.nanoTime() - t0);
+                    // A vehicle that has not posted yet is a 404 in the first second: count it as such.
+                    count("GET", resp.statusCode());
+                } catch (IOException | InterruptedException e) {
+                    TRANSPORT_ERRORS.increment();
+                }
+                tick++;
+                next += 200_000_000L;
+                sleepUntil(next);
+            }
+        }
+    }
+
+    private static long first(Pattern p, String body) {
+        Matcher m = p.matcher(body);
+        return m.find() ? Long.parseLong(m.group(1)) : 0;
+    }
+
+    private static void sleepUntil(long nanos) {
+        long wait = nanos - System.nanoTime();
+        if (wait > 0) {
+            try {
+                Thread.sleep(wait / 1_000_000, (int) (wait % 1_000_000));
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+    }
+
+    /** Epoch seconds written in plain decimal, as the logs do. */
+    private static final class BigDecimalText {
+        static String of(double t) {
+            return new java.math.BigDecimal(Double.toString(t)).toPlainString();
+        }
+    }
+
+    /** Latencies in microseconds, kept whole (bounded by the run's request count). */
+    private static final class Latencies {
+        private final List<Long> micros = new ArrayList<>();
+
+        synchronized void add(long nanos) {
+            micros.add(nanos / 1000);
+        }
+
+        synchronized String summary() {
+            if (micros.isEmpty()) {
+                return "requests 0";
+            }
+            long[] a = micros.stream().mapToLong(Long::longValue).sorted().toArray();
+            return String.format(Locale.ROOT, "requests %d p50_ms %.2f p99_ms %.2f max_ms %.2f", a.length,
+                    a[(int) Math.floor(0.50 * (a.length - 1))] / 1000.0, a[(int) Math.floor(0.99 * (a.length - 1))] / 1000.0,
+                    a[a.length - 1] / 1000.0);
+        }
+    }
+}

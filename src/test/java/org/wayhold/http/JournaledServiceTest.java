@@ -1,0 +1,171 @@
+package org.wayhold.http;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.atlassian.oai.validator.OpenApiInteractionValidator;
+import com.atlassian.oai.validator.model.Request;
+import com.atlassian.oai.validator.model.SimpleResponse;
+import com.atlassian.oai.validator.report.ValidationReport;
+import com.fasterxml.jackson.databind.JsonNode;
+import java.io.IOException;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import org.wayhold.journal.SessionJournal;
+import org.wayhold.sample.Sample;
+import org.wayhold.session.VehicleSession;
+import org.wayhold.settings.Settings;
+import org.wayhold.simulate.SimulatedDrive;
+
+/**
+ * The service over a journal, in process: what it acknowledges comes back after a restart on the same
+ * directory bit for bit (expected values: an in-process session fed the same batches, the same code),
+ * deletions stay deleted, a journal that cannot write never yields a success, and the admin view in
+ * {@code /health} matches openapi.yaml (checked by swagger-request-validator, an outside implementation).
+ */
+class JournaledServiceTest {
+
+    private static final Settings SETTINGS = LiveServer.settings(s -> s);
+
+    @TempDir
+    Path dir;
+
+    /** A service over the journal in {@link #dir}, with a plain JDK client. */
+    private final class Served implements AutoCloseable {
+        final SessionJournal journal;
+        final LiveClient client;
+
+        Served() throws IOException {
+            journal = SessionJournal.open(dir, SETTINGS, null);
+            client = new LiveClient(new HttpService(journal).start());
+        }
+
+        @Override
+        public void close() throws IOException {
+            client.service.stop();
+            journal.close();
+        }
+    }
+
+    /** The request helpers of {@link LiveServer} over a service started elsewhere. */
+    private static final class LiveClient {
+        final HttpService service;
+        final java.net.http.HttpClient http = java.net.http.HttpClient.newHttpClient();
+
+        LiveClient(HttpService service) {
+            this.service = service;
+        }
+
+        HttpResponse<String> send(HttpRequest.Builder b) {
+            try {
+                return http.send(b.build(), HttpResponse.BodyHandlers.ofString());
+            } catch (IOException e) {
+                throw new java.io.UncheckedIOException(e);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IllegalStateException(e);
+            }
+        }
+
+        HttpRequest.Builder request(String path) {
+            return HttpRequest.newBuilder(java.net.URI.create(service.baseUrl() + path))
+                    .timeout(java.time.Duration.ofSeconds(30));
+        }
+
+        HttpResponse<String> get(String path) {
+            return send(request(path).GET());
+        }
+
+        HttpResponse<String> post(String vehicle, List<? extends Sample> samples) {
+            return send(request("/v1/vehicles/" + vehicle + "/samples").header("Content-Type", "application/x-ndjson")
+                    .POST(HttpRequest.BodyPublishers.ofByteArray(Drives.ndjson(samples))));
+        }
+
+        HttpResponse<String> delete(String vehicle) {
+            return send(request("/v1/vehicles/" + vehicle).DELETE());
+        }
+    }
+
+    @Test
+    void aRestartOnTheSameDirectoryRestoresEveryAcknowledgedSessionBitForBit() throws IOException {
+        SimulatedDrive drive = Drives.withTunnel(41L, 90.0, 20.0, 60.0);
+        List<List<Sample>> batches = Drives.chunks(drive.samples(), 5.0);
+        VehicleSession expected = new VehicleSession("van-1", SETTINGS, null);
+        String poseBefore;
+        String trackBefore;
+        try (Served s = new Served()) {
+            for (List<Sample> b : batches) {
+                assertThat(s.client.post("van-1", b).statusCode()).isEqualTo(200);
+                expected.submit(b);
+                assertThat(s.client.post("gone", b.subList(0, 1)).statusCode()).isEqualTo(200);
+            }
+            // Deleted, then started afresh by one more batch: the restart must see only the new session.
+            assertThat(s.client.delete("gone").statusCode()).isEqualTo(204);
+            assertThat(s.client.post("gone", batches.get(0)).statusCode()).isEqualTo(200);
+            assertThat(s.client.post("temp", batches.get(0)).statusCode()).isEqualTo(200);
+            assertThat(s.client.delete("temp").statusCode()).isEqualTo(204);
+            poseBefore = s.client.get("/v1/vehicles/van-1/pose").body();
+            trackBefore = s.client.get("/v1/vehicles/van-1/track").body();
+        }
+        try (Served s = new Served()) {
+            JsonNode health = LiveServer.json(s.client.get("/health"));
+            assertThat(health.path("journal").path("recovery").path("sessions_from_snapshot").asInt())
+                    .as("the shutdown snapshot holds both live sessions").isEqualTo(2);
+            assertThat(health.path("journal").path("recovery").path("records_replayed").asLong()).isZero();
+            assertThat(s.client.get("/v1/vehicles/van-1/pose").body()).isEqualTo(poseBefore)
+                    .isEqualTo(new String(PoseJson.toBytes(expected.latest().orElseThrow()),
+                            java.nio.charset.StandardCharsets.UTF_8));
+            assertThat(s.client.get("/v1/vehicles/van-1/track").body()).isEqualTo(trackBefore);
+            assertThat(s.client.get("/v1/vehicles/temp/pose").statusCode()).isEqualTo(404);
+            JsonNode list = LiveServer.json(s.client.get("/v1/vehicles"));
+            assertThat(list.path("vehicles").findValuesAsText("vehicle")).containsExactly("gone", "van-1");
+            assertThat(list.path("vehicles").get(0).path("samples").asLong())
+                    .as("only the batch after the deletion").isEqualTo(batches.get(0).size());
+            assertThat(list.path("vehicles").get(1).path("samples").asLong())
+                    .isEqualTo(drive.samples().size());
+        }
+    }
+
+    @Test
+    void aJournalThatCannotWriteAnswers503AndNeverASuccess() throws IOException {
+        try (Served s = new Served()) {
+            List<Sample> samples = Drives.openSky(7L, 3.0);
+            assertThat(s.client.post("van-2", samples.subList(0, 50)).statusCode()).isEqualTo(200);
+            // Closing the journal under the running service: every later append fails as a full disk would.
+            s.journal.close();
+            HttpResponse<String> r = s.client.post("van-2", samples.subList(50, 100));
+            assertThat(r.statusCode()).isEqualTo(503);
+            assertThat(r.headers().firstValue("Content-Type").orElse("")).startsWith("application/problem+json");
+            assertThat(LiveServer.json(r).path("type").asText()).isEqualTo("urn:wayhold:problem:journal-unavailable");
+            assertThat(s.client.delete("van-2").statusCode()).isEqualTo(503);
+            JsonNode health = LiveServer.json(s.client.get("/health"));
+            assertThat(health.path("status").asText()).isEqualTo("degraded");
+            assertThat(health.path("journal").path("writable").asBoolean()).isFalse();
+        }
+    }
+
+    @Test
+    void theHealthViewOfTheJournalMatchesTheSpec() throws IOException {
+        OpenApiInteractionValidator validator = OpenApiInteractionValidator
+                .createForInlineApiSpecification(Files.readString(Path.of("openapi.yaml"))).build();
+        try (Served s = new Served()) {
+            s.client.post("van-3", Drives.openSky(9L, 2.0));
+            s.journal.snapshot();
+            HttpResponse<String> health = s.client.get("/health");
+            JsonNode j = LiveServer.json(health).path("journal");
+            assertThat(j.path("snapshots_written").asLong()).isEqualTo(1);
+            assertThat(j.path("next_seq").asLong()).isEqualTo(1);
+            ValidationReport report = validator.validateResponse("/health", Request.Method.GET,
+                    SimpleResponse.Builder.ok().withContentType("application/json").withBody(health.body()).build());
+            assertThat(report.getMessages()).as(health.body()).isEmpty();
+            String doctored = health.body().replace("\"bytes_cut\"", "\"bytes_lost\"");
+            assertThat(validator.validateResponse("/health", Request.Method.GET, SimpleResponse.Builder.ok()
+                    .withContentType("application/json").withBody(doctored).build()).hasErrors())
+                    .as("a renamed field must be caught").isTrue();
+        }
+    }
+}
