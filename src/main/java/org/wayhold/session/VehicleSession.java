@@ -203,7 +203,7 @@ public final class VehicleSession {
     }
 
     private Checkpoint readCheckpoint(DataInput in) throws IOException {
-        NavigationFilter f = pipeline.filter.copy();
+        NavigationFilter f = pipeline.filter.stateCopy();
         f.readState(in);
         LocalFrame frame = null;
         if (in.readBoolean()) {
@@ -282,7 +282,7 @@ public final class VehicleSession {
 
         @Override
         public Checkpoint checkpoint() {
-            return new Checkpoint(filter.copy(), frame, lastHistoryTRel, appliedByType.clone());
+            return new Checkpoint(filter.stateCopy(), frame, lastHistoryTRel, appliedByType.clone());
         }
 
         @Override
