@@ -118,20 +118,20 @@ public final class NavigationFilter {
     private long covarianceRepairs;
     private long resets;
 
-    // Work arrays, allocated once so a step allocates nothing.
-    private final double[] xNext = new double[SIZE];
-    private final double[] f = new double[SIZE * SIZE];
-    private final double[] tmp = new double[SIZE * SIZE];
-    private final double[] inputJac = new double[6];
-    private final double[] h = new double[2 * SIZE];
-    private final double[] r = new double[4];
-    private final double[] nu = new double[2];
-    private final double[] ph = new double[SIZE * 2];
-    private final double[] k = new double[SIZE * 2];
-    private final double[] sInv = new double[4];
-    private final double[] hp = new double[2 * SIZE];
+    // Work arrays, allocated once so a step allocates nothing; null in a state copy (stateCopy()).
+    private final double[] xNext;
+    private final double[] f;
+    private final double[] tmp;
+    private final double[] inputJac;
+    private final double[] h;
+    private final double[] r;
+    private final double[] nu;
+    private final double[] ph;
+    private final double[] k;
+    private final double[] sInv;
+    private final double[] hp;
     /** Columns where H has a nonzero entry, ascending; filled with S. */
-    private final int[] hCols = new int[SIZE];
+    private final int[] hCols;
     private int hColCount;
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
@@ -152,21 +152,53 @@ public final class NavigationFilter {
         this.pending = new double[reacquireFixes][PENDING_FIELDS];
         double sigma = settings.gnssDefaultSigmaM();
         this.correlatedVarM2 = settings.gnssCorrelatedShare() * sigma * sigma;
+        xNext = new double[SIZE];
+        f = new double[SIZE * SIZE];
+        tmp = new double[SIZE * SIZE];
+        inputJac = new double[6];
+        h = new double[2 * SIZE];
+        r = new double[4];
+        nu = new double[2];
+        ph = new double[SIZE * 2];
+        k = new double[SIZE * 2];
+        sInv = new double[4];
+        hp = new double[2 * SIZE];
+        hCols = new int[SIZE];
     }
 
-    /** A deep copy, for checkpoints. */
+    /** A deep copy that can run on its own (branches, such as a drive survey's outage windows). */
     public NavigationFilter copy() {
-        NavigationFilter c = new NavigationFilter(this);
-        return c;
+        return new NavigationFilter(this, true);
     }
 
-    private NavigationFilter(NavigationFilter o) {
+    /**
+     * A copy of the state alone, for checkpoints that are only restored from: it can be given to
+     * {@link #restore}, written and read, and answers the read-only queries, but it must not be
+     * stepped (it has no work arrays, which are about 1.7 KB of a filter's 2.4 KB).
+     */
+    public NavigationFilter stateCopy() {
+        return new NavigationFilter(this, false);
+    }
+
+    private NavigationFilter(NavigationFilter o, boolean withWorkArrays) {
         this.settings = o.settings;
         this.profile = o.profile;
         this.gateThreshold = o.gateThreshold;
         this.gapS = o.gapS;
         this.reacquireFixes = o.reacquireFixes;
         this.pending = new double[reacquireFixes][PENDING_FIELDS];
+        xNext = withWorkArrays ? new double[SIZE] : null;
+        f = withWorkArrays ? new double[SIZE * SIZE] : null;
+        tmp = withWorkArrays ? new double[SIZE * SIZE] : null;
+        inputJac = withWorkArrays ? new double[6] : null;
+        h = withWorkArrays ? new double[2 * SIZE] : null;
+        r = withWorkArrays ? new double[4] : null;
+        nu = withWorkArrays ? new double[2] : null;
+        ph = withWorkArrays ? new double[SIZE * 2] : null;
+        k = withWorkArrays ? new double[SIZE * 2] : null;
+        sInv = withWorkArrays ? new double[4] : null;
+        hp = withWorkArrays ? new double[2 * SIZE] : null;
+        hCols = withWorkArrays ? new int[SIZE] : null;
         restore(o);
     }
 

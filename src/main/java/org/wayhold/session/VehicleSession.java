@@ -239,7 +239,7 @@ public final class VehicleSession {
     }
 
     private Checkpoint readCheckpoint(DataInput in) throws IOException {
-        NavigationFilter f = pipeline.filter.copy();
+        NavigationFilter f = pipeline.filter.stateCopy();
         f.readState(in);
         LocalFrame frame = null;
         if (in.readBoolean()) {
@@ -316,7 +316,7 @@ public final class VehicleSession {
 
         @Override
         public Checkpoint checkpoint() {
-            return new Checkpoint(filter.copy(), frame, lastHistoryTRel, appliedByType.clone());
+            return new Checkpoint(filter.stateCopy(), frame, lastHistoryTRel, appliedByType.clone());
         }
 
         @Override

@@ -67,9 +67,10 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
      * reference), so 16,500 samples/s; 100,000 samples/s leaves room for richer rigs. The bucket holds 2 s of that rate,
      * enough for one large batch.
      *
-     * <p>Sessions: a session at its full history of 3000 poses holds about 0.8 MiB (measured with
-     * bench/soak.sh: 160 B per pose plus 40 B for its ellipse, and a little for ordering and the filter),
-     * so 1000 sessions bound the sessions' heap to about 0.8 GB.
+     * <p>Sessions: a session at its full default history of 600 poses holds about 190 KB (measured with
+     * the test-scope {@code SessionMemoryMain}: about 197 B per pose and 57 B per fix held in columns,
+     * and about 40 KB for time ordering with its checkpoints and the filter), so 1000 sessions bound the
+     * sessions' heap to about 0.2 GB.
      */
     public static ServerSettings defaults() {
         return new ServerSettings(8470, "127.0.0.1", List.of(), List.of(), 64L * 1024 * 1024, 4096,

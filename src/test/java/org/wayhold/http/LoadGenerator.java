@@ -49,7 +49,9 @@ public final class LoadGenerator {
         if (!(phaseS > 0 && phaseS <= 15)) {
             throw new IllegalArgumentException("seconds per phase: must be in (0, 15], was " + phaseS);
         }
-        Settings settings = LiveServer.settings(s -> s);
+        // The ingest phases create a few dozen vehicles besides the 1000 read in the last phase.
+        Settings settings = LiveServer.settings(s -> LiveServer.withLimits(s, s.maxBodyBytes(), 1200, s.corsOrigins(),
+                s.sseKeepAliveS()));
         HttpService service = new HttpService(new SessionRegistry(settings, null)).start();
         String base = service.baseUrl();
         try {
