@@ -100,9 +100,8 @@ final class VehicleRoutes {
         return false;
     }
 
-    void getTrack(Context ctx) {
-        String id = vehicleId(ctx);
-        VehicleSession session = entry(id).session();
+    /** The optional {@code from} and {@code to} query values (s, vehicle clock), open-ended when absent. */
+    private static double[] timeWindow(Context ctx) {
         String fromText = ctx.queryParam("from");
         String toText = ctx.queryParam("to");
         double from = fromText == null ? Double.NEGATIVE_INFINITY : finiteNumber("from", fromText);
@@ -111,6 +110,15 @@ final class VehicleRoutes {
             throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was "
                     + toText + " s");
         }
+        return new double[] {from, to};
+    }
+
+    void getTrack(Context ctx) {
+        String id = vehicleId(ctx);
+        VehicleSession session = entry(id).session();
+        double[] window = timeWindow(ctx);
+        double from = window[0];
+        double to = window[1];
         String format = ctx.queryParam("format");
         boolean geojson;
         if (format == null || format.equals("json")) {
@@ -134,14 +142,9 @@ final class VehicleRoutes {
     void getFixes(Context ctx) {
         String id = vehicleId(ctx);
         VehicleSession session = entry(id).session();
-        String fromText = ctx.queryParam("from");
-        String toText = ctx.queryParam("to");
-        double from = fromText == null ? Double.NEGATIVE_INFINITY : finiteNumber("from", fromText);
-        double to = toText == null ? Double.POSITIVE_INFINITY : finiteNumber("to", toText);
-        if (from > to) {
-            throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was "
-                    + toText + " s");
-        }
+        double[] window = timeWindow(ctx);
+        double from = window[0];
+        double to = window[1];
         ByteArrayOutputStream out = new ByteArrayOutputStream(4096);
         try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
             g.writeStartObject();
