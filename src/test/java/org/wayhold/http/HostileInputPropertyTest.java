@@ -328,7 +328,25 @@ class HostileInputPropertyTest {
     }
 
     private void checkHeaders(byte[] request) {
-        RawHttp.Reply r = http.exchange(request);
+        RawHttp.Reply r;
+        try {
+            r = http.exchange(request);
+        } catch (IllegalStateException e) {
+            if (!e.getMessage().startsWith("no complete response head (0 bytes)")) {
+                throw e;
+            }
+            // Jetty may close a connection whose framing it cannot trust without answering (here seen,
+            // rarely and depending on timing, for an empty Host with an unsupported transfer coding);
+            // RFC 9112 sec. 9.6 lets a server close at any time. That is no server error as long as the
+            // service goes on answering, which is checked at once.
+            OUTCOMES.computeIfAbsent("headers", k -> new TreeMap<>()).merge(0, 1, Integer::sum);
+            RawHttp.Reply health = http.exchange(RawHttp.request("GET /health HTTP/1.1",
+                    List.of(RawHttp.header("Host", "x"), RawHttp.header("Connection", "close")), new byte[0]));
+            assertThat(health.status()).as("health after a connection closed without a reply to: "
+                    + preview(request)).isEqualTo(200);
+            assertSilent(preview(request));
+            return;
+        }
         record("headers", r);
         assertThat(r.allStatuses()).as(preview(request) + "\n-> " + r.text()).allMatch(s -> s < 500);
         assertSilent(preview(request));
