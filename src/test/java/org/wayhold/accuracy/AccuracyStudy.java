@@ -1,7 +1,6 @@
 package org.wayhold.accuracy;
 
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.List;
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.NavigationFilter;
@@ -11,6 +10,7 @@ import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
 import org.wayhold.scoring.OutageReplay;
 import org.wayhold.scoring.OutageWindow;
+import org.wayhold.scoring.Quantiles;
 import org.wayhold.scoring.WindowScore;
 import org.wayhold.settings.Settings;
 import org.wayhold.simulate.DriveSimulator;
@@ -115,8 +115,8 @@ final class AccuracyStudy {
                     / w.stream().mapToDouble(WindowScore::samples).sum();
             int missed = (int) w.stream().filter(WindowScore::missedAlert).count();
             int alerts = (int) w.stream().filter(s -> !Double.isNaN(s.timeToAlertS())).count();
-            lengths.add(new LengthFigures(len, w.size(), quantile(fin, 0.5), quantile(fin, 0.95),
-                    quantile(pct, 0.5), inside, nees, missed, alerts));
+            lengths.add(new LengthFigures(len, w.size(), Quantiles.of(fin, 0.5), Quantiles.of(fin, 0.95),
+                    Quantiles.of(pct, 0.5), inside, nees, missed, alerts));
         }
         return new Figures(lengths, Math.sqrt(sqFused / nFused), Math.sqrt(sqRaw / nRaw), maxBiasErr, maxScaleErr,
                 neesSum / nFused, neesPerDrive, firstWindows, all);
@@ -124,18 +124,5 @@ final class AccuracyStudy {
 
     private static double sq(double v) {
         return v * v;
-    }
-
-    /**
-     * Quantile with linear interpolation between order statistics (the R-7 / Excel definition; the
-     * scoring tests check the project's own percentile against Commons Math).
-     */
-    static double quantile(double[] values, double p) {
-        double[] v = values.clone();
-        Arrays.sort(v);
-        double h = (v.length - 1) * p;
-        int lo = (int) Math.floor(h);
-        int hi = Math.min(lo + 1, v.length - 1);
-        return v[lo] + (h - lo) * (v[hi] - v[lo]);
     }
 }
