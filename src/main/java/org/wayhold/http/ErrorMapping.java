@@ -7,6 +7,7 @@ import io.javalin.http.HandlerType;
 import io.javalin.http.HttpResponseException;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
+import java.io.InputStream;
 import java.io.UncheckedIOException;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -23,6 +24,14 @@ import org.wayhold.session.SessionLimitException;
  * with another method 405 (with {@code Allow}); anything else is 500 with a fixed detail, and its stack
  * trace goes to the server log only. CORS preflights ({@code OPTIONS} with
  * {@code Access-Control-Request-Method}) are left to the CORS plugin and never get a problem body.
+ *
+ * <p>A refusal that comes before the body is read (a missing token, a wrong media type, a rate limit)
+ * first reads and discards what is left of the body, up to the body size limit. Otherwise the server
+ * closes the connection with unread bytes in its receive buffer; TCP then answers the client's
+ * further bytes with a reset, which can destroy the reply before the client reads it (RFC 9112
+ * sec. 9.6 describes this hazard and the "lingering close" it calls for). Clients that send the
+ * whole body before reading, the JDK's own among them, then saw no reply at all instead of the 401.
+ * A body declared larger than the limit is not read: that 413 closes the connection.
  */
 final class ErrorMapping {
 
@@ -33,10 +42,16 @@ final class ErrorMapping {
     private ErrorMapping() {
     }
 
-    static void install(RoutesConfig routes) {
-        routes.exception(HttpProblem.class, (e, ctx) -> write(ctx, e));
-        routes.exception(SessionLimitException.class, (e, ctx) -> write(ctx,
-                HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage())));
+    /** @param maxBodyBytes the body size limit, also the most a refusal reads to discard a body (bytes) */
+    static void install(RoutesConfig routes, long maxBodyBytes) {
+        routes.exception(HttpProblem.class, (e, ctx) -> {
+            discardUnreadBody(ctx, maxBodyBytes);
+            write(ctx, e);
+        });
+        routes.exception(SessionLimitException.class, (e, ctx) -> {
+            discardUnreadBody(ctx, maxBodyBytes);
+            write(ctx, HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage()));
+        });
         routes.exception(HttpResponseException.class, (e, ctx) -> {
             if (isPreflight(ctx)) {
                 // No route answers OPTIONS; the CORS plugin has set its headers, the answer is empty.
@@ -102,6 +117,35 @@ final class ErrorMapping {
 
     static boolean isPreflight(Context ctx) {
         return ctx.method() == HandlerType.OPTIONS && ctx.header("Access-Control-Request-Method") != null;
+    }
+
+    /**
+     * Reads and drops the rest of the request body, unless it is declared larger than
+     * {@code maxBodyBytes}; stops after that many bytes in any case. A body already read to its end
+     * costs one call that returns at once. Read errors are ignored: the connection is then closed
+     * anyway, and the refusal is still written.
+     */
+    static void discardUnreadBody(Context ctx, long maxBodyBytes) {
+        long declared = ctx.req().getContentLengthLong();
+        boolean chunked = ctx.header("Transfer-Encoding") != null;
+        if (declared == 0 || declared > maxBodyBytes || (declared < 0 && !chunked)) {
+            return;
+        }
+        try {
+            InputStream in = ctx.req().getInputStream();
+            byte[] buf = new byte[8192];
+            long total = 0;
+            while (total <= maxBodyBytes) {
+                int n = in.read(buf);
+                if (n < 0) {
+                    return;
+                }
+                total += n;
+            }
+        } catch (IOException | RuntimeException e) {
+            LOG.debug("{} {}: the rest of a refused body could not be read: {}", ctx.method(), ctx.path(),
+                    e.toString());
+        }
     }
 
     private static boolean written(Context ctx) {

@@ -109,7 +109,7 @@ public final class HttpService implements AutoCloseable {
                 ctx.statusCode(), ms));
 
         config.staticFiles.add("/web", Location.CLASSPATH);
-        ErrorMapping.install(config.routes);
+        ErrorMapping.install(config.routes, server.maxBodyBytes());
         config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
