@@ -33,9 +33,13 @@ import org.wayhold.simulate.SimulationSettings;
  * </ol>
  * Client and server share the machine (and its cores), so the figures are a floor, not a ceiling.
  *
+ * <p>With a second argument, the base URL of a running service on loopback (for example the jar under
+ * {@code serve --config bench/load-server.yaml}, journal and all), the phases go there instead of to a
+ * server started in this JVM. That service needs room for about 1100 sessions and no tokens.
+ *
  * <p>Run: {@code mvn -B -ntp -o -q test-compile && java -cp target/classes:target/test-classes:$(mvn -q
  * dependency:build-classpath -Dmdep.includeScope=test -Dmdep.outputFile=/dev/stdout)
- * org.wayhold.http.LoadGenerator [seconds-per-phase, default 8]}
+ * org.wayhold.http.LoadGenerator [seconds-per-phase, default 8] [http://127.0.0.1:PORT]}
  */
 public final class LoadGenerator {
 
@@ -49,11 +53,24 @@ public final class LoadGenerator {
         if (!(phaseS > 0 && phaseS <= 15)) {
             throw new IllegalArgumentException("seconds per phase: must be in (0, 15], was " + phaseS);
         }
-        // The ingest phases create a few dozen vehicles besides the 1000 read in the last phase.
-        Settings settings = LiveServer.settings(s -> LiveServer.withLimits(s, s.maxBodyBytes(), 1200, s.corsOrigins(),
-                s.sseKeepAliveS()));
-        HttpService service = new HttpService(new SessionRegistry(settings, null)).start();
-        String base = service.baseUrl();
+        HttpService service = null;
+        String base;
+        if (args.length > 1) {
+            base = args[1].replaceAll("/+$", "");
+            String host = URI.create(base).getHost();
+            if (!host.equals("127.0.0.1") && !host.equals("localhost") && !host.equals("[::1]")) {
+                throw new IllegalArgumentException("base URL: loopback only, was " + base);
+            }
+        } else {
+            // The ingest phases create a few dozen vehicles besides the 1000 read in the last phase.
+            Settings settings = LiveServer.settings(s -> LiveServer.withLimits(s, s.maxBodyBytes(), 1200,
+                    s.corsOrigins(), s.sseKeepAliveS()));
+            service = new HttpService(new SessionRegistry(settings, null)).start();
+            base = service.baseUrl();
+        }
+        // Vehicle ids carry the start time, so that runs against a service that keeps its sessions
+        // never post into the past of an earlier run's vehicles.
+        String run = Long.toString(System.currentTimeMillis() / 1000 % 100000);
         try {
             List<Sample> drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(10), 9L).samples();
             List<byte[]> bodies = new ArrayList<>();
@@ -62,11 +79,11 @@ public final class LoadGenerator {
                 bodies.add(Drives.ndjson(chunk));
                 counts.add(chunk.size());
             }
-            batchIngest(base, bodies, counts, "warm", Math.min(phaseS, 3.0));
-            batchIngest(base, bodies, counts, "batch", phaseS);
+            batchIngest(base, bodies, counts, "warm" + run, Math.min(phaseS, 3.0));
+            batchIngest(base, bodies, counts, "batch" + run, phaseS);
 
-            singlePosts(base, "warm-single", Math.min(phaseS, 3.0));
-            singlePosts(base, "single", phaseS);
+            singlePosts(base, "warm-single" + run, Math.min(phaseS, 3.0));
+            singlePosts(base, "single" + run, phaseS);
 
             List<Sample> shortDrive = Drives.chunks(drive, 2.0).get(0);
             byte[] small = Drives.ndjson(shortDrive);
@@ -83,7 +100,9 @@ public final class LoadGenerator {
             poseGets(base, 1000, Math.min(phaseS, 3.0), false);
             poseGets(base, 1000, phaseS, true);
         } finally {
-            service.stop();
+            if (service != null) {
+                service.stop();
+            }
         }
     }
 
@@ -104,10 +123,18 @@ public final class LoadGenerator {
                 int[] next = new int[2];
                 for (int k = 0; System.nanoTime() < deadline; k++) {
                     int which = k % 2;
-                    int i = next[which]++ % bodies.size();
-                    String id = prefix + "-" + (thread + which * threads) + "-" + (next[which] / bodies.size());
-                    post(base + "/v1/vehicles/" + id + "/samples", bodies.get(i));
-                    samples.addAndGet(counts.get(i));
+                    // Each pass over the drive goes to a new vehicle: a second pass into the same one
+                    // would be rejected as late, and rejections are not ingest.
+                    int i = next[which] % bodies.size();
+                    int pass = next[which] / bodies.size();
+                    next[which]++;
+                    String id = prefix + "-" + (thread + which * threads) + "-" + pass;
+                    long accepted = post(base + "/v1/vehicles/" + id + "/samples", bodies.get(i));
+                    if (accepted != counts.get(i)) {
+                        throw new IllegalStateException("POST to " + id + ": " + accepted + " of " + counts.get(i)
+                                + " samples accepted; the load must be all valid");
+                    }
+                    samples.addAndGet(accepted);
                     requests.incrementAndGet();
                 }
                 return null;
@@ -118,7 +145,7 @@ public final class LoadGenerator {
         }
         pool.shutdown();
         double s = (System.nanoTime() - start) / 1e9;
-        if (!prefix.equals("warm")) {
+        if (!prefix.startsWith("warm")) {
             System.out.printf(Locale.ROOT, "batch NDJSON ingest: %d samples in %d requests over %.1f s = %.0f samples/s (%d vehicles, %d threads)%n",
                     samples.get(), requests.get(), s, samples.get() / s, vehicles, threads);
         }
@@ -193,7 +220,8 @@ public final class LoadGenerator {
         }
     }
 
-    private static void post(String url, byte[] body) {
+    /** POSTs one NDJSON body; returns the reply's {@code accepted} count. */
+    private static long post(String url, byte[] body) {
         try {
             HttpResponse<String> r = CLIENT.send(HttpRequest.newBuilder(URI.create(url))
                     .header("Content-Type", "application/x-ndjson")
@@ -201,6 +229,7 @@ public final class LoadGenerator {
             if (r.statusCode() != 200) {
                 throw new IllegalStateException("POST " + url + " -> " + r.statusCode() + " " + r.body());
             }
+            return LiveServer.JSON.readTree(r.body()).get("accepted").asLong();
         } catch (java.io.IOException e) {
             throw new java.io.UncheckedIOException(e);
         } catch (InterruptedException e) {
