@@ -63,6 +63,12 @@ public final class ReorderBuffer<C> {
      * @return one admission per sample, in the order given
      */
     public List<Admission> submit(List<? extends Sample> batch) {
+        if (batch.isEmpty()) {
+            return List.of();
+        }
+        if (appendedInOrder(batch)) {
+            return Collections.nCopies(batch.size(), Admission.APPLIED);
+        }
         Admission[] result = new Admission[batch.size()];
         int[] order = processingOrder(batch);
 
@@ -88,6 +94,43 @@ public final class ReorderBuffer<C> {
             trim();
         }
         return List.of(result);
+    }
+
+    /**
+     * The common case, decided and applied without the general path's sorting and searching: each
+     * sample ranks strictly after the one before it (the first after the newest applied sample) and none
+     * lies more than {@code max_forward_jump_s} ahead of its predecessor. Such a batch can hold no late
+     * sample and no duplicate (a duplicate ranks equal to an applied sample), and the general path would
+     * apply every sample in the given order with no rewind: the outcome is the same. The whole batch is
+     * checked before anything is applied, because one sample out of order changes how the general path
+     * judges the others.
+     *
+     * @return whether the batch was of this kind and has been applied
+     */
+    private boolean appendedInOrder(List<? extends Sample> batch) {
+        int n = batch.size();
+        double[] times = new double[n];
+        double prevT = newest == null ? Double.NaN : newest.t();
+        int prevRank = newest == null ? -1 : SampleOrder.rank(newest);
+        for (int i = 0; i < n; i++) {
+            Sample s = batch.get(i);
+            double t = s.t();
+            int rank = SampleOrder.rank(s);
+            if (!Double.isNaN(prevT)) {
+                int byTime = Double.compare(t, prevT);
+                if (byTime < 0 || (byTime == 0 && rank <= prevRank) || t - prevT > maxForwardJumpS) {
+                    return false;
+                }
+            }
+            times[i] = t;
+            prevT = t;
+            prevRank = rank;
+        }
+        for (int i = 0; i < n; i++) {
+            applyAndKeep(batch.get(i), times[i]);
+        }
+        trim();
+        return true;
     }
 
     /**
@@ -176,7 +219,7 @@ public final class ReorderBuffer<C> {
         Sample first = fresh.get(0);
         if (newest == null || SampleOrder.BY_TIME_THEN_TYPE.compare(first, newest) >= 0) {
             for (Sample s : fresh) {
-                applyAndKeep(s);
+                applyAndKeep(s, s.t());
             }
             return;
         }
@@ -212,13 +255,14 @@ public final class ReorderBuffer<C> {
             } else {
                 next = fresh.get(b++);
             }
-            applyAndKeep(next);
+            applyAndKeep(next, next.t());
         }
     }
 
-    private void applyAndKeep(Sample s) {
+    /** @param t the sample's time (s), passed in because the caller has it at hand */
+    private void applyAndKeep(Sample s, double t) {
         Mark<C> last = marks.peekLast();
-        if (last == null || s.t() - last.lastT >= CHECKPOINT_INTERVAL_S) {
+        if (last == null || t - last.lastT >= CHECKPOINT_INTERVAL_S) {
             double lastT = newest == null ? Double.NEGATIVE_INFINITY : newest.t();
             if (last == null || last.keptBefore != kept.size()) {
                 marks.addLast(new Mark<>(consumer.checkpoint(), kept.size(), lastT));

@@ -15,7 +15,7 @@ import org.wayhold.settings.OrderingSettings;
 
 /**
  * Time ordering against its definition: whatever the arrival order within the window, the consumer
- * ends up having applied exactly the in-order sequence (by time, then wheel speed, yaw rate, GNSS).
+ * ends up having applied exactly the in-order sequence (by time, then yaw rate, wheel speed, GNSS).
  * The consumer here is a plain list, so "identical to in-order processing" is a list comparison.
  */
 class ReorderBufferTest {
@@ -171,33 +171,111 @@ class ReorderBufferTest {
     }
 
     /**
-     * Regression test for a bug in ReorderBuffer (fails on the code as of this commit, kept failing on
-     * purpose): trim() keeps the newest checkpoint whose last sample is at or before newest - max_lag
-     * ({@code second.lastT <= horizon}, ReorderBuffer.java line 201) and then shifts its keptBefore to 0;
-     * merge() takes any checkpoint with keptBefore == 0 as "before every sample" (line 145). A sample
-     * exactly max_lag late with the same time as that checkpoint's last sample but a lower type rank is
-     * then applied after it, out of order. Suggested fix: trim with {@code second.lastT < horizon}, so the
-     * kept checkpoint's last sample is strictly older than anything still admissible.
+     * Regression test for a trimming bug: trim() once kept the newest checkpoint whose last sample was
+     * at (not strictly before) newest - max_lag and shifted its keptBefore to 0, and merge() takes a
+     * checkpoint with keptBefore == 0 as "before every sample". A sample exactly max_lag late, of the
+     * same time as that checkpoint's last sample but of a lower type rank, was then applied after it,
+     * out of order. trim() now keeps a checkpoint strictly older than anything still admissible.
      */
     @Test
     void aSampleExactlyMaxLagLateTakesItsPlaceBeforeALaterRankedSampleOfTheSameTime() {
         // Times on a 0.25 s grid (exact in binary) so a checkpoint's last sample can sit exactly at
-        // newest - max_lag. The wheel speed at 1010.0 s arrives when the newest sample is 1012.0 s: it is
-        // exactly 2 s late, so it is admitted, and in time order it goes before the yaw rate of 1010.0 s
-        // (inputs rank wheel speed, then yaw rate).
+        // newest - max_lag. The yaw rate at 1010.0 s arrives when the newest sample is 1012.0 s: it is
+        // exactly 2 s late, so it is admitted, and in time order it goes before the wheel speed of
+        // 1010.0 s (inputs rank yaw rate, then wheel speed).
         Recorder rec = new Recorder();
         ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
         List<Sample> all = new ArrayList<>();
         for (int k = 0; k <= 48; k++) {
-            all.add(new YawRate(1000.0 + 0.25 * k, 0.01 * k));
+            all.add(new WheelSpeed(1000.0 + 0.25 * k, 0.01 * k));
         }
         buffer.submit(all);
-        WheelSpeed late = new WheelSpeed(1010.0, 5.0);
+        YawRate late = new YawRate(1010.0, 5.0);
         List<Admission> a = buffer.submit(List.of(late));
         assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
         List<Sample> expected = new ArrayList<>(all);
         expected.add(late);
         expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
         assertThat(rec.applied).isEqualTo(expected);
+    }
+
+    /**
+     * Random batch sequences against a plain model of the rules, written from the class contract rather
+     * than from the code: each batch is taken in stable (time, type) order; a sample more than max_lag
+     * behind the newest applied one, or more than max_forward_jump ahead of it, is rejected; one equal
+     * to a sample applied before is a duplicate; anything else is applied and may advance the newest.
+     * What the consumer ends up with is every applied sample in stable (time, type, arrival) order.
+     * Half the batches are strictly in order (the buffer's fast path), the others carry shuffles,
+     * repeats, late samples, ties and jumps (its general path), in random interleavings, so both paths
+     * and the switches between them are held to the same model.
+     */
+    @Test
+    void randomBatchesFollowTheModelOfTheRulesOnBothPaths() {
+        SplittableRandom rnd = new SplittableRandom(77L);
+        for (int trial = 0; trial < 200; trial++) {
+            double maxLag = 0.5 + rnd.nextInt(4) * 0.5;
+            double maxJump = 5.0 + rnd.nextInt(3) * 5.0;
+            Recorder rec = new Recorder();
+            ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(maxLag, maxJump));
+            List<Sample> modelApplied = new ArrayList<>();
+            double modelNewest = Double.NaN;
+            double clock = 1000.0;
+            List<Sample> history = new ArrayList<>();
+            for (int b = 0; b < 30; b++) {
+                List<Sample> batch = new ArrayList<>();
+                int n = 1 + rnd.nextInt(40);
+                boolean inOrder = rnd.nextBoolean();
+                for (int k = 0; k < n; k++) {
+                    clock += rnd.nextInt(3) * 0.01;
+                    Sample s = switch (rnd.nextInt(3)) {
+                        case 0 -> new YawRate(clock, rnd.nextInt(5) * 0.01);
+                        case 1 -> new WheelSpeed(clock, rnd.nextInt(5));
+                        default -> GnssFix.position(clock, 48.0, 11.0, 1.0);
+                    };
+                    batch.add(s);
+                }
+                if (!inOrder) {
+                    if (rnd.nextBoolean() && !history.isEmpty()) {
+                        batch.add(history.get(rnd.nextInt(history.size())));
+                    }
+                    if (rnd.nextInt(4) == 0) {
+                        batch.add(new YawRate(clock - rnd.nextInt(300) * 0.01, 0.02));
+                    }
+                    if (rnd.nextInt(6) == 0) {
+                        batch.add(new WheelSpeed(clock + maxJump + 0.5 * rnd.nextInt(3), 1.0));
+                    }
+                    Collections.shuffle(batch, new java.util.Random(rnd.nextLong()));
+                } else if (rnd.nextInt(5) == 0) {
+                    clock += maxJump + 1.0;
+                    batch.add(new WheelSpeed(clock, 2.0));
+                }
+                history.addAll(batch);
+
+                List<Sample> sorted = new ArrayList<>(batch);
+                sorted.sort(SampleOrder.BY_TIME_THEN_TYPE);
+                java.util.Map<Sample, Admission.Kind> expected = new java.util.IdentityHashMap<>();
+                for (Sample s : sorted) {
+                    Admission.Kind kind;
+                    if (!Double.isNaN(modelNewest) && (modelNewest - s.t() > maxLag || s.t() - modelNewest > maxJump)) {
+                        kind = Admission.Kind.REJECTED;
+                    } else if (modelApplied.contains(s)) {
+                        kind = Admission.Kind.DUPLICATE;
+                    } else {
+                        kind = Admission.Kind.APPLIED;
+                        modelApplied.add(s);
+                        modelNewest = Double.isNaN(modelNewest) ? s.t() : Math.max(modelNewest, s.t());
+                    }
+                    expected.put(s, kind);
+                }
+                List<Admission> got = buffer.submit(batch);
+                for (int k = 0; k < batch.size(); k++) {
+                    assertThat(got.get(k).kind()).as("trial %d batch %d sample %d %s", trial, b, k, batch.get(k))
+                            .isEqualTo(expected.get(batch.get(k)));
+                }
+                List<Sample> inOrderApplied = new ArrayList<>(modelApplied);
+                inOrderApplied.sort(SampleOrder.BY_TIME_THEN_TYPE);
+                assertThat(rec.applied).as("trial %d batch %d", trial, b).isEqualTo(inOrderApplied);
+            }
+        }
     }
 }
