@@ -7,6 +7,7 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.util.List;
 import java.util.Optional;
+import java.util.concurrent.ConcurrentHashMap;
 import java.util.regex.Pattern;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
@@ -38,11 +39,22 @@ final class VehicleRoutes {
     private final PoseStreams streams;
     private final int maxIdChars;
 
+    /**
+     * The latest pose's JSON per vehicle, tagged like its ETag: dashboards poll far more often than a
+     * session changes, and writing the JSON (about twenty numbers to text) is most of a GET's own work.
+     * One entry per held session, dropped with it.
+     */
+    private final ConcurrentHashMap<String, PoseBytes> latestJson = new ConcurrentHashMap<>();
+
+    private record PoseBytes(long serial, long version, byte[] json) {
+    }
+
     VehicleRoutes(SessionRegistry sessions, SampleIngest ingest, PoseStreams streams) {
         this.sessions = sessions;
         this.ingest = ingest;
         this.streams = streams;
         this.maxIdChars = sessions.settings().server().maxVehicleIdChars();
+        sessions.addRemovalListener(latestJson::remove);
     }
 
     void postSamples(Context ctx) {
@@ -66,10 +78,12 @@ final class VehicleRoutes {
             return;
         }
         // Version first, pose second: a pose newer than its tag only costs one extra transfer later,
-        // while the other order could pin an old pose to a new tag and hide an update.
+        // while the other order could pin an old pose to a new tag and hide an update. The cached JSON
+        // follows the same rule: bytes filed under a version hold that version's pose or a newer one.
         long version = session.version();
-        Pose p = session.latest().orElseThrow(() -> HttpProblem.noPose("vehicle",
-                "'" + id + "' has no pose yet"));
+        if (session.latest().isEmpty()) {
+            throw HttpProblem.noPose("vehicle", "'" + id + "' has no pose yet");
+        }
         String etag = "\"" + entry.serial() + "-" + version + "\"";
         ctx.header("ETag", etag);
         ctx.header("Cache-Control", "no-cache");
@@ -77,7 +91,20 @@ final class VehicleRoutes {
             ctx.status(304);
             return;
         }
-        ctx.contentType("application/json").result(PoseJson.toBytes(p));
+        PoseBytes cached = latestJson.get(id);
+        byte[] json;
+        if (cached != null && cached.serial() == entry.serial() && cached.version() == version) {
+            json = cached.json();
+        } else {
+            json = PoseJson.toBytes(session.latest().orElseThrow());
+            // Filed only while the session is held. A DELETE racing this GET can still leave an entry
+            // behind; it carries the old serial, so it is never served, and the id's next session
+            // replaces it.
+            if (sessions.find(id).filter(e -> e.serial() == entry.serial()).isPresent()) {
+                latestJson.put(id, new PoseBytes(entry.serial(), version, json));
+            }
+        }
+        ctx.contentType("application/json").result(json);
     }
 
     /** RFC 9110 sec. 13.1.2: If-None-Match uses the weak comparison; {@code *} matches any current pose. */

@@ -5,6 +5,7 @@ import static org.assertj.core.api.Assertions.within;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
 import java.util.List;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
@@ -13,6 +14,7 @@ import org.locationtech.proj4j.BasicCoordinateTransform;
 import org.locationtech.proj4j.CRSFactory;
 import org.locationtech.proj4j.CoordinateReferenceSystem;
 import org.locationtech.proj4j.ProjCoordinate;
+import org.wayhold.pose.Pose;
 import org.wayhold.sample.Sample;
 import org.wayhold.simulate.SimulationSettings;
 
@@ -73,6 +75,30 @@ class PoseQueriesTest {
         HttpResponse<String> r = server.send(server.request("/v1/vehicles/reborn/pose")
                 .header("If-None-Match", old).GET().build());
         assertThat(r.statusCode()).isEqualTo(200);
+    }
+
+    @Test
+    void theServedPoseIsAlwaysTheSessionsLatestThoughItsJsonIsKept() {
+        // The latest pose's JSON is kept per vehicle and version; whatever is posted or deleted in
+        // between, a GET must return the session's current latest pose, written afresh here.
+        for (int round = 0; round < 2; round++) {
+            for (int k = 0; k < 6; k++) {
+                server.postNdjson("cached", Drives.ndjson(samples.subList(100 * k, 100 * k + 100)));
+                for (int twice = 0; twice < 2; twice++) {
+                    HttpResponse<String> r = server.get("/v1/vehicles/cached/pose");
+                    assertThat(r.statusCode()).isEqualTo(200);
+                    Pose latest = server.sessions.find("cached").orElseThrow().session().latest().orElseThrow();
+                    assertThat(r.body()).isEqualTo(new String(PoseJson.toBytes(latest), StandardCharsets.UTF_8));
+                }
+            }
+            // Deleted and fed a shorter stretch: the new session's pose, not the old one's kept JSON.
+            assertThat(server.delete("/v1/vehicles/cached").statusCode()).isEqualTo(204);
+            server.postNdjson("cached", Drives.ndjson(samples.subList(0, 50)));
+            HttpResponse<String> reborn = server.get("/v1/vehicles/cached/pose");
+            Pose latest = server.sessions.find("cached").orElseThrow().session().latest().orElseThrow();
+            assertThat(reborn.body()).isEqualTo(new String(PoseJson.toBytes(latest), StandardCharsets.UTF_8));
+            assertThat(server.delete("/v1/vehicles/cached").statusCode()).isEqualTo(204);
+        }
     }
 
     @Test
