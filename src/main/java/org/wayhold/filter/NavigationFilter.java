@@ -133,6 +133,11 @@ public final class NavigationFilter {
     /** Columns where H has a nonzero entry, ascending; filled with S. */
     private final int[] hCols;
     private int hColCount;
+    /**
+     * True while H, R and S are those of a position fix, set up by {@link #positionInnovation}: the
+     * update then takes the routines written out for that H.
+     */
+    private boolean positionH;
 
     private enum Probation { NONE, AFTER_GAP, AFTER_GATE }
 
@@ -669,7 +674,7 @@ public final class NavigationFilter {
         r[3] = whiteVar;
         nu[0] = eastM - antEast;
         nu[1] = northM - antNorth;
-        innovationCovarianceInverse(2);
+        positionCovarianceInverse(h[YAW], h[SIZE + YAW]);
         return nu[0] * (sInv[0] * nu[0] + sInv[1] * nu[1]) + nu[1] * (sInv[2] * nu[0] + sInv[3] * nu[1]);
     }
 
@@ -910,6 +915,7 @@ public final class NavigationFilter {
      * here has at most three nonzeros per row.
      */
     private void innovationCovarianceInverse(int m) {
+        positionH = false;
         hColCount = 0;
         for (int l = 0; l < SIZE; l++) {
             if (h[l] != 0.0 || (m == 2 && h[SIZE + l] != 0.0)) {
@@ -959,6 +965,35 @@ public final class NavigationFilter {
     }
 
     /**
+     * {@link #innovationCovarianceInverse}(2) for the H of a position fix, whose pattern is fixed: row 0
+     * is e_EAST + a e_YAW + e_GNSS_ERR_EAST, row 1 is e_NORTH + b e_YAW + e_GNSS_ERR_NORTH. It adds the
+     * same nonzero terms in the same order as the general routine (whose skipped terms are products
+     * with zero, which add nothing to a finite sum), so the result is the same bit for bit, but with
+     * the indices known when compiled: this runs at every fix.
+     *
+     * @param a H[0][YAW], the east antenna offset's change with yaw (m/rad)
+     * @param b H[1][YAW], the north antenna offset's change with yaw (m/rad)
+     */
+    private void positionCovarianceInverse(double a, double b) {
+        positionH = true;
+        for (int i = 0; i < SIZE; i++) {
+            int row = i * SIZE;
+            double pY = p[row + YAW];
+            ph[i * 2] = p[row + EAST] + pY * a + p[row + GNSS_ERR_EAST];
+            ph[i * 2 + 1] = p[row + NORTH] + pY * b + p[row + GNSS_ERR_NORTH];
+        }
+        double s00 = r[0] + ph[EAST * 2] + a * ph[YAW * 2] + ph[GNSS_ERR_EAST * 2];
+        double s01 = r[1] + ph[EAST * 2 + 1] + a * ph[YAW * 2 + 1] + ph[GNSS_ERR_EAST * 2 + 1];
+        double s10 = r[2] + ph[NORTH * 2] + b * ph[YAW * 2] + ph[GNSS_ERR_NORTH * 2];
+        double s11 = r[3] + ph[NORTH * 2 + 1] + b * ph[YAW * 2 + 1] + ph[GNSS_ERR_NORTH * 2 + 1];
+        double det = s00 * s11 - s01 * s10;
+        sInv[0] = s11 / det;
+        sInv[1] = -s01 / det;
+        sInv[2] = -s10 / det;
+        sInv[3] = s00 / det;
+    }
+
+    /**
      * Applies an update whose H (first m rows), R, innovation and
      * {@link #innovationCovarianceInverse(int)} are ready, with the gain K = P H' S^-1 and the
      * Joseph-form covariance update.
@@ -997,6 +1032,22 @@ public final class NavigationFilter {
      */
     private void josephUpdate(int m) {
         // HP (m x SIZE) into hp, row by row of P so the inner loop runs along contiguous memory.
+        if (positionH) {
+            double a = h[YAW];
+            double b = h[SIZE + YAW];
+            for (int j = 0; j < SIZE; j++) {
+                double pY = p[YAW * SIZE + j];
+                hp[j] = p[EAST * SIZE + j] + a * pY + p[GNSS_ERR_EAST * SIZE + j];
+                hp[SIZE + j] = p[NORTH * SIZE + j] + b * pY + p[GNSS_ERR_NORTH * SIZE + j];
+            }
+        } else {
+            hpGeneral(m);
+        }
+        josephRest(m);
+    }
+
+    /** HP for any H, skipping its zero columns. */
+    private void hpGeneral(int m) {
         Arrays.fill(hp, 0.0);
         for (int rIdx = 0; rIdx < m; rIdx++) {
             int out = rIdx * SIZE;
@@ -1009,6 +1060,10 @@ public final class NavigationFilter {
                 }
             }
         }
+    }
+
+    /** The Joseph update from HP on: A P, (A P) H' and the result. */
+    private void josephRest(int m) {
         // tmp = A P = P - K (HP)
         for (int i = 0; i < SIZE; i++) {
             double k0 = k[i * 2];
@@ -1018,16 +1073,27 @@ public final class NavigationFilter {
             }
         }
         // tmpH' (SIZE x 2) into ph: PH' is not needed any more.
-        for (int i = 0; i < SIZE; i++) {
-            double a0 = 0.0;
-            double a1 = 0.0;
-            for (int c = 0; c < hColCount; c++) {
-                int l = hCols[c];
-                a0 += tmp[i * SIZE + l] * h[l];
-                a1 += tmp[i * SIZE + l] * h[SIZE + l];
+        if (positionH) {
+            double a = h[YAW];
+            double b = h[SIZE + YAW];
+            for (int i = 0; i < SIZE; i++) {
+                int row = i * SIZE;
+                double tY = tmp[row + YAW];
+                ph[i * 2] = tmp[row + EAST] + tY * a + tmp[row + GNSS_ERR_EAST];
+                ph[i * 2 + 1] = tmp[row + NORTH] + tY * b + tmp[row + GNSS_ERR_NORTH];
             }
-            ph[i * 2] = a0;
-            ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
+        } else {
+            for (int i = 0; i < SIZE; i++) {
+                double a0 = 0.0;
+                double a1 = 0.0;
+                for (int c = 0; c < hColCount; c++) {
+                    int l = hCols[c];
+                    a0 += tmp[i * SIZE + l] * h[l];
+                    a1 += tmp[i * SIZE + l] * h[SIZE + l];
+                }
+                ph[i * 2] = a0;
+                ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
+            }
         }
         // P = tmp - (tmp H') K' + K R K', upper triangle, mirrored.
         double r00 = r[0];
