@@ -31,7 +31,9 @@ import org.wayhold.session.SessionLimitException;
  * further bytes with a reset, which can destroy the reply before the client reads it (RFC 9112
  * sec. 9.6 describes this hazard and the "lingering close" it calls for). Clients that send the
  * whole body before reading, the JDK's own among them, then saw no reply at all instead of the 401.
- * A body declared larger than the limit is not read: that 413 closes the connection.
+ * A body declared larger than the limit is not read: that 413 closes the connection and says so
+ * ({@code Connection: close}); a client that wants to learn of it before sending the body sends
+ * {@code Expect: 100-continue} (RFC 9110 sec. 10.1.1).
  */
 final class ErrorMapping {
 
@@ -128,24 +130,30 @@ final class ErrorMapping {
     static void discardUnreadBody(Context ctx, long maxBodyBytes) {
         long declared = ctx.req().getContentLengthLong();
         boolean chunked = ctx.header("Transfer-Encoding") != null;
-        if (declared == 0 || declared > maxBodyBytes || (declared < 0 && !chunked)) {
+        if (declared == 0 || (declared < 0 && !chunked)) {
             return;
         }
-        try {
-            InputStream in = ctx.req().getInputStream();
-            byte[] buf = new byte[8192];
-            long total = 0;
-            while (total <= maxBodyBytes) {
-                int n = in.read(buf);
-                if (n < 0) {
-                    return;
+        if (declared <= maxBodyBytes) {
+            try {
+                InputStream in = ctx.req().getInputStream();
+                byte[] buf = new byte[8192];
+                long total = 0;
+                while (total <= maxBodyBytes) {
+                    int n = in.read(buf);
+                    if (n < 0) {
+                        return;
+                    }
+                    total += n;
                 }
-                total += n;
+            } catch (IOException | RuntimeException e) {
+                LOG.debug("{} {}: the rest of a refused body could not be read: {}", ctx.method(), ctx.path(),
+                        e.toString());
             }
-        } catch (IOException | RuntimeException e) {
-            LOG.debug("{} {}: the rest of a refused body could not be read: {}", ctx.method(), ctx.path(),
-                    e.toString());
         }
+        // Bytes are left unread: the connection ends after this reply, and the reply says so, so that no
+        // client sends its next request on it (a client that sent "Expect: 100-continue" has not sent
+        // the body at all, and the server would otherwise take its next request for that body).
+        ctx.header("Connection", "close");
     }
 
     private static boolean written(Context ctx) {
