@@ -168,9 +168,9 @@ public final class Route {
         private long openCanyon = -1;
 
         private Builder(double yawRad, double speedMps, double yawRateRadPerS) {
-            requireFinite("yawRad", yawRad, "rad");
-            requireFinite("speedMps", speedMps, "m/s");
-            requireFinite("yawRateRadPerS", yawRateRadPerS, "rad/s");
+            Check.finite("yawRad", yawRad, "rad");
+            Check.finite("speedMps", speedMps, "m/s");
+            Check.finite("yawRateRadPerS", yawRateRadPerS, "rad/s");
             this.initialYawRad = yawRad;
             ticks.add(0L);
             speeds.add(speedMps);
@@ -191,8 +191,8 @@ public final class Route {
          * @param durationS      ramp length (s, > 0, rounded to the 10 ms grid)
          */
         public Builder rampTo(double speedMps, double yawRateRadPerS, double durationS) {
-            requireFinite("speedMps", speedMps, "m/s");
-            requireFinite("yawRateRadPerS", yawRateRadPerS, "rad/s");
+            Check.finite("speedMps", speedMps, "m/s");
+            Check.finite("yawRateRadPerS", yawRateRadPerS, "rad/s");
             long n = Math.round(durationS * TICKS_PER_S);
             if (!(durationS > 0) || n < 1) {
                 throw new IllegalArgumentException("durationS: must be at least one tick of " + TICK_S
@@ -287,12 +287,6 @@ public final class Route {
                 w[i] = yawRates.get(i);
             }
             return new Route(initialYawRad, t, v, w, tunnels, canyons);
-        }
-
-        private static void requireFinite(String field, double value, String unit) {
-            if (!Double.isFinite(value)) {
-                throw new IllegalArgumentException(field + ": must be a finite number of " + unit + ", was " + value);
-            }
         }
     }
 }
