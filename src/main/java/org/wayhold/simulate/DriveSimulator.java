@@ -88,10 +88,10 @@ public final class DriveSimulator {
         double startT = rs.startT();
         int n = Math.toIntExact(route.ticks());
 
-        int wheelTicks = Require.gridRate("wheelSpeed.rateHz", ws.rateHz());
-        int gyroTicks = Require.gridRate("yawRate.rateHz", ys.rateHz());
-        int gnssTicks = Require.gridRate("gnss.rateHz", gs.rateHz());
-        int refTicks = Require.gridRate("route.referenceRateHz", rs.referenceRateHz());
+        int wheelTicks = Route.ticksPerSample("wheelSpeed.rateHz", ws.rateHz());
+        int gyroTicks = Route.ticksPerSample("yawRate.rateHz", ys.rateHz());
+        int gnssTicks = Route.ticksPerSample("gnss.rateHz", gs.rateHz());
+        int refTicks = Route.ticksPerSample("route.referenceRateHz", rs.referenceRateHz());
 
         List<long[]> tunnels = route.tunnelTicks();
         List<long[]> canyons = route.canyonTicks();

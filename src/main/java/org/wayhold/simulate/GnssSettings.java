@@ -1,5 +1,7 @@
 package org.wayhold.simulate;
 
+import org.wayhold.settings.Check;
+
 /**
  * Error model of the simulated GNSS receiver.
  *
@@ -36,26 +38,26 @@ public record GnssSettings(double rateHz, double whiteNoiseM, double markovSigma
                            double canyonFaultProbability, double canyonDropProbability) {
 
     public GnssSettings {
-        Require.gridRate("gnss.rateHz", rateHz);
-        Require.nonNegative("gnss.whiteNoiseM", whiteNoiseM, "m");
-        Require.nonNegative("gnss.markovSigmaM", markovSigmaM, "m");
-        Require.positive("gnss.markovTimeS", markovTimeS, "s");
-        Require.nonNegative("gnss.verticalNoiseM", verticalNoiseM, "m");
-        Require.nonNegative("gnss.velocityNoiseMps", velocityNoiseMps, "m/s");
-        Require.nonNegative("gnss.courseMinSpeedMps", courseMinSpeedMps, "m/s");
-        Require.finite("gnss.leverArmForwardM", leverArmForwardM, "m");
-        Require.finite("gnss.leverArmLeftM", leverArmLeftM, "m");
-        Require.finite("gnss.leverArmUpM", leverArmUpM, "m");
-        Require.nonNegative("gnss.outliersPerHour", outliersPerHour, "1/h");
-        Require.nonNegative("gnss.outlierMinM", outlierMinM, "m");
-        Require.nonNegative("gnss.outlierMaxM", outlierMaxM, "m");
-        Require.range("gnss.outlierMaxM", outlierMinM, outlierMaxM, "m");
-        Require.nonNegative("gnss.multipathAfterExitS", multipathAfterExitS, "s");
-        Require.nonNegative("gnss.multipathMinM", multipathMinM, "m");
-        Require.nonNegative("gnss.multipathMaxM", multipathMaxM, "m");
-        Require.range("gnss.multipathMaxM", multipathMinM, multipathMaxM, "m");
-        Require.probability("gnss.canyonFaultProbability", canyonFaultProbability);
-        Require.probability("gnss.canyonDropProbability", canyonDropProbability);
+        Route.ticksPerSample("gnss.rateHz", rateHz);
+        Check.nonNegative("gnss.whiteNoiseM", whiteNoiseM, "m");
+        Check.nonNegative("gnss.markovSigmaM", markovSigmaM, "m");
+        Check.positive("gnss.markovTimeS", markovTimeS, "s");
+        Check.nonNegative("gnss.verticalNoiseM", verticalNoiseM, "m");
+        Check.nonNegative("gnss.velocityNoiseMps", velocityNoiseMps, "m/s");
+        Check.nonNegative("gnss.courseMinSpeedMps", courseMinSpeedMps, "m/s");
+        Check.finite("gnss.leverArmForwardM", leverArmForwardM, "m");
+        Check.finite("gnss.leverArmLeftM", leverArmLeftM, "m");
+        Check.finite("gnss.leverArmUpM", leverArmUpM, "m");
+        Check.nonNegative("gnss.outliersPerHour", outliersPerHour, "1/h");
+        Check.nonNegative("gnss.outlierMinM", outlierMinM, "m");
+        Check.nonNegative("gnss.outlierMaxM", outlierMaxM, "m");
+        Check.range("gnss.outlierMaxM", outlierMinM, outlierMaxM, "m");
+        Check.nonNegative("gnss.multipathAfterExitS", multipathAfterExitS, "s");
+        Check.nonNegative("gnss.multipathMinM", multipathMinM, "m");
+        Check.nonNegative("gnss.multipathMaxM", multipathMaxM, "m");
+        Check.range("gnss.multipathMaxM", multipathMinM, multipathMaxM, "m");
+        Check.probability("gnss.canyonFaultProbability", canyonFaultProbability);
+        Check.probability("gnss.canyonDropProbability", canyonDropProbability);
     }
 
     /**

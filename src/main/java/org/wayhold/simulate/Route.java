@@ -3,6 +3,7 @@ package org.wayhold.simulate;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import org.wayhold.settings.Check;
 
 /**
  * A planned drive: speed and yaw rate as piecewise-linear functions of time, plus the stretches where
@@ -23,6 +24,24 @@ public final class Route {
     public static final double TICK_S = 0.01;
     /** Ticks per second; the grid is counted in integer ticks so no time is ever rounded. */
     public static final int TICKS_PER_S = 100;
+
+    /**
+     * A sample rate must divide the 100 Hz tick grid so every sample falls on a tick.
+     *
+     * @param field   the settings field, for the message
+     * @param rateHz  the sample rate (Hz)
+     * @return ticks between samples
+     */
+    static int ticksPerSample(String field, double rateHz) {
+        Check.positive(field, rateHz, "Hz");
+        double ticks = TICKS_PER_S / rateHz;
+        long whole = Math.round(ticks);
+        if (whole < 1 || Math.abs(ticks - whole) > 1e-9) {
+            throw new IllegalArgumentException(field + ": must divide " + TICKS_PER_S
+                    + " Hz (for example 100, 50, 25, 20, 10, 5, 1), was " + rateHz + " Hz");
+        }
+        return (int) whole;
+    }
 
     private final double initialYawRad;
     private final long[] knotTick;
@@ -149,9 +168,9 @@ public final class Route {
         private long openCanyon = -1;
 
         private Builder(double yawRad, double speedMps, double yawRateRadPerS) {
-            requireFinite("yawRad", yawRad, "rad");
-            requireFinite("speedMps", speedMps, "m/s");
-            requireFinite("yawRateRadPerS", yawRateRadPerS, "rad/s");
+            Check.finite("yawRad", yawRad, "rad");
+            Check.finite("speedMps", speedMps, "m/s");
+            Check.finite("yawRateRadPerS", yawRateRadPerS, "rad/s");
             this.initialYawRad = yawRad;
             ticks.add(0L);
             speeds.add(speedMps);
@@ -172,8 +191,8 @@ public final class Route {
          * @param durationS      ramp length (s, > 0, rounded to the 10 ms grid)
          */
         public Builder rampTo(double speedMps, double yawRateRadPerS, double durationS) {
-            requireFinite("speedMps", speedMps, "m/s");
-            requireFinite("yawRateRadPerS", yawRateRadPerS, "rad/s");
+            Check.finite("speedMps", speedMps, "m/s");
+            Check.finite("yawRateRadPerS", yawRateRadPerS, "rad/s");
             long n = Math.round(durationS * TICKS_PER_S);
             if (!(durationS > 0) || n < 1) {
                 throw new IllegalArgumentException("durationS: must be at least one tick of " + TICK_S
@@ -268,12 +287,6 @@ public final class Route {
                 w[i] = yawRates.get(i);
             }
             return new Route(initialYawRad, t, v, w, tunnels, canyons);
-        }
-
-        private static void requireFinite(String field, double value, String unit) {
-            if (!Double.isFinite(value)) {
-                throw new IllegalArgumentException(field + ": must be a finite number of " + unit + ", was " + value);
-            }
         }
     }
 }

@@ -1,6 +1,7 @@
 package org.wayhold.simulate;
 
 import java.util.List;
+import org.wayhold.settings.Check;
 
 /**
  * The invented scenario: where and when the drive happens and what the generated route contains.
@@ -38,18 +39,18 @@ public record RouteSettings(double durationS, List<Double> tunnelsS, List<Double
                             double referenceRateHz) {
 
     public RouteSettings {
-        Require.positive("route.durationS", durationS, "s");
+        Check.positive("route.durationS", durationS, "s");
         tunnelsS = List.copyOf(tunnelsS);
         canyonsS = List.copyOf(canyonsS);
         for (double d : tunnelsS) {
-            Require.positive("route.tunnelsS[]", d, "s");
+            Check.positive("route.tunnelsS[]", d, "s");
         }
         for (double d : canyonsS) {
-            Require.positive("route.canyonsS[]", d, "s");
+            Check.positive("route.canyonsS[]", d, "s");
         }
-        Require.nonNegative("route.warmUpS", warmUpS, "s");
-        Require.nonNegative("route.minGapS", minGapS, "s");
-        Require.finite("route.startT", startT, "s");
+        Check.nonNegative("route.warmUpS", warmUpS, "s");
+        Check.nonNegative("route.minGapS", minGapS, "s");
+        Check.finite("route.startT", startT, "s");
         if (!(originLatDeg >= -89.0 && originLatDeg <= 89.0)) {
             // The local tangent plane is meaningless for a drive of kilometres at the pole itself.
             throw new IllegalArgumentException("route.originLatDeg: must lie within [-89, 89] degrees, was "
@@ -59,15 +60,15 @@ public record RouteSettings(double durationS, List<Double> tunnelsS, List<Double
             throw new IllegalArgumentException("route.originLonDeg: must lie within [-180, 180] degrees, was "
                     + originLonDeg);
         }
-        Require.finite("route.originAltM", originAltM, "m");
-        Require.positive("route.minSpeedMps", minSpeedMps, "m/s");
-        Require.positive("route.maxSpeedMps", maxSpeedMps, "m/s");
-        Require.range("route.maxSpeedMps", minSpeedMps, maxSpeedMps, "m/s");
-        Require.positive("route.maxLateralAccelMps2", maxLateralAccelMps2, "m/s^2");
-        Require.positive("route.standstillS", standstillS, "s");
-        Require.positive("route.reverseSpeedMps", reverseSpeedMps, "m/s");
-        Require.positive("route.reverseDistanceM", reverseDistanceM, "m");
-        Require.gridRate("route.referenceRateHz", referenceRateHz);
+        Check.finite("route.originAltM", originAltM, "m");
+        Check.positive("route.minSpeedMps", minSpeedMps, "m/s");
+        Check.positive("route.maxSpeedMps", maxSpeedMps, "m/s");
+        Check.range("route.maxSpeedMps", minSpeedMps, maxSpeedMps, "m/s");
+        Check.positive("route.maxLateralAccelMps2", maxLateralAccelMps2, "m/s^2");
+        Check.positive("route.standstillS", standstillS, "s");
+        Check.positive("route.reverseSpeedMps", reverseSpeedMps, "m/s");
+        Check.positive("route.reverseDistanceM", reverseDistanceM, "m");
+        Route.ticksPerSample("route.referenceRateHz", referenceRateHz);
     }
 
     /**

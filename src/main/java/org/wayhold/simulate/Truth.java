@@ -1,5 +1,7 @@
 package org.wayhold.simulate;
 
+import org.wayhold.settings.Check;
+
 /**
  * The true state of the simulated vehicle's reference point at one instant.
  *
@@ -15,13 +17,13 @@ public record Truth(double t, double eastM, double northM, double yawRad, double
                     double yawRateRadPerS, double distanceM) {
 
     public Truth {
-        requireFinite("t", t, "s");
-        requireFinite("eastM", eastM, "m");
-        requireFinite("northM", northM, "m");
-        requireFinite("yawRad", yawRad, "rad");
-        requireFinite("speedMps", speedMps, "m/s");
-        requireFinite("yawRateRadPerS", yawRateRadPerS, "rad/s");
-        requireFinite("distanceM", distanceM, "m");
+        Check.finite("t", t, "s");
+        Check.finite("eastM", eastM, "m");
+        Check.finite("northM", northM, "m");
+        Check.finite("yawRad", yawRad, "rad");
+        Check.finite("speedMps", speedMps, "m/s");
+        Check.finite("yawRateRadPerS", yawRateRadPerS, "rad/s");
+        Check.finite("distanceM", distanceM, "m");
         if (distanceM < 0.0) {
             throw new IllegalArgumentException("distanceM: must be >= 0 m, was " + distanceM);
         }
@@ -45,11 +47,5 @@ public record Truth(double t, double eastM, double northM, double yawRad, double
      */
     public double bodyPointNorthM(double forwardM, double leftM) {
         return northM + forwardM * StrictMath.sin(yawRad) + leftM * StrictMath.cos(yawRad);
-    }
-
-    private static void requireFinite(String field, double value, String unit) {
-        if (!Double.isFinite(value)) {
-            throw new IllegalArgumentException(field + ": must be a finite number of " + unit + ", was " + value);
-        }
     }
 }

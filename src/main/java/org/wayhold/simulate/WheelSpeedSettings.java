@@ -1,5 +1,7 @@
 package org.wayhold.simulate;
 
+import org.wayhold.settings.Check;
+
 /**
  * Error model of the simulated wheel-speed sensor: reading = true speed * (1 + scaleError) + white
  * noise, then rounded to the quantum. A vehicle standing still reads exactly zero (no wheel pulses).
@@ -12,13 +14,13 @@ package org.wayhold.simulate;
 public record WheelSpeedSettings(double rateHz, double scaleError, double noiseMps, double quantumMps) {
 
     public WheelSpeedSettings {
-        Require.gridRate("wheelSpeed.rateHz", rateHz);
+        Route.ticksPerSample("wheelSpeed.rateHz", rateHz);
         if (!(scaleError > -0.5 && scaleError < 0.5)) {
             throw new IllegalArgumentException("wheelSpeed.scaleError: must lie in (-0.5, 0.5) (unitless), was "
                     + scaleError);
         }
-        Require.nonNegative("wheelSpeed.noiseMps", noiseMps, "m/s");
-        Require.nonNegative("wheelSpeed.quantumMps", quantumMps, "m/s");
+        Check.nonNegative("wheelSpeed.noiseMps", noiseMps, "m/s");
+        Check.nonNegative("wheelSpeed.quantumMps", quantumMps, "m/s");
     }
 
     /**

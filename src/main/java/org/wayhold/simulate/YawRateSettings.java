@@ -1,5 +1,7 @@
 package org.wayhold.simulate;
 
+import org.wayhold.settings.Check;
+
 /**
  * Error model of the simulated yaw-rate gyro: reading = true rate + bias(t) + white noise, where
  * bias(t) starts at exactly {@code biasDegPerS} (a fixed value, not drawn from the seed) and then
@@ -16,11 +18,11 @@ public record YawRateSettings(double rateHz, double biasDegPerS, double biasRand
                               double noiseDegPerS) {
 
     public YawRateSettings {
-        Require.gridRate("yawRate.rateHz", rateHz);
-        Require.finite("yawRate.biasDegPerS", biasDegPerS, "deg/s");
-        Require.nonNegative("yawRate.biasRandomWalkDegPerSPerSqrtS", biasRandomWalkDegPerSPerSqrtS,
+        Route.ticksPerSample("yawRate.rateHz", rateHz);
+        Check.finite("yawRate.biasDegPerS", biasDegPerS, "deg/s");
+        Check.nonNegative("yawRate.biasRandomWalkDegPerSPerSqrtS", biasRandomWalkDegPerSPerSqrtS,
                 "deg/s per sqrt(s)");
-        Require.nonNegative("yawRate.noiseDegPerS", noiseDegPerS, "deg/s");
+        Check.nonNegative("yawRate.noiseDegPerS", noiseDegPerS, "deg/s");
     }
 
     /** 100 Hz, +0.2 deg/s bias, 0.002 deg/s per sqrt(s) bias walk, 0.1 deg/s noise per reading. */
