@@ -62,7 +62,7 @@ echo "server_sessions $SESSIONS"
 echo "heap_after_gc_mib start $HEAP0 end $HEAP1 (max $XMX)"
 echo "server_rss_mib $(rss_mib)"
 echo "largest wayhold classes after GC (instances, bytes):"
-jcmd "$PID" GC.class_histogram | awk '/org\.wayhold\./ { printf "  %s %s %s\n", $4, $2, $3 }' | head -6
+jcmd "$PID" GC.class_histogram | awk '/org\.wayhold\./ && n < 6 { printf "  %s %s %s\n", $4, $2, $3; n++ }'
 if grep -q -E 'Exception|ERROR' "$WORK/server.out"; then
   echo "server_log_errors $(grep -c -E 'Exception|ERROR' "$WORK/server.out")"
   grep -m 5 -E 'Exception|ERROR' "$WORK/server.out"
