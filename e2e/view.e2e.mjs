@@ -317,6 +317,15 @@ async function attempt(browser, t0, shots) {
     ]);
     const pollLink = await polled.page.textContent('#link');
     check('the page without EventSource falls back to polling', /polling/.test(pollLink), `link text: ${pollLink}`);
+    // The window's name must not promise more track than is drawn: the drive is shorter than 10 min,
+    // so the widest window says how much is held.
+    await live.page.selectOption('#window-select', '600');
+    const note = await live.page.waitForFunction(() => {
+      const text = document.getElementById('window-note').textContent;
+      return /^\d+(\.\d)? min held$/.test(text) ? text : false;
+    }, null, { timeout: 5000, polling: 100 }).then((h) => h.jsonValue(), () => null);
+    check('a track shorter than the chosen window says how much of it is held',
+      note && parseFloat(note) > 0 && parseFloat(note) < 10, `note: ${note}`);
 
     // 3. Screenshots of the long tunnel and of the end of the drive (not checks: whether 90 s without
     // fixes passes the alert limit depends on the filter's tuning).

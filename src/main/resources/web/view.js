@@ -34,6 +34,11 @@
   const FIX_OVERLAP_S = 3;
   /** Smallest on-screen spacing of fixes the filter used (CSS px, before large type); others are all drawn. */
   const FIX_SPACING_PX = 10;
+  /**
+   * The track is said to fall short of the chosen window when its first pose is more than this much
+   * later than the window's start (s): a few seconds are the spacing of poses, not missing history.
+   */
+  const WINDOW_SHORT_S = 5;
   /** Fix outcomes, as the service names them, in drawing order (rarer, more telling ones on top). */
   const OUTCOMES = ['accepted', 'initializing', 'reacquired', 'unusable', 'pending', 'gated'];
   /** Outcomes that corrected or started the estimate: many, so thinned on screen. */
@@ -700,7 +705,24 @@
 
   const f1 = (v) => (Math.round(v * 10) / 10).toString();
 
+  /**
+   * Says how much track is drawn when that is less than the chosen window. The service keeps
+   * history.max_poses poses per vehicle (about 2 minutes at the defaults) and the page keeps only what
+   * it has received since it opened, so "last 10 min" may show less; the note says so in words
+   * rather than letting the window's name promise more.
+   */
+  function renderWindowNote() {
+    const note = $('window-note');
+    const tr = view.track;
+    let text = '';
+    if (view.latest && tr.length > 1 && tr[0].t > view.latest.t - view.windowS + WINDOW_SHORT_S) {
+      text = `${f1((view.latest.t - tr[0].t) / 60)} min held`;
+    }
+    if (note.textContent !== text) note.textContent = text;
+  }
+
   function renderPlot() {
+    renderWindowNote();
     const box = $('plot');
     const w = box.clientWidth;
     const h = box.clientHeight;
