@@ -21,7 +21,8 @@ import org.wayhold.session.VehicleSession;
  *   <li>{@code wayhold_samples_rejected_total{type, reason}}: rejected lines; {@code reason} is the class
  *       {@code malformed} (not a JSON object, bad syntax, line too long), {@code invalid} (a field is
  *       missing or out of range; {@code type} is then {@code unknown} because the line never became a
- *       sample), {@code late} or {@code ahead} (outside the session's time-ordering window);</li>
+ *       sample), {@code late} or {@code ahead} (outside the session's time-ordering window), or
+ *       {@code off_timeline} (far from the other times of a vehicle's first batch);</li>
  *   <li>{@code wayhold_sessions}: vehicle sessions held;</li>
  *   <li>{@code wayhold_outages_active}: sessions whose latest pose is in a GNSS outage;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
@@ -97,6 +98,9 @@ final class ServiceMetrics {
         }
         if (r.contains("ahead")) {
             return "ahead";
+        }
+        if (r.contains("median time of the vehicle's first samples")) {
+            return "off_timeline";
         }
         return "invalid";
     }

@@ -66,6 +66,86 @@ public final class ReorderBuffer<C> {
         if (batch.isEmpty()) {
             return List.of();
         }
+        if (newest == null && batch.size() >= FIRST_BATCH_QUORUM) {
+            boolean[] keep = firstBatchKept(batch, maxForwardJumpS);
+            int kept = 0;
+            for (boolean k : keep) {
+                kept += k ? 1 : 0;
+            }
+            if (kept < batch.size()) {
+                return submitFirstWithout(batch, keep);
+            }
+        }
+        return submitChecked(batch);
+    }
+
+    /**
+     * Fewest samples in a session's first batch for their times to be checked against each other
+     * (count): with two there is no majority to say which one is wrong.
+     */
+    public static final int FIRST_BATCH_QUORUM = 3;
+
+    /**
+     * Which samples of a session's first batch to keep. The first batch sets the session's timeline,
+     * so a single sample with a wrong time (a clock not yet set, a wrong epoch) would make every later
+     * correct sample late, or too far ahead, by a large amount. With at least
+     * {@link #FIRST_BATCH_QUORUM} samples the median time stands for the batch (one wrong time cannot
+     * move it past a correct one), and a sample more than {@code max_forward_jump_s} from it is refused,
+     * as it would be by an established timeline. Smaller batches are kept whole.
+     *
+     * @param maxForwardJumpS the largest allowed distance from the median (s)
+     * @return per sample, in the order given, whether it stays
+     */
+    public static boolean[] firstBatchKept(List<? extends Sample> batch, double maxForwardJumpS) {
+        int n = batch.size();
+        boolean[] keep = new boolean[n];
+        Arrays.fill(keep, true);
+        if (n < FIRST_BATCH_QUORUM) {
+            return keep;
+        }
+        double median = medianTime(batch);
+        for (int i = 0; i < n; i++) {
+            keep[i] = Math.abs(batch.get(i).t() - median) <= maxForwardJumpS;
+        }
+        return keep;
+    }
+
+    private static double medianTime(List<? extends Sample> batch) {
+        double[] times = new double[batch.size()];
+        for (int i = 0; i < times.length; i++) {
+            times[i] = batch.get(i).t();
+        }
+        Arrays.sort(times);
+        return times[times.length / 2];
+    }
+
+    /** A first batch with samples far from the others' times: those are refused, the rest submitted. */
+    private List<Admission> submitFirstWithout(List<? extends Sample> batch, boolean[] keep) {
+        double median = medianTime(batch);
+        List<Sample> kept = new ArrayList<>(batch.size());
+        for (int i = 0; i < batch.size(); i++) {
+            if (keep[i]) {
+                kept.add(batch.get(i));
+            }
+        }
+        List<Admission> keptResult = submitChecked(kept);
+        Admission[] result = new Admission[batch.size()];
+        int k = 0;
+        for (int i = 0; i < batch.size(); i++) {
+            if (keep[i]) {
+                result[i] = keptResult.get(k++);
+            } else {
+                rejected++;
+                result[i] = Admission.rejected(String.format(Locale.ROOT,
+                        "t: %.3f s from the median time of the vehicle's first samples (%.3f s), more than the"
+                                + " allowed %.3f s", Math.abs(batch.get(i).t() - median), median, maxForwardJumpS));
+            }
+        }
+        return List.of(result);
+    }
+
+    /** {@link #submit} once the first batch's times are known to agree. */
+    private List<Admission> submitChecked(List<? extends Sample> batch) {
         if (appendedInOrder(batch)) {
             return Collections.nCopies(batch.size(), Admission.APPLIED);
         }

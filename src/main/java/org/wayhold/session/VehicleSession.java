@@ -88,9 +88,13 @@ public final class VehicleSession {
             return List.of();
         }
         if (Double.isNaN(epochT)) {
+            // From the samples the ordering will keep: one with a wrong time must not set the epoch.
+            boolean[] keep = ReorderBuffer.firstBatchKept(samples, settings.ordering().maxForwardJumpS());
             double first = Double.POSITIVE_INFINITY;
-            for (Sample s : samples) {
-                first = Math.min(first, s.t());
+            for (int i = 0; i < samples.size(); i++) {
+                if (keep[i]) {
+                    first = Math.min(first, samples.get(i).t());
+                }
             }
             epochT = Math.floor(first);
         }

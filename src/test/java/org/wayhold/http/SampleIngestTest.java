@@ -96,6 +96,31 @@ class SampleIngestTest {
     }
 
     @Test
+    void aWrongTimeInAVehiclesFirstPostIsRejectedAndCountedAsOffTimeline() {
+        // Line 3 was stamped before the logger's clock was set (seconds since 1970 of a fresh boot).
+        String body = """
+                {"type":"yaw_rate","t":1800000000.00,"rate":0.0}
+                {"type":"wheel_speed","t":1800000000.00,"speed":3.0}
+                {"type":"yaw_rate","t":42.00,"rate":0.0}
+                {"type":"yaw_rate","t":1800000000.01,"rate":0.0}
+                """;
+        JsonNode reply = post("clockless", "application/x-ndjson", body);
+        assertThat(reply.get("accepted").asLong()).isEqualTo(3);
+        JsonNode rejected = reply.get("rejected");
+        assertThat(rejected).hasSize(1);
+        assertThat(rejected.get(0).get("line").asLong()).isEqualTo(3);
+        assertThat(rejected.get(0).get("error").asText()).startsWith("t:").contains("first samples");
+        assertThat(server.get("/metrics").body())
+                .contains("wayhold_samples_rejected_total{reason=\"off_timeline\",type=\"yaw_rate\"} 1.0");
+        // The timeline is the correct one: the next second is accepted whole.
+        String next = """
+                {"type":"yaw_rate","t":1800000001.00,"rate":0.0}
+                {"type":"wheel_speed","t":1800000001.00,"speed":3.0}
+                """;
+        assertThat(post("clockless", "application/x-ndjson", next).get("accepted").asLong()).isEqualTo(2);
+    }
+
+    @Test
     void lineNumbersStayRightAcrossReadBuffersAndSubmissionChunks() {
         // 12 000 lines of about 50 bytes: several 64 KiB read buffers and three submissions of 4096
         // samples. Every 7th line is blank. Line 11 001 is a yaw-rate sample from the drive's first

@@ -199,11 +199,53 @@ class ReorderBufferTest {
         assertThat(rec.applied).isEqualTo(expected);
     }
 
+    @Test
+    void aWrongTimeInTheFirstBatchIsRefusedAndDoesNotSetTheTimeline() {
+        // A logger whose clock was not yet set, or counted from another epoch, among correct samples:
+        // one far ahead and one far behind the others. The median of the batch is a correct time.
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        List<Sample> first = new ArrayList<>(streams(1.8e9, 1.0));
+        first.add(1, new WheelSpeed(1.8e9 + 4.0e6, 3.0));
+        first.add(new YawRate(315_964_800.0, 0.1));
+        List<Admission> a = buffer.submit(first);
+        assertThat(a.get(1).kind()).isEqualTo(Admission.Kind.REJECTED);
+        assertThat(a.get(1).reason()).startsWith("t: ").contains("median time of the vehicle's first samples")
+                .contains("3600.000 s");
+        assertThat(a.get(a.size() - 1).kind()).isEqualTo(Admission.Kind.REJECTED);
+        assertThat(a).filteredOn(x -> x.kind() == Admission.Kind.APPLIED).hasSize(first.size() - 2);
+        assertThat(buffer.newestT()).isLessThan(1.8e9 + 1.0);
+        assertThat(buffer.rejected()).isEqualTo(2);
+        // The next correct second is applied: the timeline is the correct one.
+        List<Admission> b = buffer.submit(streams(1.8e9 + 1.0, 1.0));
+        assertThat(b).allMatch(x -> x.kind() == Admission.Kind.APPLIED);
+        List<Sample> expected = new ArrayList<>(streams(1.8e9, 1.0));
+        expected.addAll(streams(1.8e9 + 1.0, 1.0));
+        expected.sort(SampleOrder.BY_TIME_THEN_TYPE);
+        assertThat(rec.applied).isEqualTo(expected);
+    }
+
+    @Test
+    void aFirstBatchOfTwoHasNoMajorityAndTheEarlierSampleSetsTheTimeline() {
+        // Two samples cannot say which time is wrong: the median rule keeps both, and the ordinary rule
+        // takes them in time order, so the later one is too far ahead of the earlier.
+        assertThat(ReorderBuffer.firstBatchKept(List.of(new YawRate(1.0, 0.0), new YawRate(9.0e9, 0.0)), 3600.0))
+                .containsExactly(true, true);
+        Recorder rec = new Recorder();
+        ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
+        List<Admission> a = buffer.submit(List.of(new WheelSpeed(1000.0 + 1.0e6, 1.0), new WheelSpeed(1000.0, 1.0)));
+        assertThat(a).extracting(Admission::kind).containsExactly(Admission.Kind.REJECTED, Admission.Kind.APPLIED);
+        assertThat(a.get(0).reason()).contains("ahead of the session's newest sample");
+        assertThat(buffer.newestT()).isEqualTo(1000.0);
+    }
+
     /**
      * Random batch sequences against a plain model of the rules, written from the class contract rather
-     * than from the code: each batch is taken in stable (time, type) order; a sample more than max_lag
-     * behind the newest applied one, or more than max_forward_jump ahead of it, is rejected; one equal
-     * to a sample applied before is a duplicate; anything else is applied and may advance the newest.
+     * than from the code: in a first batch of at least three samples, a sample more than
+     * max_forward_jump from the batch's median time is rejected; each batch is taken in stable (time,
+     * type) order; a sample more than max_lag behind the newest applied one, or more than
+     * max_forward_jump ahead of it, is rejected; one equal to a sample applied before is a duplicate;
+     * anything else is applied and may advance the newest.
      * What the consumer ends up with is every applied sample in stable (time, type, arrival) order.
      * Half the batches are strictly in order (the buffer's fast path), the others carry shuffles,
      * repeats, late samples, ties and jumps (its general path), in random interleavings, so both paths
@@ -253,10 +295,17 @@ class ReorderBufferTest {
 
                 List<Sample> sorted = new ArrayList<>(batch);
                 sorted.sort(SampleOrder.BY_TIME_THEN_TYPE);
+                double firstMedian = Double.NaN;
+                if (Double.isNaN(modelNewest) && batch.size() >= 3) {
+                    double[] times = batch.stream().mapToDouble(Sample::t).sorted().toArray();
+                    firstMedian = times[times.length / 2];
+                }
                 java.util.Map<Sample, Admission.Kind> expected = new java.util.IdentityHashMap<>();
                 for (Sample s : sorted) {
                     Admission.Kind kind;
-                    if (!Double.isNaN(modelNewest) && (modelNewest - s.t() > maxLag || s.t() - modelNewest > maxJump)) {
+                    if (!Double.isNaN(firstMedian) && Math.abs(s.t() - firstMedian) > maxJump) {
+                        kind = Admission.Kind.REJECTED;
+                    } else if (!Double.isNaN(modelNewest) && (modelNewest - s.t() > maxLag || s.t() - modelNewest > maxJump)) {
                         kind = Admission.Kind.REJECTED;
                     } else if (modelApplied.contains(s)) {
                         kind = Admission.Kind.DUPLICATE;

@@ -157,6 +157,26 @@ class VehicleSessionOrderingTest {
     }
 
     @Test
+    void aWrongTimeInTheFirstBatchNeitherSetsTheEpochNorBlocksTheDrive() {
+        // The first post carries one sample stamped by a clock that was not yet set (counted from 1970):
+        // it is refused, and the drive then runs exactly as if it had never been sent.
+        List<Sample> drive = SyntheticDrive.generate(T0, 20.0, Double.NaN, 0.0, 11L);
+        VehicleSession reference = inOrder(drive);
+        VehicleSession s = new VehicleSession("car-1", Settings.defaults(), null);
+        List<Sample> first = new ArrayList<>(drive.subList(0, 50));
+        first.add(7, new YawRate(12.5, 0.02));
+        List<Admission> a = s.submit(first);
+        assertThat(a.get(7).kind()).isEqualTo(Admission.Kind.REJECTED);
+        assertThat(a.get(7).reason()).contains("first samples");
+        for (int i = 50; i < drive.size(); i += 40) {
+            List<Admission> b = s.submit(drive.subList(i, Math.min(drive.size(), i + 40)));
+            assertThat(b).allMatch(x -> x.kind() == Admission.Kind.APPLIED);
+        }
+        assertThat(fullTrack(s)).isEqualTo(fullTrack(reference));
+        assertThat(s.latest()).isEqualTo(reference.latest());
+    }
+
+    @Test
     void twoSessionsFedTheSameBatchesGiveIdenticalPoses() {
         List<Sample> drive = SyntheticDrive.generate(T0, 60.0, 20.0, 35.0, 10L);
         VehicleSession a = new VehicleSession("car-1", Settings.defaults(), null);
