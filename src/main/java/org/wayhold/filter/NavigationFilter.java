@@ -92,6 +92,12 @@ public final class NavigationFilter {
     private boolean standstill;
 
     private double correlatedVarM2;
+    /**
+     * exp(-dt / tau) of the last step length {@link #decayDtS}: at a steady input rate every step has
+     * the same length, and the exponential is a large share of a step. A cache, not state.
+     */
+    private double decayDtS = Double.NaN;
+    private double decayForDt;
     private double odometerM;
     private double lastUsedFixTRel = Double.NaN;
     private double lastFixTRel = Double.NaN;
@@ -481,8 +487,14 @@ public final class NavigationFilter {
         if (!initialized) {
             return;
         }
-        double tau = settings.gnssCorrelationTimeS();
-        double decay = Math.exp(-dt / tau);
+        double decay;
+        if (dt == decayDtS) {
+            decay = decayForDt;
+        } else {
+            decay = Math.exp(-dt / settings.gnssCorrelationTimeS());
+            decayDtS = dt;
+            decayForDt = decay;
+        }
         MotionModel.step(x, wheel, rate, dt, standstill, decay, xNext, f, inputJac);
         System.arraycopy(xNext, 0, x, 0, SIZE);
         x[YAW] = Angles.wrapPi(x[YAW]);
