@@ -23,7 +23,9 @@ import org.wayhold.settings.OrderingSettings;
  * {@link #CHECKPOINT_INTERVAL_S}. A batch whose earliest sample is older than the newest applied one
  * returns the consumer to the newest checkpoint before that sample and re-applies the kept samples
  * merged with the new ones, so the outcome is identical to in-order processing. A batch costs at most
- * one such rewind. Not thread-safe: one writer per vehicle.
+ * one such rewind. The very first batch has no timeline to be judged against, so its samples are
+ * judged against their own median time ({@link #firstBatchKept}). Not thread-safe: one writer per
+ * vehicle.
  *
  * @param <C> the consumer's checkpoint type
  */
