@@ -472,13 +472,21 @@ public final class Journal implements Closeable {
     }
 
     /**
-     * Deletes older snapshots, and segments whose every record precedes the snapshot's floor once they
-     * are older than the retention age or push the journal past the retention size, oldest first.
-     * Segments a snapshot does not cover are never deleted.
+     * Keeps the newest two snapshots and deletes older ones, then deletes segments whose every record
+     * precedes the older kept snapshot's floor once they are older than the retention age or push the
+     * journal past the retention size, oldest first. Two, because a snapshot that cannot be read at
+     * the next start (a bad sector, a damaged copy of the directory) makes recovery fall back to the one
+     * before it, and that one needs every record after its own floor; while there is only one snapshot,
+     * no segment is deleted, since the fallback is then a replay from the start.
+     *
+     * @param floorSeq the floor of the snapshot just written (the newest)
      */
     private void applyRetention(long floorSeq) throws IOException {
-        for (Path p : list(SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX)) {
-            if (seqOf(p, SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX) < floorSeq) {
+        List<Path> snapshots = list(SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX);
+        long keptFloor = snapshots.size() < 2 ? 0
+                : Math.min(floorSeq, seqOf(snapshots.get(snapshots.size() - 2), SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX));
+        for (Path p : snapshots) {
+            if (seqOf(p, SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX) < keptFloor) {
                 Files.deleteIfExists(p);
             }
         }
@@ -491,7 +499,7 @@ public final class Journal implements Closeable {
         for (int i = 0; i + 1 < segments.size(); i++) {
             Path p = segments.get(i);
             long nextFirst = seqOf(segments.get(i + 1), SEGMENT_PREFIX, SEGMENT_SUFFIX);
-            boolean coveredBySnapshot = nextFirst <= floorSeq;
+            boolean coveredBySnapshot = nextFirst <= keptFloor;
             double ageS = (now - Files.getLastModifiedTime(p).toMillis()) / 1000.0;
             if (coveredBySnapshot && (ageS > settings.retentionAgeS() || total > settings.retentionBytes())) {
                 total -= Files.size(p);

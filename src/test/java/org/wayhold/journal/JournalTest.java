@@ -208,6 +208,55 @@ class JournalTest {
     }
 
     @Test
+    void anUnreadableNewestSnapshotFallsBackToThePreviousOneWithEveryRecordAfterIt(@TempDir Path dir)
+            throws IOException {
+        // Segments of at most 4 KiB and a retention of a microsecond: everything retention may delete,
+        // it deletes. Snapshots after batches 10, 20 and 30 stand for the sessions with their floor.
+        JournalSettings eager = new JournalSettings(true, 0.0, 4096, 1e-6, 4096, 60.0);
+        long[] floors = new long[3];
+        try (Journal j = Journal.open(dir, eager)) {
+            j.recover(new Recorder());
+            for (int k = 0; k < 40; k++) {
+                Journal.await(j.append("van-" + (k % 2), batch(k)));
+                if (k % 10 == 9 && k < 39) {
+                    int n = k / 10;
+                    floors[n] = j.nextSeq();
+                    j.writeSnapshot(floors[n], List.of(new Journal.SessionSnapshot("van-0", floors[n] - 1,
+                            ("state " + n).getBytes(java.nio.charset.StandardCharsets.UTF_8))));
+                }
+            }
+        }
+        Path newest;
+        try (Stream<Path> s = Files.list(dir)) {
+            List<Path> snaps = s.filter(p -> p.getFileName().toString().startsWith("snapshot-")).sorted().toList();
+            assertThat(snaps).as("the newest two snapshots are kept").hasSize(2);
+            newest = snaps.get(1);
+        }
+        // The newest snapshot is damaged after it was written (one flipped byte in its body).
+        try (RandomAccessFile f = new RandomAccessFile(newest.toFile(), "rw")) {
+            f.seek(f.length() / 2);
+            int b = f.read();
+            f.seek(f.length() / 2);
+            f.write(b ^ 0x40);
+        }
+        Recorder r = new Recorder();
+        Journal.RecoveryReport report;
+        try (Journal j = Journal.open(dir, eager)) {
+            report = j.recover(r);
+        }
+        assertThat(report.notes()).anyMatch(n -> n.contains("unreadable, an older one is used"));
+        assertThat(new String(r.restored.get("van-0"), java.nio.charset.StandardCharsets.UTF_8)).isEqualTo("state 1");
+        // Every record from the older snapshot's floor on is replayed, none missing, in order.
+        List<Long> seqs = r.events.stream().filter(e -> e.startsWith("replay ")).map(e -> Long.parseLong(e.split(" ")[2]))
+                .toList();
+        assertThat(seqs).first().isEqualTo(floors[1]);
+        for (int i = 1; i < seqs.size(); i++) {
+            assertThat(seqs.get(i)).isEqualTo(seqs.get(i - 1) + 1);
+        }
+        assertThat(r.batches.get(r.batches.size() - 1)).isEqualTo(batch(39));
+    }
+
+    @Test
     void sessionsRestoredFromASnapshotAndTheJournalEqualAnUninterruptedRun(@TempDir Path dir) throws IOException {
         Settings settings = Settings.defaults();
         SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(4).withTunnelsS(30),
@@ -235,7 +284,8 @@ class JournalTest {
                     }
                     lastSeq.put(id, seq);
                 }
-                if (i == batches.size() / 2) {
+                // Two snapshots: segments before the older one's floor may then go (see applyRetention).
+                if (i == batches.size() / 3 || i == batches.size() / 2) {
                     long floor = j.nextSeq();
                     List<Journal.SessionSnapshot> snaps = new ArrayList<>();
                     for (Map.Entry<String, VehicleSession> e : live.entrySet()) {
@@ -279,7 +329,7 @@ class JournalTest {
         }
         try (Stream<Path> s = Files.list(dir)) {
             assertThat(s.filter(p -> p.toString().endsWith(".wal")).count())
-                    .as("segments covered by the snapshot and past the 64 KiB retention are deleted")
+                    .as("segments covered by the older of the two snapshots and past the 64 KiB retention are deleted")
                     .isLessThan(2L * batches.size() * 157 * 20 / (64 * 1024));
         }
     }
