@@ -25,21 +25,27 @@ import org.wayhold.session.SessionLimitException;
  * trace goes to the server log only. CORS preflights ({@code OPTIONS} with
  * {@code Access-Control-Request-Method}) are left to the CORS plugin and never get a problem body.
  *
- * <p>A refusal that comes before the body is read (a missing token, a wrong media type, a rate limit)
- * first reads and discards what is left of the body, up to the body size limit. Otherwise the server
- * closes the connection with unread bytes in its receive buffer; TCP then answers the client's
- * further bytes with a reset, which can destroy the reply before the client reads it (RFC 9112
- * sec. 9.6 describes this hazard and the "lingering close" it calls for). Clients that send the
- * whole body before reading, the JDK's own among them, then saw no reply at all instead of the 401.
- * A body declared larger than the limit is not read: that 413 closes the connection and says so
- * ({@code Connection: close}); a client that wants to learn of it before sending the body sends
- * {@code Expect: 100-continue} (RFC 9110 sec. 10.1.1).
+ * <p>A refusal that comes before the body is read (a missing token, a wrong media type, a rate limit,
+ * a declared length over the limit) first reads and discards what is left of the body, up to
+ * {@link #DRAIN_FACTOR} times the body size limit. Otherwise the server closes the connection with
+ * unread bytes in its receive buffer; TCP then answers the client's further bytes with a reset, which
+ * can destroy the reply before the client reads it (RFC 9112 sec. 9.6 describes this hazard and the
+ * "lingering close" it calls for). Clients that send the whole body before reading, the JDK's own
+ * among them, then saw no reply at all instead of the 401 or 413. A body beyond that bound is not read:
+ * the reply closes the connection and says so ({@code Connection: close}); a client that wants to
+ * learn of a refusal before sending the body sends {@code Expect: 100-continue} (RFC 9110 sec. 10.1.1).
  */
 final class ErrorMapping {
 
     private static final Logger LOG = LoggerFactory.getLogger(ErrorMapping.class);
     static final String PROBLEM_JSON = "application/problem+json";
     private static final String WRITTEN = "wayhold.problem-written";
+    /**
+     * Most a refusal reads of a body, as a multiple of the body size limit (count): enough that a body
+     * a little over the limit still gets its 413 on a kept connection, bounded so that a refused
+     * request never costs more than twice the largest accepted one.
+     */
+    static final int DRAIN_FACTOR = 2;
 
     private ErrorMapping() {
     }
@@ -123,9 +129,9 @@ final class ErrorMapping {
 
     /**
      * Reads and drops the rest of the request body, unless it is declared larger than
-     * {@code maxBodyBytes}; stops after that many bytes in any case. A body already read to its end
-     * costs one call that returns at once. Read errors are ignored: the connection is then closed
-     * anyway, and the refusal is still written.
+     * {@link #DRAIN_FACTOR} times {@code maxBodyBytes}; stops after that many bytes in any case. A body
+     * already read to its end costs one call that returns at once. Read errors are ignored: the
+     * connection is then closed anyway, and the refusal is still written.
      */
     static void discardUnreadBody(Context ctx, long maxBodyBytes) {
         long declared = ctx.req().getContentLengthLong();
@@ -133,12 +139,13 @@ final class ErrorMapping {
         if (declared == 0 || (declared < 0 && !chunked)) {
             return;
         }
-        if (declared <= maxBodyBytes) {
+        long drainBytes = maxBodyBytes > Long.MAX_VALUE / DRAIN_FACTOR ? Long.MAX_VALUE : DRAIN_FACTOR * maxBodyBytes;
+        if (declared <= drainBytes) {
             try {
                 InputStream in = ctx.req().getInputStream();
                 byte[] buf = new byte[8192];
                 long total = 0;
-                while (total <= maxBodyBytes) {
+                while (total <= drainBytes) {
                     int n = in.read(buf);
                     if (n < 0) {
                         return;
