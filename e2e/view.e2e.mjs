@@ -20,7 +20,8 @@
 // a machine so loaded that neither tunnel could be watched, the run is repeated once and says so.
 
 import { spawn } from 'node:child_process';
-import { mkdirSync, readFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
 import { chromium } from 'playwright-core';
@@ -62,10 +63,15 @@ function firstSampleT(file) {
   return JSON.parse(text.slice(0, text.indexOf('\n'))).t;
 }
 
-/** Starts the service on a free port; `ready` resolves with its base URL once the replay has begun. */
+/**
+ * Starts the service on a free port; `ready` resolves with its base URL once the replay has begun.
+ * Its journal goes to a fresh temporary directory, removed at the stop: the default `data/` would
+ * restore the last run's vehicle at the end of its drive, and the replay would then be refused as late.
+ */
 function startService() {
-  const child = spawn('java', [...JVM_ARGS, '-jar', JAR, 'serve', '--port', '0', '--replay', LOG,
-    '--speed', String(SPEED)], { stdio: ['ignore', 'pipe', 'pipe'] });
+  const dataDir = mkdtempSync(join(tmpdir(), 'wayhold-e2e-'));
+  const child = spawn('java', [...JVM_ARGS, '-jar', JAR, 'serve', '--port', '0', '--data', dataDir,
+    '--replay', LOG, '--speed', String(SPEED)], { stdio: ['ignore', 'pipe', 'pipe'] });
   let log = '';
   const exited = new Promise((resolve) => child.on('exit', resolve));
   const ready = new Promise((resolve, reject) => {
@@ -83,11 +89,13 @@ function startService() {
   });
   /** SIGTERM, and SIGKILL if the graceful stop takes more than 5 s. */
   async function stop() {
-    if (child.exitCode !== null) return;
-    child.kill('SIGTERM');
-    const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
-    await exited;
-    clearTimeout(timer);
+    if (child.exitCode === null) {
+      child.kill('SIGTERM');
+      const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
+      await exited;
+      clearTimeout(timer);
+    }
+    rmSync(dataDir, { recursive: true, force: true });
   }
   return { ready, stop };
 }
