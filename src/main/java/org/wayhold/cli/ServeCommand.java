@@ -110,6 +110,13 @@ final class ServeCommand implements Callable<Integer> {
         SessionJournal journal = SessionJournal.open(data, settings, null);
         printRecovery(out, journal, (System.nanoTime() - recoveryStart) / 1e9);
         SessionRegistry sessions = journal.sessions();
+        if (replay != null && sessions.find(vehicle).isPresent()) {
+            // A replay starts its drive from the beginning: the session an earlier replay left in the
+            // journal sits at a later time, and would refuse the replayed samples as late until the
+            // replay caught up with it.
+            sessions.delete(vehicle);
+            out.println("replay: dropped the restored session of vehicle '" + vehicle + "' to replay from the start");
+        }
         HttpService service;
         try {
             service = new HttpService(journal).start();

@@ -1,0 +1,124 @@
+package org.wayhold.cli;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.IOException;
+import java.io.InputStream;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.concurrent.TimeUnit;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import java.util.zip.GZIPInputStream;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * {@code serve --replay} on a data directory that already holds the replay vehicle (the quick start run
+ * a second time): the replay must start its drive again from the beginning, not be refused as late by
+ * the session the first run left in the journal. Runs the real command in child JVMs.
+ */
+class ServeReplayTest {
+
+    private static final Pattern SERVING = Pattern.compile("wayhold serving on (http://\\S+)");
+    private static final Path LOG = Path.of("sample-logs/open-sky.ndjson.gz");
+    private static final ObjectMapper JSON = new ObjectMapper();
+    private static final HttpClient CLIENT = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
+
+    @TempDir
+    Path tmp;
+
+    @Test
+    void aSecondReplayOnTheSameDataStartsTheDriveAgain() throws Exception {
+        double firstT;
+        double lastT;
+        try (InputStream in = new GZIPInputStream(Files.newInputStream(LOG))) {
+            String[] lines = new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8).split("\n");
+            firstT = JSON.readTree(lines[0]).get("t").asDouble();
+            lastT = JSON.readTree(lines[lines.length - 1]).get("t").asDouble();
+        }
+        Path data = tmp.resolve("data");
+
+        // First run: the whole drive at 200x (about 1.2 s), then a graceful stop that snapshots it.
+        Served first = start(data, 200.0, 1);
+        try {
+            double t = waitForPoseT(first.baseUrl, lastT - 1.0, 60);
+            assertThat(t).isGreaterThan(lastT - 1.0);
+        } finally {
+            first.stop();
+        }
+
+        // Second run at real time: within seconds the pose is near the drive's start again.
+        Served second = start(data, 1.0, 2);
+        try {
+            assertThat(Files.readString(second.output))
+                    .contains("dropped the restored session of vehicle 'replay' to replay from the start");
+            double t = waitForPoseT(second.baseUrl, firstT, 60);
+            assertThat(t).isLessThan(firstT + 30.0);
+        } finally {
+            second.stop();
+        }
+    }
+
+    private record Served(Process process, String baseUrl, Path output) {
+        void stop() throws InterruptedException {
+            process.destroy();
+            if (!process.waitFor(30, TimeUnit.SECONDS)) {
+                process.destroyForcibly();
+            }
+        }
+    }
+
+    /** The pose time of vehicle 'replay' once it exists and is at least {@code minT}; fails after a bound. */
+    private static double waitForPoseT(String baseUrl, double minT, int timeoutS) throws Exception {
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutS);
+        double t = Double.NaN;
+        while (System.nanoTime() < deadline) {
+            HttpResponse<String> r = CLIENT.send(HttpRequest.newBuilder(URI.create(baseUrl + "/v1/vehicles/replay/pose"))
+                    .GET().build(), HttpResponse.BodyHandlers.ofString());
+            if (r.statusCode() == 200) {
+                JsonNode pose = JSON.readTree(r.body());
+                t = pose.get("t").asDouble();
+                if (t >= minT) {
+                    return t;
+                }
+            }
+            Thread.sleep(50);
+        }
+        throw new AssertionError("pose of 'replay' did not reach t = " + minT + " s within " + timeoutS
+                + " s; last seen " + t);
+    }
+
+    private Served start(Path data, double speed, int run) throws Exception {
+        Path output = tmp.resolve("serve-" + run + ".log");
+        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
+        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
+        ProcessBuilder pb = new ProcessBuilder(java, "-Xmx256m", "-XX:TieredStopAtLevel=1", "-XX:+UseSerialGC",
+                "-cp", classPath, "org.wayhold.cli.Main", "serve", "--port", "0", "--data", data.toString(),
+                "--replay", LOG.toString(), "--speed", Double.toString(speed));
+        pb.redirectErrorStream(true);
+        pb.redirectOutput(output.toFile());
+        Process p = pb.start();
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(60);
+        while (System.nanoTime() < deadline) {
+            String text = Files.exists(output) ? Files.readString(output) : "";
+            Matcher m = SERVING.matcher(text);
+            if (m.find() && text.contains("replaying ")) {
+                return new Served(p, m.group(1), output);
+            }
+            if (!p.isAlive()) {
+                throw new AssertionError("serve exited with " + p.exitValue() + ":\n" + text);
+            }
+            Thread.sleep(20);
+        }
+        p.destroyForcibly();
+        throw new IOException("serve did not start within 60 s:\n" + Files.readString(output));
+    }
+}
