@@ -4,7 +4,6 @@ import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
-import java.io.IOException;
 import java.io.InputStream;
 import java.net.URI;
 import java.net.http.HttpClient;
@@ -13,12 +12,12 @@ import java.net.http.HttpResponse;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
+import java.util.List;
 import java.util.concurrent.TimeUnit;
-import java.util.regex.Matcher;
-import java.util.regex.Pattern;
 import java.util.zip.GZIPInputStream;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import org.wayhold.testing.ServeChild;
 
 /**
  * {@code serve --replay} on a data directory that already holds the replay vehicle (the quick start run
@@ -27,7 +26,6 @@ import org.junit.jupiter.api.io.TempDir;
  */
 class ServeReplayTest {
 
-    private static final Pattern SERVING = Pattern.compile("wayhold serving on (http://\\S+)");
     private static final Path LOG = Path.of("sample-logs/open-sky.ndjson.gz");
     private static final ObjectMapper JSON = new ObjectMapper();
     private static final HttpClient CLIENT = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
@@ -47,32 +45,23 @@ class ServeReplayTest {
         Path data = tmp.resolve("data");
 
         // First run: the whole drive at 200x (about 1.2 s), then a graceful stop that snapshots it.
-        Served first = start(data, 200.0, 1);
+        ServeChild first = start(data, 200.0, 1);
         try {
-            double t = waitForPoseT(first.baseUrl, lastT - 1.0, 60);
+            double t = waitForPoseT(first.baseUrl(), lastT - 1.0, 60);
             assertThat(t).isGreaterThan(lastT - 1.0);
         } finally {
             first.stop();
         }
 
         // Second run at real time: within seconds the pose is near the drive's start again.
-        Served second = start(data, 1.0, 2);
+        ServeChild second = start(data, 1.0, 2);
         try {
-            assertThat(Files.readString(second.output))
+            assertThat(Files.readString(second.output()))
                     .contains("dropped the restored session of vehicle 'replay' to replay from the start");
-            double t = waitForPoseT(second.baseUrl, firstT, 60);
+            double t = waitForPoseT(second.baseUrl(), firstT, 60);
             assertThat(t).isLessThan(firstT + 30.0);
         } finally {
             second.stop();
-        }
-    }
-
-    private record Served(Process process, String baseUrl, Path output) {
-        void stop() throws InterruptedException {
-            process.destroy();
-            if (!process.waitFor(30, TimeUnit.SECONDS)) {
-                process.destroyForcibly();
-            }
         }
     }
 
@@ -96,29 +85,8 @@ class ServeReplayTest {
                 + " s; last seen " + t);
     }
 
-    private Served start(Path data, double speed, int run) throws Exception {
-        Path output = tmp.resolve("serve-" + run + ".log");
-        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
-        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
-        ProcessBuilder pb = new ProcessBuilder(java, "-Xmx256m", "-XX:TieredStopAtLevel=1", "-XX:+UseSerialGC",
-                "-cp", classPath, "org.wayhold.cli.Main", "serve", "--port", "0", "--data", data.toString(),
-                "--replay", LOG.toString(), "--speed", Double.toString(speed));
-        pb.redirectErrorStream(true);
-        pb.redirectOutput(output.toFile());
-        Process p = pb.start();
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(60);
-        while (System.nanoTime() < deadline) {
-            String text = Files.exists(output) ? Files.readString(output) : "";
-            Matcher m = SERVING.matcher(text);
-            if (m.find() && text.contains("replaying ")) {
-                return new Served(p, m.group(1), output);
-            }
-            if (!p.isAlive()) {
-                throw new AssertionError("serve exited with " + p.exitValue() + ":\n" + text);
-            }
-            Thread.sleep(20);
-        }
-        p.destroyForcibly();
-        throw new IOException("serve did not start within 60 s:\n" + Files.readString(output));
+    private ServeChild start(Path data, double speed, int run) throws Exception {
+        return ServeChild.start(tmp.resolve("serve-" + run + ".log"), List.of("--data", data.toString(),
+                "--replay", LOG.toString(), "--speed", Double.toString(speed)), "replaying ", 60);
     }
 }

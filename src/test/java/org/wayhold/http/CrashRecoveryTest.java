@@ -38,6 +38,7 @@ import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.Settings;
+import org.wayhold.testing.ServeChild;
 import org.wayhold.simulate.DriveSimulator;
 import org.wayhold.simulate.SimulatedDrive;
 import org.wayhold.simulate.SimulationSettings;
@@ -68,7 +69,6 @@ class CrashRecoveryTest {
     private static final double BATCH_S = 1.0;
     /** Longest wait for a child JVM to start and recover (s): generous, the machine is shared. */
     private static final long START_TIMEOUT_S = 120;
-    private static final Pattern SERVING = Pattern.compile("wayhold serving on (http://\\S+)");
     private static final Pattern CUT = Pattern.compile("cut (\\d+) bytes in");
     private static final Settings SESSION_SETTINGS = Settings.defaults();
 
@@ -166,9 +166,6 @@ class CrashRecoveryTest {
     }
 
     /** A running child service. */
-    private record Child(Process process, String baseUrl, Path output) {
-    }
-
     @Test
     @Timeout(value = 8, unit = TimeUnit.MINUTES)
     void killedTwentyTimesTheServiceLosesNoAcknowledgedSampleAndEndsOnTheUninterruptedPoses() throws Exception {
@@ -203,7 +200,7 @@ class CrashRecoveryTest {
         AtomicInteger reposted = new AtomicInteger();
         AtomicReference<Throwable> failure = new AtomicReference<>();
         int run = 0;
-        Child child = start(data, churn, run++);
+        ServeChild child = start(data, churn, run++);
         gate.open(child.baseUrl());
         List<Thread> posters = new ArrayList<>();
         for (int v = 0; v < VEHICLES; v++) {
@@ -404,7 +401,7 @@ class CrashRecoveryTest {
         return r.statusCode();
     }
 
-    private void assertSameAsReference(Child child, List<Vehicle> vehicles, String when) throws Exception {
+    private void assertSameAsReference(ServeChild child, List<Vehicle> vehicles, String when) throws Exception {
         for (Vehicle v : vehicles) {
             String pose = get(child.baseUrl(), "/v1/vehicles/" + v.id + "/pose").body();
             assertThat(pose).as("%s pose %s", v.id, when)
@@ -450,30 +447,9 @@ class CrashRecoveryTest {
     }
 
     /** Starts {@code wayhold serve} in a child JVM on a free port and waits until it serves. */
-    private Child start(Path data, Path config, int run) throws Exception {
-        Path output = tmp.resolve("serve-" + run + ".log");
-        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
-        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
-        ProcessBuilder pb = new ProcessBuilder(java, "-Xmx256m", "-XX:TieredStopAtLevel=1", "-XX:+UseSerialGC",
-                "-cp", classPath, "org.wayhold.cli.Main", "serve", "--port", "0", "--data", data.toString(),
-                "--config", config.toString());
-        pb.redirectErrorStream(true);
-        pb.redirectOutput(output.toFile());
-        Process p = pb.start();
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(START_TIMEOUT_S);
-        while (System.nanoTime() < deadline) {
-            String text = Files.exists(output) ? Files.readString(output) : "";
-            Matcher m = SERVING.matcher(text);
-            if (m.find()) {
-                return new Child(p, m.group(1), output);
-            }
-            if (!p.isAlive()) {
-                throw new AssertionError("serve exited with " + p.exitValue() + ":\n" + text);
-            }
-            Thread.sleep(20);
-        }
-        p.destroyForcibly();
-        throw new AssertionError("serve did not start within " + START_TIMEOUT_S + " s:\n" + Files.readString(output));
+    private ServeChild start(Path data, Path config, int run) throws Exception {
+        return ServeChild.start(tmp.resolve("serve-" + run + ".log"),
+                List.of("--data", data.toString(), "--config", config.toString()), null, START_TIMEOUT_S);
     }
 
     private static long cutOf(Path output) throws IOException {

@@ -1,0 +1,65 @@
+package org.wayhold.testing;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.TimeUnit;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+
+/**
+ * {@code wayhold serve} in a child JVM on the test class path, for tests that need the real command:
+ * its own process to stop or kill, its own output. Small heap, quick start-up flags.
+ *
+ * @param process the child
+ * @param baseUrl {@code http://host:port} the service printed
+ * @param output  the file holding everything the child printed
+ */
+public record ServeChild(Process process, String baseUrl, Path output) {
+
+    private static final Pattern SERVING = Pattern.compile("wayhold serving on (http://\\S+)");
+
+    /**
+     * Starts {@code serve --port 0} with the given further arguments and waits until it prints its URL
+     * (and {@code alsoWaitFor}, when not null).
+     *
+     * @param output   where the child's output goes (overwritten)
+     * @param timeoutS how long to wait for the start (s)
+     */
+    public static ServeChild start(Path output, List<String> serveArgs, String alsoWaitFor, long timeoutS)
+            throws IOException, InterruptedException {
+        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
+        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
+        List<String> command = new ArrayList<>(List.of(java, "-Xmx256m", "-XX:TieredStopAtLevel=1",
+                "-XX:+UseSerialGC", "-cp", classPath, "org.wayhold.cli.Main", "serve", "--port", "0"));
+        command.addAll(serveArgs);
+        ProcessBuilder pb = new ProcessBuilder(command);
+        pb.redirectErrorStream(true);
+        pb.redirectOutput(output.toFile());
+        Process p = pb.start();
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutS);
+        while (System.nanoTime() < deadline) {
+            String text = Files.exists(output) ? Files.readString(output) : "";
+            Matcher m = SERVING.matcher(text);
+            if (m.find() && (alsoWaitFor == null || text.contains(alsoWaitFor))) {
+                return new ServeChild(p, m.group(1), output);
+            }
+            if (!p.isAlive()) {
+                throw new AssertionError("serve exited with " + p.exitValue() + ":\n" + text);
+            }
+            Thread.sleep(20);
+        }
+        p.destroyForcibly();
+        throw new AssertionError("serve did not start within " + timeoutS + " s:\n" + Files.readString(output));
+    }
+
+    /** SIGTERM (a graceful stop), and SIGKILL after 30 s. */
+    public void stop() throws InterruptedException {
+        process.destroy();
+        if (!process.waitFor(30, TimeUnit.SECONDS)) {
+            process.destroyForcibly();
+        }
+    }
+}
