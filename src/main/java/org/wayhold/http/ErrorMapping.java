@@ -52,14 +52,14 @@ final class ErrorMapping {
 
     /** @param maxBodyBytes the body size limit, also the most a refusal reads to discard a body (bytes) */
     static void install(RoutesConfig routes, long maxBodyBytes) {
-        routes.exception(HttpProblem.class, (e, ctx) -> {
+        // Every problem reply first drops what is left of the request body (see the class comment).
+        java.util.function.BiConsumer<Context, HttpProblem> reply = (ctx, p) -> {
             discardUnreadBody(ctx, maxBodyBytes);
-            write(ctx, e);
-        });
-        routes.exception(SessionLimitException.class, (e, ctx) -> {
-            discardUnreadBody(ctx, maxBodyBytes);
-            write(ctx, HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage()));
-        });
+            write(ctx, p);
+        };
+        routes.exception(HttpProblem.class, (e, ctx) -> reply.accept(ctx, e));
+        routes.exception(SessionLimitException.class, (e, ctx) -> reply.accept(ctx,
+                HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage())));
         routes.exception(HttpResponseException.class, (e, ctx) -> {
             if (isPreflight(ctx)) {
                 // No route answers OPTIONS; the CORS plugin has set its headers, the answer is empty.
@@ -68,25 +68,25 @@ final class ErrorMapping {
                 return;
             }
             switch (e.getStatus()) {
-                case 404 -> write(ctx, notFound(ctx));
-                case 405 -> write(ctx, methodNotAllowed(ctx));
-                default -> write(ctx, new HttpProblem(e.getStatus(), "http-" + e.getStatus(), titleOf(e.getStatus()),
-                        null, safeDetail(e)));
+                case 404 -> reply.accept(ctx, notFound(ctx));
+                case 405 -> reply.accept(ctx, methodNotAllowed(ctx));
+                default -> reply.accept(ctx, new HttpProblem(e.getStatus(), "http-" + e.getStatus(),
+                        titleOf(e.getStatus()), null, safeDetail(e)));
             }
         });
         routes.exception(Exception.class, (e, ctx) -> {
             LOG.error("{} {} failed", ctx.method(), ctx.path(), e);
-            write(ctx, new HttpProblem(500, "internal", "Internal server error", null,
+            reply.accept(ctx, new HttpProblem(500, "internal", "Internal server error", null,
                     "the request could not be completed; the server log has the cause"));
         });
         routes.error(404, ctx -> {
             if (!written(ctx) && !isPreflight(ctx)) {
-                write(ctx, notFound(ctx));
+                reply.accept(ctx, notFound(ctx));
             }
         });
         routes.error(405, ctx -> {
             if (!written(ctx) && !isPreflight(ctx)) {
-                write(ctx, methodNotAllowed(ctx));
+                reply.accept(ctx, methodNotAllowed(ctx));
             }
         });
     }

@@ -151,6 +151,21 @@ class ProblemResponsesTest {
     }
 
     @Test
+    void aBodyPostedToAnUnknownPathIsDroppedAndThe404Arrives() {
+        // Unknown routes and wrong methods take the same care as other refusals: the body is read and
+        // dropped, so the reply is not lost to a reset and the connection stays usable.
+        byte[] body = new byte[BODY_LIMIT + BODY_LIMIT / 2];
+        java.util.Arrays.fill(body, (byte) 'x');
+        for (int i = 0; i < 20; i++) {
+            HttpResponse<String> r = server.send(server.request(i % 2 == 0 ? "/v1/nowhere" : "/health")
+                    .header("Content-Type", "application/x-ndjson")
+                    .POST(HttpRequest.BodyPublishers.ofByteArray(body)).build());
+            problem(r, i % 2 == 0 ? 404 : 405, i % 2 == 0 ? "path" : "method");
+            assertThat(r.headers().firstValue("Connection")).isEmpty();
+        }
+    }
+
+    @Test
     void aBodyALittleOverTheLimitGetsIts413OnAConnectionThatStaysUsable() {
         // Up to twice the limit the refused body is read and dropped, so a client that sends it whole
         // before reading (as the JDK client does) always gets the reply; repeated to catch a lost one.
