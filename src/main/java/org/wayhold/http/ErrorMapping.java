@@ -1,14 +1,11 @@
 package org.wayhold.http;
 
-import com.fasterxml.jackson.core.JsonGenerator;
 import io.javalin.config.RoutesConfig;
 import io.javalin.http.Context;
 import io.javalin.http.HandlerType;
 import io.javalin.http.HttpResponseException;
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.UncheckedIOException;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.session.SessionLimitException;
@@ -177,8 +174,7 @@ final class ErrorMapping {
     }
 
     static byte[] toBytes(HttpProblem p, String instance) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream(256);
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        return PoseJson.document(256, g -> {
             g.writeStartObject();
             g.writeStringField("type", p.type());
             g.writeStringField("title", p.title());
@@ -189,9 +185,6 @@ final class ErrorMapping {
                 g.writeStringField("field", p.field());
             }
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        return out.toByteArray();
+        });
     }
 }

@@ -6,7 +6,6 @@ import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
 import io.javalin.http.staticfiles.Location;
 import io.javalin.router.Endpoint;
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
@@ -133,8 +132,7 @@ public final class HttpService implements AutoCloseable {
         ctx.header("Cache-Control", "no-store");
         ctx.contentType("application/json");
         Optional<SessionJournal.Status> j = journal.map(SessionJournal::status);
-        ByteArrayOutputStream out = new ByteArrayOutputStream(256);
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        byte[] json = PoseJson.document(256, g -> {
             g.writeStartObject();
             g.writeStringField("status", j.map(s -> s.writable() ? "ok" : "degraded").orElse("ok"));
             g.writeNumberField("sessions", sessions.size());
@@ -144,10 +142,8 @@ public final class HttpService implements AutoCloseable {
                 writeJournal(g, j.get());
             }
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        ctx.result(out.toByteArray());
+        });
+        ctx.result(json);
     }
 
     private static void writeJournal(JsonGenerator g, SessionJournal.Status s) throws IOException {

@@ -36,15 +36,31 @@ final class PoseJson {
     private PoseJson() {
     }
 
-    /** One pose as a JSON document (UTF-8). */
-    static byte[] toBytes(Pose p) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream(768);
+    /** Writes the content of one JSON document. */
+    @FunctionalInterface
+    interface Content {
+        void write(JsonGenerator g) throws IOException;
+    }
+
+    /**
+     * One JSON document (UTF-8) in memory: every reply the service writes is built this way.
+     *
+     * @param sizeHint expected size (bytes), to size the buffer
+     */
+    static byte[] document(int sizeHint, Content content) {
+        ByteArrayOutputStream out = new ByteArrayOutputStream(sizeHint);
         try (JsonGenerator g = FACTORY.createGenerator(out)) {
-            write(g, p, null);
+            content.write(g);
         } catch (IOException e) {
+            // A ByteArrayOutputStream does not fail; a generator error is a bug, not a client's fault.
             throw new UncheckedIOException(e);
         }
         return out.toByteArray();
+    }
+
+    /** One pose as a JSON document (UTF-8). */
+    static byte[] toBytes(Pose p) {
+        return document(768, g -> write(g, p, null));
     }
 
     /**

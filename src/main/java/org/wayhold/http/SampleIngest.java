@@ -1,10 +1,7 @@
 package org.wayhold.http;
 
-import com.fasterxml.jackson.core.JsonGenerator;
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -230,8 +227,7 @@ final class SampleIngest {
         }
 
         byte[] reply() {
-            ByteArrayOutputStream out = new ByteArrayOutputStream(128 + 96 * listed.size());
-            try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+            return PoseJson.document(128 + 96 * listed.size(), g -> {
                 g.writeStartObject();
                 g.writeNumberField("accepted", accepted);
                 g.writeNumberField("duplicates", duplicates);
@@ -245,10 +241,7 @@ final class SampleIngest {
                 g.writeEndArray();
                 g.writeNumberField("rejected_count", rejectedCount);
                 g.writeEndObject();
-            } catch (IOException e) {
-                throw new UncheckedIOException(e);
-            }
-            return out.toByteArray();
+            });
         }
     }
 

@@ -1,9 +1,7 @@
 package org.wayhold.http;
 
 import com.fasterxml.jackson.core.JsonGenerator;
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
-import java.io.UncheckedIOException;
 import java.util.List;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
@@ -26,8 +24,7 @@ final class TrackJson {
     }
 
     static byte[] json(String vehicleId, List<Pose> poses, ProjectedCrs crs) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream(256 + 700 * poses.size());
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        return PoseJson.document(256 + 700 * poses.size(), g -> {
             g.writeStartObject();
             g.writeStringField("vehicle", vehicleId);
             if (crs != null) {
@@ -40,15 +37,11 @@ final class TrackJson {
             }
             g.writeEndArray();
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        return out.toByteArray();
+        });
     }
 
     static byte[] geoJson(String vehicleId, List<Pose> poses, ProjectedCrs crs) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream(512 + 800 * poses.size());
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        return PoseJson.document(512 + 800 * poses.size(), g -> {
             g.writeStartObject();
             g.writeStringField("type", "FeatureCollection");
             g.writeArrayFieldStart("features");
@@ -92,10 +85,7 @@ final class TrackJson {
             }
             g.writeEndArray();
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        return out.toByteArray();
+        });
     }
 
     /** RFC 7946 sec. 3.1.1: longitude first, then latitude (degrees). */

@@ -1,10 +1,7 @@
 package org.wayhold.http;
 
-import com.fasterxml.jackson.core.JsonGenerator;
 import io.javalin.http.Context;
-import java.io.ByteArrayOutputStream;
 import java.io.IOException;
-import java.io.UncheckedIOException;
 import java.util.List;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
@@ -172,8 +169,7 @@ final class VehicleRoutes {
         double[] window = timeWindow(ctx);
         double from = window[0];
         double to = window[1];
-        ByteArrayOutputStream out = new ByteArrayOutputStream(4096);
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        byte[] json = PoseJson.document(4096, g -> {
             g.writeStartObject();
             g.writeStringField("vehicle", id);
             g.writeArrayFieldStart("fixes");
@@ -191,10 +187,8 @@ final class VehicleRoutes {
             }
             g.writeEndArray();
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        ctx.contentType("application/json").result(out.toByteArray());
+        });
+        ctx.contentType("application/json").result(json);
     }
 
     static ProjectedCrs crs(String text) {
@@ -235,8 +229,7 @@ final class VehicleRoutes {
     }
 
     void list(Context ctx) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream(256);
-        try (JsonGenerator g = PoseJson.FACTORY.createGenerator(out)) {
+        byte[] json = PoseJson.document(256, g -> {
             g.writeStartObject();
             g.writeArrayFieldStart("vehicles");
             for (VehicleSession s : sessions.sessions()) {
@@ -270,10 +263,8 @@ final class VehicleRoutes {
             }
             g.writeEndArray();
             g.writeEndObject();
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        ctx.contentType("application/json").result(out.toByteArray());
+        });
+        ctx.contentType("application/json").result(json);
     }
 
     private SessionRegistry.Entry entry(String id) {
