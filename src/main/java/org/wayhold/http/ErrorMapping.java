@@ -6,6 +6,7 @@ import io.javalin.http.HandlerType;
 import io.javalin.http.HttpResponseException;
 import java.io.IOException;
 import java.io.InputStream;
+import java.util.function.BiConsumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.session.SessionLimitException;
@@ -47,10 +48,10 @@ final class ErrorMapping {
     private ErrorMapping() {
     }
 
-    /** @param maxBodyBytes the body size limit, also the most a refusal reads to discard a body (bytes) */
+    /** @param maxBodyBytes the body size limit (bytes); a refusal reads up to DRAIN_FACTOR times it */
     static void install(RoutesConfig routes, long maxBodyBytes) {
         // Every problem reply first drops what is left of the request body (see the class comment).
-        java.util.function.BiConsumer<Context, HttpProblem> reply = (ctx, p) -> {
+        BiConsumer<Context, HttpProblem> reply = (ctx, p) -> {
             discardUnreadBody(ctx, maxBodyBytes);
             write(ctx, p);
         };
