@@ -94,7 +94,7 @@ public final class NavigationFilter {
     private double correlatedVarM2;
     /**
      * exp(-dt / tau) of the last step length {@link #decayDtS}: at a steady input rate every step has
-     * the same length, and the exponential is a large share of a step. A cache, not state.
+     * the same length, and the exponential is a visible share of a step. A cache, not state.
      */
     private double decayDtS = Double.NaN;
     private double decayForDt;
