@@ -69,13 +69,12 @@ public final class ReorderBuffer<C> {
             return List.of();
         }
         if (newest == null && batch.size() >= FIRST_BATCH_QUORUM) {
-            boolean[] keep = firstBatchKept(batch, maxForwardJumpS);
-            int kept = 0;
+            double median = medianTime(batch);
+            boolean[] keep = firstBatchKept(batch, median, maxForwardJumpS);
             for (boolean k : keep) {
-                kept += k ? 1 : 0;
-            }
-            if (kept < batch.size()) {
-                return submitFirstWithout(batch, keep);
+                if (!k) {
+                    return submitFirstWithout(batch, keep, median);
+                }
             }
         }
         return submitChecked(batch);
@@ -95,24 +94,24 @@ public final class ReorderBuffer<C> {
      * move it past a correct one), and a sample more than {@code max_forward_jump_s} from it is refused,
      * as it would be by an established timeline. Smaller batches are kept whole.
      *
+     * @param median          the batch's median time (s), {@link #medianTime}
      * @param maxForwardJumpS the largest allowed distance from the median (s)
      * @return per sample, in the order given, whether it stays
      */
-    public static boolean[] firstBatchKept(List<? extends Sample> batch, double maxForwardJumpS) {
+    static boolean[] firstBatchKept(List<? extends Sample> batch, double median, double maxForwardJumpS) {
         int n = batch.size();
         boolean[] keep = new boolean[n];
         Arrays.fill(keep, true);
         if (n < FIRST_BATCH_QUORUM) {
             return keep;
         }
-        double median = medianTime(batch);
         for (int i = 0; i < n; i++) {
             keep[i] = Math.abs(batch.get(i).t() - median) <= maxForwardJumpS;
         }
         return keep;
     }
 
-    private static double medianTime(List<? extends Sample> batch) {
+    static double medianTime(List<? extends Sample> batch) {
         double[] times = new double[batch.size()];
         for (int i = 0; i < times.length; i++) {
             times[i] = batch.get(i).t();
@@ -122,8 +121,7 @@ public final class ReorderBuffer<C> {
     }
 
     /** A first batch with samples far from the others' times: those are refused, the rest submitted. */
-    private List<Admission> submitFirstWithout(List<? extends Sample> batch, boolean[] keep) {
-        double median = medianTime(batch);
+    private List<Admission> submitFirstWithout(List<? extends Sample> batch, boolean[] keep, double median) {
         List<Sample> kept = new ArrayList<>(batch.size());
         for (int i = 0; i < batch.size(); i++) {
             if (keep[i]) {

@@ -87,17 +87,6 @@ public final class VehicleSession {
         if (samples.isEmpty()) {
             return List.of();
         }
-        if (Double.isNaN(epochT)) {
-            // From the samples the ordering will keep: one with a wrong time must not set the epoch.
-            boolean[] keep = ReorderBuffer.firstBatchKept(samples, settings.ordering().maxForwardJumpS());
-            double first = Double.POSITIVE_INFINITY;
-            for (int i = 0; i < samples.size(); i++) {
-                if (keep[i]) {
-                    first = Math.min(first, samples.get(i).t());
-                }
-            }
-            epochT = Math.floor(first);
-        }
         List<Admission> result = ordering.submit(samples);
         refreshLatest();
         notifyListeners();
@@ -293,6 +282,11 @@ public final class VehicleSession {
 
         @Override
         public void apply(Sample sample) {
+            if (Double.isNaN(epochT)) {
+                // The first sample applied is the earliest the ordering kept of the first batch, so a
+                // sample it refused (a wrong clock) never sets the epoch.
+                epochT = Math.floor(sample.t());
+            }
             if (frame == null && sample instanceof GnssFix g && g.fix() != FixType.NONE) {
                 frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
                         : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
