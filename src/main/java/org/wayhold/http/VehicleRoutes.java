@@ -124,8 +124,12 @@ final class VehicleRoutes {
         return false;
     }
 
+    /** A query's time window (s, vehicle clock); open-ended sides are infinite. */
+    private record TimeWindow(double fromS, double toS) {
+    }
+
     /** The optional {@code from} and {@code to} query values (s, vehicle clock), open-ended when absent. */
-    private static double[] timeWindow(Context ctx) {
+    private static TimeWindow timeWindow(Context ctx) {
         String fromText = ctx.queryParam("from");
         String toText = ctx.queryParam("to");
         double from = fromText == null ? Double.NEGATIVE_INFINITY : finiteNumber("from", fromText);
@@ -134,15 +138,13 @@ final class VehicleRoutes {
             throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was "
                     + toText + " s");
         }
-        return new double[] {from, to};
+        return new TimeWindow(from, to);
     }
 
     void getTrack(Context ctx) {
         String id = vehicleId(ctx);
         VehicleSession session = entry(id).session();
-        double[] window = timeWindow(ctx);
-        double from = window[0];
-        double to = window[1];
+        TimeWindow window = timeWindow(ctx);
         String format = ctx.queryParam("format");
         boolean geojson;
         if (format == null || format.equals("json")) {
@@ -153,7 +155,7 @@ final class VehicleRoutes {
             throw HttpProblem.invalidParameter("format", "must be json or geojson, was '" + format + "'");
         }
         ProjectedCrs crs = crs(ctx.queryParam("crs"));
-        List<Pose> poses = session.track(from, to);
+        List<Pose> poses = session.track(window.fromS(), window.toS());
         byte[] body = geojson ? TrackJson.geoJson(id, poses, crs) : TrackJson.json(id, poses, crs);
         ctx.contentType(geojson ? GEOJSON : "application/json").result(body);
     }
@@ -166,14 +168,12 @@ final class VehicleRoutes {
     void getFixes(Context ctx) {
         String id = vehicleId(ctx);
         VehicleSession session = entry(id).session();
-        double[] window = timeWindow(ctx);
-        double from = window[0];
-        double to = window[1];
+        TimeWindow window = timeWindow(ctx);
         byte[] json = PoseJson.document(4096, g -> {
             g.writeStartObject();
             g.writeStringField("vehicle", id);
             g.writeArrayFieldStart("fixes");
-            for (FixRecord f : session.fixes(from, to)) {
+            for (FixRecord f : session.fixes(window.fromS(), window.toS())) {
                 g.writeStartObject();
                 PoseJson.number(g, "t", f.t());
                 PoseJson.number(g, "lat", f.latDeg());
