@@ -75,6 +75,27 @@ class JournalTest {
         }
     }
 
+    /** A fresh journal holding batches 0 to 4 of vehicle "a"; returns its last segment. */
+    private static Path fiveBatches(Path dir) throws IOException {
+        try (Journal j = Journal.open(dir, FAST)) {
+            j.recover(new Recorder());
+            for (int k = 0; k < 5; k++) {
+                Journal.await(j.append("a", batch(k)));
+            }
+        }
+        return lastSegment(dir);
+    }
+
+    /** Hand-made damage: flips one bit of the byte at {@code offset}. */
+    private static void flipABit(Path file, long offset) throws IOException {
+        try (RandomAccessFile f = new RandomAccessFile(file.toFile(), "rw")) {
+            f.seek(offset);
+            int b = f.read();
+            f.seek(offset);
+            f.write(b ^ 0x40);
+        }
+    }
+
     @Test
     void everyAppendedBatchComesBackInOrderAcrossSegments(@TempDir Path dir) throws IOException {
         try (Journal j = Journal.open(dir, FAST)) {
@@ -103,13 +124,7 @@ class JournalTest {
 
     @Test
     void aTornLastRecordIsCutExactly(@TempDir Path dir) throws IOException {
-        try (Journal j = Journal.open(dir, FAST)) {
-            j.recover(new Recorder());
-            for (int k = 0; k < 5; k++) {
-                Journal.await(j.append("a", batch(k)));
-            }
-        }
-        Path seg = lastSegment(dir);
+        Path seg = fiveBatches(dir);
         long size = Files.size(seg);
         try (RandomAccessFile f = new RandomAccessFile(seg.toFile(), "rw")) {
             f.setLength(size - 7);
@@ -132,20 +147,9 @@ class JournalTest {
 
     @Test
     void aCorruptLastRecordIsCutExactlyByItsChecksum(@TempDir Path dir) throws IOException {
-        try (Journal j = Journal.open(dir, FAST)) {
-            j.recover(new Recorder());
-            for (int k = 0; k < 5; k++) {
-                Journal.await(j.append("a", batch(k)));
-            }
-        }
-        Path seg = lastSegment(dir);
+        Path seg = fiveBatches(dir);
         long size = Files.size(seg);
-        try (RandomAccessFile f = new RandomAccessFile(seg.toFile(), "rw")) {
-            f.seek(size - 3);
-            int b = f.read();
-            f.seek(size - 3);
-            f.write(b ^ 0x40);
-        }
+        flipABit(seg, size - 3);
         Recorder r = new Recorder();
         try (Journal j = Journal.open(dir, FAST)) {
             Journal.RecoveryReport report = j.recover(r);
@@ -233,12 +237,7 @@ class JournalTest {
             newest = snaps.get(1);
         }
         // The newest snapshot is damaged after it was written (one flipped byte in its body).
-        try (RandomAccessFile f = new RandomAccessFile(newest.toFile(), "rw")) {
-            f.seek(f.length() / 2);
-            int b = f.read();
-            f.seek(f.length() / 2);
-            f.write(b ^ 0x40);
-        }
+        flipABit(newest, Files.size(newest) / 2);
         Recorder r = new Recorder();
         Journal.RecoveryReport report;
         try (Journal j = Journal.open(dir, eager)) {
