@@ -10,10 +10,12 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import java.util.SplittableRandom;
+import java.util.concurrent.Callable;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.function.IntFunction;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.settings.Settings;
@@ -113,37 +115,28 @@ public final class LoadGenerator {
         long deadline = System.nanoTime() + (long) (seconds * 1e9);
         AtomicLong samples = new AtomicLong();
         AtomicLong requests = new AtomicLong();
-        ExecutorService pool = Executors.newFixedThreadPool(threads);
         long start = System.nanoTime();
-        List<Future<?>> done = new ArrayList<>();
-        for (int t = 0; t < threads; t++) {
-            int thread = t;
-            done.add(pool.submit(() -> {
-                // Thread t feeds vehicles t and t + 4, alternating, each its drive in order.
-                int[] next = new int[2];
-                for (int k = 0; System.nanoTime() < deadline; k++) {
-                    int which = k % 2;
-                    // Each pass over the drive goes to a new vehicle: a second pass into the same one
-                    // would be rejected as late, and rejections are not ingest.
-                    int i = next[which] % bodies.size();
-                    int pass = next[which] / bodies.size();
-                    next[which]++;
-                    String id = prefix + "-" + (thread + which * threads) + "-" + pass;
-                    long accepted = post(base + "/v1/vehicles/" + id + "/samples", bodies.get(i));
-                    if (accepted != counts.get(i)) {
-                        throw new IllegalStateException("POST to " + id + ": " + accepted + " of " + counts.get(i)
-                                + " samples accepted; the load must be all valid");
-                    }
-                    samples.addAndGet(accepted);
-                    requests.incrementAndGet();
+        onThreads(threads, thread -> () -> {
+            // Thread t feeds vehicles t and t + 4, alternating, each its drive in order.
+            int[] next = new int[2];
+            for (int k = 0; System.nanoTime() < deadline; k++) {
+                int which = k % 2;
+                // Each pass over the drive goes to a new vehicle: a second pass into the same one
+                // would be rejected as late, and rejections are not ingest.
+                int i = next[which] % bodies.size();
+                int pass = next[which] / bodies.size();
+                next[which]++;
+                String id = prefix + "-" + (thread + which * threads) + "-" + pass;
+                long accepted = post(base + "/v1/vehicles/" + id + "/samples", bodies.get(i));
+                if (accepted != counts.get(i)) {
+                    throw new IllegalStateException("POST to " + id + ": " + accepted + " of " + counts.get(i)
+                            + " samples accepted; the load must be all valid");
                 }
-                return null;
-            }));
-        }
-        for (Future<?> f : done) {
-            f.get();
-        }
-        pool.shutdown();
+                samples.addAndGet(accepted);
+                requests.incrementAndGet();
+            }
+            return null;
+        });
         double s = (System.nanoTime() - start) / 1e9;
         if (!prefix.startsWith("warm")) {
             System.out.printf(Locale.ROOT, "batch NDJSON ingest: %d samples in %d requests over %.1f s = %.0f samples/s (%d vehicles, %d threads)%n",
@@ -155,25 +148,17 @@ public final class LoadGenerator {
         int threads = 4;
         long deadline = System.nanoTime() + (long) (seconds * 1e9);
         AtomicLong requests = new AtomicLong();
-        ExecutorService pool = Executors.newFixedThreadPool(threads);
         long start = System.nanoTime();
-        List<Future<?>> done = new ArrayList<>();
-        for (int t = 0; t < threads; t++) {
+        onThreads(threads, t -> () -> {
             String id = prefix + "-" + t;
-            done.add(pool.submit(() -> {
-                for (long k = 0; System.nanoTime() < deadline; k++) {
-                    String line = String.format(Locale.ROOT, "{\"type\":\"wheel_speed\",\"t\":%.2f,\"speed\":5.0}%n",
-                            1_800_000_000.0 + 0.02 * k);
-                    post(base + "/v1/vehicles/" + id + "/samples", line.getBytes(java.nio.charset.StandardCharsets.UTF_8));
-                    requests.incrementAndGet();
-                }
-                return null;
-            }));
-        }
-        for (Future<?> f : done) {
-            f.get();
-        }
-        pool.shutdown();
+            for (long k = 0; System.nanoTime() < deadline; k++) {
+                String line = String.format(Locale.ROOT, "{\"type\":\"wheel_speed\",\"t\":%.2f,\"speed\":5.0}%n",
+                        1_800_000_000.0 + 0.02 * k);
+                post(base + "/v1/vehicles/" + id + "/samples", line.getBytes(java.nio.charset.StandardCharsets.UTF_8));
+                requests.incrementAndGet();
+            }
+            return null;
+        });
         double s = (System.nanoTime() - start) / 1e9;
         if (!prefix.startsWith("warm")) {
             System.out.printf(Locale.ROOT, "single-sample POST: %d requests over %.1f s = %.0f req/s (%d threads)%n",
@@ -184,39 +169,47 @@ public final class LoadGenerator {
     private static void poseGets(String base, int vehicles, double seconds, boolean report) throws Exception {
         int threads = 8;
         long deadline = System.nanoTime() + (long) (seconds * 1e9);
-        ExecutorService pool = Executors.newFixedThreadPool(threads);
         long start = System.nanoTime();
-        List<Future<long[]>> done = new ArrayList<>();
-        for (int t = 0; t < threads; t++) {
-            long seed = t;
-            done.add(pool.submit(() -> {
-                SplittableRandom rnd = new SplittableRandom(seed);
-                long[] latencies = new long[1 << 20];
-                int n = 0;
-                while (System.nanoTime() < deadline && n < latencies.length) {
-                    URI uri = URI.create(base + "/v1/vehicles/fleet-" + rnd.nextInt(vehicles) + "/pose");
-                    long t0 = System.nanoTime();
-                    HttpResponse<byte[]> r = CLIENT.send(HttpRequest.newBuilder(uri).GET().build(),
-                            HttpResponse.BodyHandlers.ofByteArray());
-                    latencies[n++] = System.nanoTime() - t0;
-                    if (r.statusCode() != 200) {
-                        throw new IllegalStateException("GET " + uri + " -> " + r.statusCode());
-                    }
+        List<long[]> all = onThreads(threads, t -> () -> {
+            SplittableRandom rnd = new SplittableRandom(t);
+            long[] latencies = new long[1 << 20];
+            int n = 0;
+            while (System.nanoTime() < deadline && n < latencies.length) {
+                URI uri = URI.create(base + "/v1/vehicles/fleet-" + rnd.nextInt(vehicles) + "/pose");
+                long t0 = System.nanoTime();
+                HttpResponse<byte[]> r = CLIENT.send(HttpRequest.newBuilder(uri).GET().build(),
+                        HttpResponse.BodyHandlers.ofByteArray());
+                latencies[n++] = System.nanoTime() - t0;
+                if (r.statusCode() != 200) {
+                    throw new IllegalStateException("GET " + uri + " -> " + r.statusCode());
                 }
-                return Arrays.copyOf(latencies, n);
-            }));
-        }
-        List<long[]> all = new ArrayList<>();
-        for (Future<long[]> f : done) {
-            all.add(f.get());
-        }
-        pool.shutdown();
+            }
+            return Arrays.copyOf(latencies, n);
+        });
         double s = (System.nanoTime() - start) / 1e9;
         long[] merged = all.stream().flatMapToLong(Arrays::stream).sorted().toArray();
         if (report) {
             System.out.printf(Locale.ROOT, "pose GET, %d vehicles: %d requests over %.1f s = %.0f req/s, p50 %.2f ms, p99 %.2f ms (%d threads)%n",
                     vehicles, merged.length, s, merged.length / s, merged[merged.length / 2] / 1e6,
                     merged[(int) Math.floor(merged.length * 0.99)] / 1e6, threads);
+        }
+    }
+
+    /** Runs {@code task.apply(t)} on thread t of a pool of {@code threads}; returns the results in thread order. */
+    private static <T> List<T> onThreads(int threads, IntFunction<Callable<T>> task) throws Exception {
+        ExecutorService pool = Executors.newFixedThreadPool(threads);
+        try {
+            List<Future<T>> done = new ArrayList<>();
+            for (int t = 0; t < threads; t++) {
+                done.add(pool.submit(task.apply(t)));
+            }
+            List<T> results = new ArrayList<>();
+            for (Future<T> f : done) {
+                results.add(f.get());
+            }
+            return results;
+        } finally {
+            pool.shutdown();
         }
     }
 
