@@ -8,6 +8,7 @@ import java.util.Optional;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.function.Consumer;
 import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.FilterState;
 import org.wayhold.filter.GnssOutcome;
 import org.wayhold.filter.NavigationFilter;
 import org.wayhold.filter.SampleFeeder;
@@ -216,7 +217,7 @@ public final class VehicleSession {
     }
 
     private static void writeCheckpoint(DataOutput out, Checkpoint c) throws IOException {
-        c.filter.writeState(out);
+        NavigationFilter.writeState(c.filter, out);
         out.writeBoolean(c.frame != null);
         if (c.frame != null) {
             Geodetic o = c.frame.origin();
@@ -232,8 +233,7 @@ public final class VehicleSession {
     }
 
     private Checkpoint readCheckpoint(DataInput in) throws IOException {
-        NavigationFilter f = pipeline.filter.stateCopy();
-        f.readState(in);
+        FilterState f = pipeline.filter.readState(in);
         LocalFrame frame = null;
         if (in.readBoolean()) {
             try {
@@ -266,7 +266,7 @@ public final class VehicleSession {
     }
 
     /** Everything a checkpoint must bring back. */
-    private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
+    private record Checkpoint(FilterState filter, LocalFrame frame, double lastHistoryTRel,
                               long[] appliedByType) {
     }
 
@@ -314,7 +314,7 @@ public final class VehicleSession {
 
         @Override
         public Checkpoint checkpoint() {
-            return new Checkpoint(filter.stateCopy(), frame, lastHistoryTRel, appliedByType.clone());
+            return new Checkpoint(filter.saveState(), frame, lastHistoryTRel, appliedByType.clone());
         }
 
         @Override
