@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import static org.wayhold.filter.StateIndex.EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
@@ -51,41 +53,41 @@ final class Alignment {
         double yaw = Double.NaN;
         double yawVar = Double.NaN;
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        boolean moving = Math.abs(s.wheelSpeedMps) >= CourseSpeed.MOVING_SPEED_MPS;
+        boolean moving = Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) >= CourseSpeed.MOVING_SPEED_MPS;
         if (fix.hasCourse() && fix.hasSpeed() && fix.speedMps() >= minSpeed && moving) {
             yaw = Angles.headingDegToYawRad(fix.courseDeg());
-            if (s.wheelSpeedMps < 0.0) {
+            if (s.get(Slot.WHEEL_SPEED_MPS) < 0.0) {
                 yaw = Angles.wrapPi(yaw + Math.PI);
             }
             double sigma = Math.max(settings.initialYawSigmaRad(),
                     Math.toRadians(settings.gnssCourseSigmaDeg()) * minSpeed / fix.speedMps());
             yawVar = sigma * sigma;
-        } else if (!Double.isNaN(s.anchorEastM) && moving) {
-            double de = eastM - s.anchorEastM;
-            double dn = northM - s.anchorNorthM;
+        } else if (!Double.isNaN(s.get(Slot.ANCHOR_EAST_M)) && moving) {
+            double de = eastM - s.get(Slot.ANCHOR_EAST_M);
+            double dn = northM - s.get(Slot.ANCHOR_NORTH_M);
             double dist = Math.hypot(de, dn);
-            double odo = s.odometerM - s.anchorOdometerM;
+            double odo = s.get(Slot.ODOMETER_M) - s.get(Slot.ANCHOR_ODOMETER_M);
             // The displacement must agree with the wheels' distance, or one of the two fixes is an
             // outlier and the direction between them means nothing: 3 sigma of two fixes plus 20% of
             // the distance for an uncalibrated scale and curved paths.
             boolean agrees = Math.abs(dist - odo) <= 3.0 * Math.sqrt(2.0 * var) + 0.2 * odo;
             if (dist >= settings.headingInitMinDistanceM() && agrees) {
                 yaw = Math.atan2(dn, de);
-                if (s.wheelSpeedMps < 0.0) {
+                if (s.get(Slot.WHEEL_SPEED_MPS) < 0.0) {
                     yaw = Angles.wrapPi(yaw + Math.PI);
                 }
                 // Two fixes, each with variance var per axis, across dist: the direction's error.
                 double sigma = Math.atan2(Math.sqrt(2.0 * var), dist);
                 yawVar = Math.max(sigma * sigma, settings.initialYawSigmaRad() * settings.initialYawSigmaRad());
             } else if (!agrees) {
-                s.anchorEastM = Double.NaN;
+                s.set(Slot.ANCHOR_EAST_M, Double.NaN);
             }
         }
         if (Double.isNaN(yaw)) {
-            if (Double.isNaN(s.anchorEastM) || !moving) {
-                s.anchorEastM = eastM;
-                s.anchorNorthM = northM;
-                s.anchorOdometerM = s.odometerM;
+            if (Double.isNaN(s.get(Slot.ANCHOR_EAST_M)) || !moving) {
+                s.set(Slot.ANCHOR_EAST_M, eastM);
+                s.set(Slot.ANCHOR_NORTH_M, northM);
+                s.set(Slot.ANCHOR_ODOMETER_M, s.get(Slot.ODOMETER_M));
             }
             return GnssOutcome.Kind.INITIALIZING;
         }
@@ -96,7 +98,7 @@ final class Alignment {
     /** Sets the initial state and covariance from a fix and a yaw. */
     private void start(FilterState s, double eastM, double northM, double yaw, double yawVar, double var) {
         double corrVar = noise.correlatedVarM2(var);
-        s.correlatedVarM2 = corrVar;
+        s.set(Slot.CORRELATED_VAR_M2, corrVar);
         double bias = keptBias(s);
         double scale = keptScale(s);
         double biasVar = keptBiasVar(s);
@@ -124,7 +126,7 @@ final class Alignment {
         p[YAW * SIZE + YAW] = yawVar;
         p[GYRO_BIAS * SIZE + GYRO_BIAS] = biasVar;
         p[SPEED_SCALE * SIZE + SPEED_SCALE] = scaleVar;
-        s.initialized = true;
+        s.set(Slot.INITIALIZED, true);
         Reacquisition.end(s);
     }
 
@@ -136,11 +138,11 @@ final class Alignment {
      */
     void reset(FilterState s, double eastM, double northM) {
         s.increment(FilterCounter.RESETS);
-        s.initialized = false;
+        s.set(Slot.INITIALIZED, false);
         Reacquisition.end(s);
-        s.anchorEastM = eastM;
-        s.anchorNorthM = northM;
-        s.anchorOdometerM = s.odometerM;
+        s.set(Slot.ANCHOR_EAST_M, eastM);
+        s.set(Slot.ANCHOR_NORTH_M, northM);
+        s.set(Slot.ANCHOR_ODOMETER_M, s.get(Slot.ODOMETER_M));
     }
 
     /**

@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
@@ -35,21 +37,21 @@ final class CourseSpeed {
      * @param gateThreshold chi-square gate on the two-row NIS (unitless)
      */
     void update(FilterState s, JosephUpdate u, GnssFix fix, double gateThreshold) {
-        if (!fix.hasSpeed() || !fix.hasCourse() || s.standstill) {
+        if (!fix.hasSpeed() || !fix.hasCourse() || s.is(Slot.STANDSTILL)) {
             return;
         }
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        if (fix.speedMps() < minSpeed || Math.abs(s.wheelSpeedMps) < MOVING_SPEED_MPS) {
+        if (fix.speedMps() < minSpeed || Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
             return;
         }
         double courseYaw = Angles.headingDegToYawRad(fix.courseDeg());
-        if (s.wheelSpeedMps < 0.0) {
+        if (s.get(Slot.WHEEL_SPEED_MPS) < 0.0) {
             courseYaw = Angles.wrapPi(courseYaw + Math.PI);
         }
         double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
                 / fix.speedMps();
         double speedSigma = settings.gnssSpeedSigmaMps();
-        double absWheel = Math.abs(s.wheelSpeedMps);
+        double absWheel = Math.abs(s.get(Slot.WHEEL_SPEED_MPS));
         double[] h = u.h;
         Arrays.fill(h, 0.0);
         h[YAW] = 1.0;

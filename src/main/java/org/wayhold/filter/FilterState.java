@@ -5,11 +5,7 @@ import static org.wayhold.filter.StateIndex.SIZE;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
-import java.util.List;
-import java.util.function.Function;
-import java.util.function.ObjIntConsumer;
-import java.util.function.ToDoubleFunction;
-import java.util.function.ToIntFunction;
+import java.util.Arrays;
 
 /**
  * Everything a navigation filter knows and remembers: the state vector x, its covariance P, and the
@@ -17,134 +13,144 @@ import java.util.function.ToIntFunction;
  * counters). The parts of {@link NavigationFilter} are stateless apart from work arrays; all of their
  * memory lives here, so a checkpoint, a branch and a snapshot are copies of one object.
  *
- * <p>{@link #FIELDS} is the one list of what the state holds. Copying, restoring and the binary codec
- * all walk it, so a new field is added in two places that sit side by side: its declaration and its
- * entry in the list. The codec writes the list's length and each array's length, so a state written by
- * a different layout is refused rather than misread.
+ * <p>{@link Slot} is the one list of the scalar bookkeeping; with x, P, the held fixes and the
+ * {@link FilterCounter}s it is all the state holds. Copying, restoring and the binary codec walk these
+ * arrays whole, so a new scalar is one new {@link Slot} constant and nothing else. The codec writes
+ * each array's length, so a state written by a different layout is refused rather than misread.
  *
  * <p>Units: positions m (ENU), angles rad, times s since the session epoch, as in the package doc.
  */
 public final class FilterState {
 
-    /** Version of the layout {@link #write} writes; raise it when {@link #FIELDS} changes. */
+    /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
     static final int FORMAT = 3;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
 
-    // The estimate.
+    /**
+     * The scalar bookkeeping, one slot each. Flags are 0 or 1, whole numbers are stored exactly (all
+     * are far below 2^53); NaN means "none yet" where a time or position may be absent.
+     */
+    enum Slot {
+        /** True once a position and a yaw exist (flag). */
+        INITIALIZED(0.0),
+        /** Time of the estimate (s since epoch), NaN before the first event. */
+        T_REL(Double.NaN),
+        /** Height of the reference point (m, ENU up). */
+        UP_M(0.0),
+        /** Variance of the height (m^2), infinite before the first fix with a height. */
+        VAR_UP_M2(Double.POSITIVE_INFINITY),
+        /** Newest wheel-speed reading (m/s, signed). */
+        WHEEL_SPEED_MPS(0.0),
+        /** Time of the newest wheel-speed reading (s since epoch). */
+        WHEEL_SPEED_T_REL(Double.NaN),
+        /** The wheel-speed reading before it (m/s). */
+        PREVIOUS_WHEEL_SPEED_MPS(0.0),
+        /** Time of the wheel-speed reading before it (s since epoch). */
+        PREVIOUS_WHEEL_SPEED_T_REL(Double.NaN),
+        /** Newest yaw-rate reading (rad/s, counter-clockwise positive). */
+        YAW_RATE_RAD_PER_S(0.0),
+        /** Time of the newest yaw-rate reading (s since epoch). */
+        YAW_RATE_T_REL(Double.NaN),
+        /** The yaw-rate reading before it (rad/s). */
+        PREVIOUS_YAW_RATE_RAD_PER_S(0.0),
+        /** Time of the yaw-rate reading before it (s since epoch). */
+        PREVIOUS_YAW_RATE_T_REL(Double.NaN),
+        /** True once any yaw-rate reading arrived (flag). */
+        HAS_YAW_RATE(0.0),
+        /** Since when the wheels read zero (s since epoch), NaN while they do not. */
+        ZERO_SPEED_SINCE_T_REL(Double.NaN),
+        /** True while the vehicle is taken to stand still (flag). */
+        STANDSTILL(0.0),
+        /** Variance of the correlated GNSS error process (m^2), from the newest fix's accuracy. */
+        CORRELATED_VAR_M2(0.0),
+        /** Distance driven since the session began (m). */
+        ODOMETER_M(0.0),
+        /** Time of the last fix that corrected or started the state (s since epoch). */
+        LAST_USED_FIX_T_REL(Double.NaN),
+        /** Time of the last fix received (s since epoch). */
+        LAST_FIX_T_REL(Double.NaN),
+        /** Odometer at the last used fix (m). */
+        ODOMETER_AT_LAST_USED_FIX_M(Double.NaN),
+        /** Decision on the newest fix, an ordinal of {@link GnssOutcome.Kind}; -1 before any. */
+        LAST_KIND(-1.0),
+        /** Normalised innovation squared of the newest fix (unitless), NaN when not computed. */
+        LAST_NIS(Double.NaN),
+        /** Alignment anchor: where the vehicle was while its yaw was unknown, east (m). */
+        ANCHOR_EAST_M(Double.NaN),
+        /** Alignment anchor, north (m). */
+        ANCHOR_NORTH_M(Double.NaN),
+        /** Odometer at the anchor (m). */
+        ANCHOR_ODOMETER_M(Double.NaN),
+        /** Why fixes are held back, an ordinal of {@link Reacquisition.Probation}. */
+        PROBATION(0.0),
+        /** Number of held fixes (count). */
+        PENDING_COUNT(0.0);
+
+        private final double initial;
+
+        Slot(double initial) {
+            this.initial = initial;
+        }
+    }
+
+    private static final Slot[] SLOTS = Slot.values();
+    /** {@link GnssOutcome.Kind#values()} once: that method copies the array at every call. */
+    private static final GnssOutcome.Kind[] KINDS = GnssOutcome.Kind.values();
+
     /** State vector, layout {@link StateIndex}. */
     final double[] x = new double[SIZE];
     /** Covariance of x, row-major SIZE x SIZE. */
     final double[] p = new double[SIZE * SIZE];
-    /** False until a position and a yaw exist. */
-    boolean initialized;
-    /** Time of the estimate (s since epoch), NaN before the first event. */
-    double tRel = Double.NaN;
-
-    // Height channel.
-    double upM;
-    double varUpM2 = Double.POSITIVE_INFINITY;
-
-    // Held inputs: the latest two readings of each stream.
-    double wheelSpeedMps;
-    double wheelSpeedTRel = Double.NaN;
-    double previousWheelSpeedMps;
-    double previousWheelSpeedTRel = Double.NaN;
-    double yawRateRadPerS;
-    double yawRateTRel = Double.NaN;
-    double previousYawRateRadPerS;
-    double previousYawRateTRel = Double.NaN;
-    boolean hasYawRate;
-
-    // Standstill.
-    double zeroSpeedSinceTRel = Double.NaN;
-    boolean standstill;
-
-    // GNSS bookkeeping.
-    /** Variance of the correlated GNSS error process (m^2), from the newest fix's accuracy. */
-    double correlatedVarM2;
-    double odometerM;
-    double lastUsedFixTRel = Double.NaN;
-    double lastFixTRel = Double.NaN;
-    double odometerAtLastUsedFixM = Double.NaN;
-    /** Decision on the newest fix; -1 before any (an ordinal of {@link GnssOutcome.Kind}). */
-    int lastKind = -1;
-    double lastNis = Double.NaN;
-
-    // Alignment: where the vehicle was while its yaw is still unknown.
-    double anchorEastM = Double.NaN;
-    double anchorNorthM = Double.NaN;
-    double anchorOdometerM = Double.NaN;
-
-    // Reacquisition: fixes held back after a gap or a gated fix.
-    /** An ordinal of {@link Reacquisition.Probation}. */
-    int probation;
+    /** The scalar bookkeeping, indexed by {@link Slot#ordinal()}. */
+    private final double[] v = new double[SLOTS.length];
+    /** Fixes held back by {@link Reacquisition}, {@link #PENDING_FIELDS} entries each. */
     final double[][] pending;
-    int pendingCount;
-
     /** Running counts, indexed by {@link FilterCounter#ordinal()}. */
-    final long[] counts = new long[FilterCounter.values().length];
+    private final long[] counts = new long[FilterCounter.values().length];
 
     /** @param heldFixes capacity of the reacquisition buffer (count, at least 1) */
     FilterState(int heldFixes) {
         this.pending = new double[heldFixes][PENDING_FIELDS];
-    }
-
-    /** A deep copy. */
-    FilterState copy() {
-        FilterState c = new FilterState(pending.length);
-        c.restore(this);
-        return c;
-    }
-
-    /** Makes this state an exact copy of {@code o}, which must have the same capacity. */
-    void restore(FilterState o) {
-        for (Field f : FIELDS) {
-            f.copy(o, this);
+        for (Slot slot : SLOTS) {
+            v[slot.ordinal()] = slot.initial;
         }
     }
 
-    /** Writes the whole state, bit for bit, for snapshots that must restore a filter exactly. */
-    void write(DataOutput out) throws IOException {
-        out.writeInt(FORMAT);
-        out.writeInt(FIELDS.size());
-        for (Field f : FIELDS) {
-            f.write(this, out);
-        }
+    double get(Slot slot) {
+        return v[slot.ordinal()];
     }
 
-    /**
-     * Reads what {@link #write} wrote into this state.
-     *
-     * @throws IOException when the data is not a state of this layout and capacity
-     */
-    void read(DataInput in) throws IOException {
-        int format = in.readInt();
-        if (format != FORMAT) {
-            throw new IOException("filter state: format " + format + ", expected " + FORMAT);
-        }
-        int n = in.readInt();
-        if (n != FIELDS.size()) {
-            throw new IOException("filter state: " + n + " fields, expected " + FIELDS.size());
-        }
-        for (Field f : FIELDS) {
-            f.read(this, in);
-        }
-        if (pendingCount < 0 || pendingCount > pending.length) {
-            throw new IOException("filter state: " + pendingCount + " held fixes, more than " + pending.length);
-        }
-        if (lastKind < -1 || lastKind >= GnssOutcome.Kind.values().length) {
-            throw new IOException("filter state: no fix decision numbered " + lastKind);
-        }
-        if (probation < 0 || probation >= Reacquisition.Probation.values().length) {
-            throw new IOException("filter state: no probation numbered " + probation);
-        }
+    void set(Slot slot, double value) {
+        v[slot.ordinal()] = value;
+    }
+
+    boolean is(Slot flag) {
+        return v[flag.ordinal()] != 0.0;
+    }
+
+    void set(Slot flag, boolean value) {
+        v[flag.ordinal()] = value ? 1.0 : 0.0;
+    }
+
+    int whole(Slot slot) {
+        return (int) v[slot.ordinal()];
+    }
+
+    void set(Slot slot, int value) {
+        v[slot.ordinal()] = value;
     }
 
     /** Time of the estimate (s since the session epoch), NaN before the first event. */
     public double tRel() {
-        return tRel;
+        return get(Slot.T_REL);
+    }
+
+    /** The decision on the newest fix, null before any. */
+    GnssOutcome.Kind lastKind() {
+        int k = whole(Slot.LAST_KIND);
+        return k < 0 ? null : KINDS[k];
     }
 
     long count(FilterCounter c) {
@@ -159,222 +165,105 @@ public final class FilterState {
         counts[c.ordinal()] += n;
     }
 
-    /** The decision on the newest fix, null before any. */
-    GnssOutcome.Kind lastKind() {
-        return lastKind < 0 ? null : GnssOutcome.Kind.values()[lastKind];
+    /** An immutable copy of the counters. */
+    FilterCounts counts() {
+        return new FilterCounts(counts);
+    }
+
+    /** A deep copy. */
+    FilterState copy() {
+        FilterState c = new FilterState(pending.length);
+        c.restore(this);
+        return c;
+    }
+
+    /** Makes this state an exact copy of {@code o}, which must have the same capacity. */
+    void restore(FilterState o) {
+        System.arraycopy(o.x, 0, x, 0, x.length);
+        System.arraycopy(o.p, 0, p, 0, p.length);
+        System.arraycopy(o.v, 0, v, 0, v.length);
+        for (int i = 0; i < pending.length; i++) {
+            System.arraycopy(o.pending[i], 0, pending[i], 0, PENDING_FIELDS);
+        }
+        System.arraycopy(o.counts, 0, counts, 0, counts.length);
+    }
+
+    /** Writes the whole state, bit for bit, for snapshots that must restore a filter exactly. */
+    void write(DataOutput out) throws IOException {
+        out.writeInt(FORMAT);
+        writeAll(out, x);
+        writeAll(out, p);
+        writeAll(out, v);
+        out.writeInt(pending.length);
+        for (double[] row : pending) {
+            writeAll(out, row);
+        }
+        out.writeInt(counts.length);
+        for (long c : counts) {
+            out.writeLong(c);
+        }
     }
 
     /**
-     * The fields of the state, in codec order. Each entry knows how to copy, write and read its field.
+     * Reads what {@link #write} wrote into this state.
+     *
+     * @throws IOException when the data is not a state of this layout and capacity, or holds values
+     *                     no filter can reach
      */
-    private static final List<Field> FIELDS = List.of(
-            Field.doubles(s -> s.x),
-            Field.doubles(s -> s.p),
-            Field.flag(s -> s.initialized, (s, v) -> s.initialized = v),
-            Field.real(s -> s.tRel, (s, v) -> s.tRel = v),
-            Field.real(s -> s.upM, (s, v) -> s.upM = v),
-            Field.real(s -> s.varUpM2, (s, v) -> s.varUpM2 = v),
-            Field.real(s -> s.wheelSpeedMps, (s, v) -> s.wheelSpeedMps = v),
-            Field.real(s -> s.wheelSpeedTRel, (s, v) -> s.wheelSpeedTRel = v),
-            Field.real(s -> s.previousWheelSpeedMps, (s, v) -> s.previousWheelSpeedMps = v),
-            Field.real(s -> s.previousWheelSpeedTRel, (s, v) -> s.previousWheelSpeedTRel = v),
-            Field.real(s -> s.yawRateRadPerS, (s, v) -> s.yawRateRadPerS = v),
-            Field.real(s -> s.yawRateTRel, (s, v) -> s.yawRateTRel = v),
-            Field.real(s -> s.previousYawRateRadPerS, (s, v) -> s.previousYawRateRadPerS = v),
-            Field.real(s -> s.previousYawRateTRel, (s, v) -> s.previousYawRateTRel = v),
-            Field.flag(s -> s.hasYawRate, (s, v) -> s.hasYawRate = v),
-            Field.real(s -> s.zeroSpeedSinceTRel, (s, v) -> s.zeroSpeedSinceTRel = v),
-            Field.flag(s -> s.standstill, (s, v) -> s.standstill = v),
-            Field.real(s -> s.correlatedVarM2, (s, v) -> s.correlatedVarM2 = v),
-            Field.real(s -> s.odometerM, (s, v) -> s.odometerM = v),
-            Field.real(s -> s.lastUsedFixTRel, (s, v) -> s.lastUsedFixTRel = v),
-            Field.real(s -> s.lastFixTRel, (s, v) -> s.lastFixTRel = v),
-            Field.real(s -> s.odometerAtLastUsedFixM, (s, v) -> s.odometerAtLastUsedFixM = v),
-            Field.integer(s -> s.lastKind, (s, v) -> s.lastKind = v),
-            Field.real(s -> s.lastNis, (s, v) -> s.lastNis = v),
-            Field.real(s -> s.anchorEastM, (s, v) -> s.anchorEastM = v),
-            Field.real(s -> s.anchorNorthM, (s, v) -> s.anchorNorthM = v),
-            Field.real(s -> s.anchorOdometerM, (s, v) -> s.anchorOdometerM = v),
-            Field.integer(s -> s.probation, (s, v) -> s.probation = v),
-            Field.rows(s -> s.pending),
-            Field.integer(s -> s.pendingCount, (s, v) -> s.pendingCount = v),
-            Field.longs(s -> s.counts));
-
-    /** One field of the state: how to copy it between states and how to write and read it. */
-    private interface Field {
-        void copy(FilterState from, FilterState to);
-
-        void write(FilterState s, DataOutput out) throws IOException;
-
-        void read(FilterState s, DataInput in) throws IOException;
-
-        static Field real(ToDoubleFunction<FilterState> get, ObjDoubleSetter set) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    set.accept(to, get.applyAsDouble(from));
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    out.writeDouble(get.applyAsDouble(s));
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    set.accept(s, in.readDouble());
-                }
-            };
+    void read(DataInput in) throws IOException {
+        int format = in.readInt();
+        if (format != FORMAT) {
+            throw new IOException("filter state: format " + format + ", expected " + FORMAT);
         }
-
-        static Field integer(ToIntFunction<FilterState> get, ObjIntConsumer<FilterState> set) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    set.accept(to, get.applyAsInt(from));
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    out.writeInt(get.applyAsInt(s));
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    set.accept(s, in.readInt());
-                }
-            };
+        readAll(in, x, "state vector");
+        readAll(in, p, "covariance");
+        readAll(in, v, "bookkeeping");
+        expectLength(in, pending.length, "held fixes");
+        for (double[] row : pending) {
+            readAll(in, row, "held fix");
         }
-
-        static Field flag(java.util.function.Predicate<FilterState> get, ObjBooleanSetter set) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    set.accept(to, get.test(from));
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    out.writeBoolean(get.test(s));
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    set.accept(s, in.readBoolean());
-                }
-            };
+        expectLength(in, counts.length, "counters");
+        for (int i = 0; i < counts.length; i++) {
+            counts[i] = in.readLong();
         }
-
-        /** A fixed-length array of doubles owned by the state. */
-        static Field doubles(Function<FilterState, double[]> get) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    double[] src = get.apply(from);
-                    System.arraycopy(src, 0, get.apply(to), 0, src.length);
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    double[] a = get.apply(s);
-                    out.writeInt(a.length);
-                    for (double v : a) {
-                        out.writeDouble(v);
-                    }
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    double[] a = get.apply(s);
-                    readLength(in, a.length);
-                    for (int i = 0; i < a.length; i++) {
-                        a[i] = in.readDouble();
-                    }
-                }
-            };
+        int held = whole(Slot.PENDING_COUNT);
+        if (held < 0 || held > pending.length) {
+            throw new IOException("filter state: " + held + " held fixes, more than " + pending.length);
         }
-
-        /** A fixed-length array of counters owned by the state. */
-        static Field longs(Function<FilterState, long[]> get) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    long[] src = get.apply(from);
-                    System.arraycopy(src, 0, get.apply(to), 0, src.length);
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    long[] a = get.apply(s);
-                    out.writeInt(a.length);
-                    for (long v : a) {
-                        out.writeLong(v);
-                    }
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    long[] a = get.apply(s);
-                    readLength(in, a.length);
-                    for (int i = 0; i < a.length; i++) {
-                        a[i] = in.readLong();
-                    }
-                }
-            };
+        int kind = whole(Slot.LAST_KIND);
+        if (kind < -1 || kind >= GnssOutcome.Kind.values().length) {
+            throw new IOException("filter state: no fix decision numbered " + kind);
         }
-
-        /** Rows of equal, fixed length owned by the state. */
-        static Field rows(Function<FilterState, double[][]> get) {
-            return new Field() {
-                @Override
-                public void copy(FilterState from, FilterState to) {
-                    double[][] src = get.apply(from);
-                    double[][] dst = get.apply(to);
-                    for (int i = 0; i < src.length; i++) {
-                        System.arraycopy(src[i], 0, dst[i], 0, src[i].length);
-                    }
-                }
-
-                @Override
-                public void write(FilterState s, DataOutput out) throws IOException {
-                    double[][] a = get.apply(s);
-                    out.writeInt(a.length);
-                    for (double[] row : a) {
-                        for (double v : row) {
-                            out.writeDouble(v);
-                        }
-                    }
-                }
-
-                @Override
-                public void read(FilterState s, DataInput in) throws IOException {
-                    double[][] a = get.apply(s);
-                    readLength(in, a.length);
-                    for (double[] row : a) {
-                        for (int j = 0; j < row.length; j++) {
-                            row[j] = in.readDouble();
-                        }
-                    }
-                }
-            };
-        }
-
-        private static void readLength(DataInput in, int expected) throws IOException {
-            int n = in.readInt();
-            if (n != expected) {
-                throw new IOException("filter state: an array of " + n + " entries where " + expected
-                        + " were expected");
-            }
+        int probation = whole(Slot.PROBATION);
+        if (probation < 0 || probation >= Reacquisition.Probation.values().length) {
+            throw new IOException("filter state: no probation numbered " + probation);
         }
     }
 
-    @FunctionalInterface
-    private interface ObjDoubleSetter {
-        void accept(FilterState s, double v);
+    private static void writeAll(DataOutput out, double[] a) throws IOException {
+        out.writeInt(a.length);
+        for (double d : a) {
+            out.writeDouble(d);
+        }
     }
 
-    @FunctionalInterface
-    private interface ObjBooleanSetter {
-        void accept(FilterState s, boolean v);
+    private static void readAll(DataInput in, double[] a, String what) throws IOException {
+        expectLength(in, a.length, what);
+        for (int i = 0; i < a.length; i++) {
+            a[i] = in.readDouble();
+        }
+    }
+
+    private static void expectLength(DataInput in, int expected, String what) throws IOException {
+        int n = in.readInt();
+        if (n != expected) {
+            throw new IOException("filter state: " + n + " entries of " + what + " where " + expected
+                    + " were expected");
+        }
+    }
+
+    @Override
+    public String toString() {
+        return "FilterState[t_rel=" + tRel() + ", x=" + Arrays.toString(x) + "]";
     }
 }

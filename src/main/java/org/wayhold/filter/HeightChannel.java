@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import org.wayhold.sample.GnssFix;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.VehicleProfile;
@@ -32,8 +34,8 @@ final class HeightChannel {
 
     /** Grows the height's variance over a step of {@code dtS} while the vehicle may move. */
     void predict(FilterState s, double dtS) {
-        if (Double.isFinite(s.varUpM2) && !s.standstill) {
-            s.varUpM2 += UP_RANDOM_WALK_M2_PER_S * dtS;
+        if (Double.isFinite(s.get(Slot.VAR_UP_M2)) && !s.is(Slot.STANDSTILL)) {
+            s.set(Slot.VAR_UP_M2, s.get(Slot.VAR_UP_M2) + (UP_RANDOM_WALK_M2_PER_S * dtS));
         }
     }
 
@@ -50,13 +52,13 @@ final class HeightChannel {
         double fixUpM = antennaUpM - leverUpM;
         double sigmaV = fix.hasSigmaV() ? Math.max(fix.sigmaVM(), floorM) : VERTICAL_TO_HORIZONTAL * sigmaHM;
         double rv = sigmaV * sigmaV;
-        if (!Double.isFinite(s.varUpM2)) {
-            s.upM = fixUpM;
-            s.varUpM2 = rv;
+        if (!Double.isFinite(s.get(Slot.VAR_UP_M2))) {
+            s.set(Slot.UP_M, fixUpM);
+            s.set(Slot.VAR_UP_M2, rv);
             return;
         }
-        double gain = s.varUpM2 / (s.varUpM2 + rv);
-        s.upM += gain * (fixUpM - s.upM);
-        s.varUpM2 = (1.0 - gain) * s.varUpM2;
+        double gain = s.get(Slot.VAR_UP_M2) / (s.get(Slot.VAR_UP_M2) + rv);
+        s.set(Slot.UP_M, s.get(Slot.UP_M) + (gain * (fixUpM - s.get(Slot.UP_M))));
+        s.set(Slot.VAR_UP_M2, (1.0 - gain) * s.get(Slot.VAR_UP_M2));
     }
 }

@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 /**
  * The inputs between readings. Wheel speed and yaw rate drive the prediction; each step takes them at
  * its midpoint on the line through their last two readings, at most one reading interval (and
@@ -18,35 +20,35 @@ final class InputHold {
 
     /** Records a wheel-speed reading at the state's time (m/s, signed). */
     static void recordWheelSpeed(FilterState s, double speedMps) {
-        s.previousWheelSpeedMps = s.wheelSpeedMps;
-        s.previousWheelSpeedTRel = s.wheelSpeedTRel;
-        s.wheelSpeedMps = speedMps;
-        s.wheelSpeedTRel = s.tRel;
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_MPS, s.get(Slot.WHEEL_SPEED_MPS));
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_T_REL, s.get(Slot.WHEEL_SPEED_T_REL));
+        s.set(Slot.WHEEL_SPEED_MPS, speedMps);
+        s.set(Slot.WHEEL_SPEED_T_REL, s.get(Slot.T_REL));
     }
 
     /** Records a yaw-rate reading at the state's time (rad/s, counter-clockwise positive). */
     static void recordYawRate(FilterState s, double rateRadPerS) {
-        s.previousYawRateRadPerS = s.yawRateRadPerS;
-        s.previousYawRateTRel = s.yawRateTRel;
-        s.yawRateRadPerS = rateRadPerS;
-        s.yawRateTRel = s.tRel;
-        s.hasYawRate = true;
+        s.set(Slot.PREVIOUS_YAW_RATE_RAD_PER_S, s.get(Slot.YAW_RATE_RAD_PER_S));
+        s.set(Slot.PREVIOUS_YAW_RATE_T_REL, s.get(Slot.YAW_RATE_T_REL));
+        s.set(Slot.YAW_RATE_RAD_PER_S, rateRadPerS);
+        s.set(Slot.YAW_RATE_T_REL, s.get(Slot.T_REL));
+        s.set(Slot.HAS_YAW_RATE, true);
     }
 
     /** The wheel speed to use over a step whose midpoint is {@code tMidRel} (m/s). */
     static double wheelSpeedAt(FilterState s, double tMidRel) {
-        double wheel = extended(s.wheelSpeedMps, s.wheelSpeedTRel, s.previousWheelSpeedMps,
-                s.previousWheelSpeedTRel, tMidRel);
-        if (wheel * s.wheelSpeedMps <= 0.0) {
+        double wheel = extended(s.get(Slot.WHEEL_SPEED_MPS), s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_MPS),
+                s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL), tMidRel);
+        if (wheel * s.get(Slot.WHEEL_SPEED_MPS) <= 0.0) {
             // Never extend through zero: a stop or a change of direction shows in the readings first.
-            wheel = s.wheelSpeedMps;
+            wheel = s.get(Slot.WHEEL_SPEED_MPS);
         }
         return wheel;
     }
 
     /** The measured yaw rate to use over a step whose midpoint is {@code tMidRel} (rad/s). */
     static double yawRateAt(FilterState s, double tMidRel) {
-        return extended(s.yawRateRadPerS, s.yawRateTRel, s.previousYawRateRadPerS, s.previousYawRateTRel, tMidRel);
+        return extended(s.get(Slot.YAW_RATE_RAD_PER_S), s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), tMidRel);
     }
 
     /**

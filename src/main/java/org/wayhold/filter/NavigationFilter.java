@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import static org.wayhold.filter.StateIndex.EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
@@ -91,7 +93,7 @@ public final class NavigationFilter {
         this.alignment = new Alignment(settings, gnssNoise, position);
         this.reacquisition = new Reacquisition(gating, outage, settings.gnssCorrelationTimeS());
         this.s = new FilterState(reacquisition.reacquireFixes());
-        s.correlatedVarM2 = gnssNoise.defaultCorrelatedVarM2();
+        s.set(Slot.CORRELATED_VAR_M2, gnssNoise.defaultCorrelatedVarM2());
     }
 
     /** A deep copy that can run on its own (branches, such as a drive survey's outage windows). */
@@ -154,10 +156,10 @@ public final class NavigationFilter {
     public void initialize(double tRelS, double[] state, double[] cov) {
         System.arraycopy(state, 0, s.x, 0, SIZE);
         System.arraycopy(cov, 0, s.p, 0, SIZE * SIZE);
-        s.tRel = tRelS;
-        s.initialized = true;
-        s.lastUsedFixTRel = tRelS;
-        s.odometerAtLastUsedFixM = s.odometerM;
+        s.set(Slot.T_REL, tRelS);
+        s.set(Slot.INITIALIZED, true);
+        s.set(Slot.LAST_USED_FIX_T_REL, tRelS);
+        s.set(Slot.ODOMETER_AT_LAST_USED_FIX_M, s.get(Slot.ODOMETER_M));
     }
 
     /**
@@ -167,29 +169,29 @@ public final class NavigationFilter {
      * @param tRelS time (s since epoch), not before the current time
      */
     public void predictTo(double tRelS) {
-        if (Double.isNaN(s.tRel)) {
-            s.tRel = tRelS;
+        if (Double.isNaN(s.get(Slot.T_REL))) {
+            s.set(Slot.T_REL, tRelS);
             return;
         }
-        double dt = tRelS - s.tRel;
+        double dt = tRelS - s.get(Slot.T_REL);
         if (dt < 0.0) {
             throw new IllegalStateException("time went back by " + (-dt) + " s: samples must be ordered");
         }
-        double from = s.tRel;
+        double from = s.get(Slot.T_REL);
         while (dt > 0.0) {
             double step = Math.min(dt, MAX_STEP_S);
             propagate(step, from + 0.5 * step);
             from += step;
             dt -= step;
         }
-        s.tRel = tRelS;
+        s.set(Slot.T_REL, tRelS);
     }
 
     private void propagate(double dt, double tMidRel) {
         double wheel = InputHold.wheelSpeedAt(s, tMidRel);
         double rate = InputHold.yawRateAt(s, tMidRel);
-        s.odometerM += Math.abs((s.initialized ? s.x[SPEED_SCALE] : Alignment.keptScale(s)) * wheel) * dt;
-        if (!s.initialized) {
+        s.set(Slot.ODOMETER_M, s.get(Slot.ODOMETER_M) + (Math.abs((s.is(Slot.INITIALIZED) ? s.x[SPEED_SCALE] : Alignment.keptScale(s)) * wheel) * dt));
+        if (!s.is(Slot.INITIALIZED)) {
             return;
         }
         double decay;
@@ -200,12 +202,12 @@ public final class NavigationFilter {
             decayDtS = dt;
             decayForDt = decay;
         }
-        MotionModel.step(s.x, wheel, rate, dt, s.standstill, decay, xNext, f, inputJac);
+        MotionModel.step(s.x, wheel, rate, dt, s.is(Slot.STANDSTILL), decay, xNext, f, inputJac);
         System.arraycopy(xNext, 0, s.x, 0, SIZE);
         s.x[YAW] = Angles.wrapPi(s.x[YAW]);
         // P = F P F' + Q
         CovariancePrediction.predict(f, s.p, tmp);
-        processNoise.add(s.p, inputJac, dt, s.standstill, decay, s.correlatedVarM2);
+        processNoise.add(s.p, inputJac, dt, s.is(Slot.STANDSTILL), decay, s.get(Slot.CORRELATED_VAR_M2));
         height.predict(s, dt);
     }
 
@@ -222,7 +224,7 @@ public final class NavigationFilter {
     public void setYawRate(double rateRadPerS) {
         InputHold.recordYawRate(s, rateRadPerS);
         standstill.onYawRate(s);
-        if (s.initialized && s.standstill) {
+        if (s.is(Slot.INITIALIZED) && s.is(Slot.STANDSTILL)) {
             zeroRate.update(s, update, rateRadPerS);
         }
     }
@@ -246,7 +248,7 @@ public final class NavigationFilter {
      */
     public GnssOutcome updateGnss(GnssFix fix, double eastM, double northM, double upM) {
         GnssOutcome.Kind kind = correct(fix, eastM, northM, upM);
-        return outcome(kind, s.lastNis);
+        return outcome(kind, s.get(Slot.LAST_NIS));
     }
 
     /**
@@ -254,15 +256,15 @@ public final class NavigationFilter {
      * replays. The normalised innovation squared is {@link #lastNis()}.
      */
     public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double upM) {
-        s.lastFixTRel = s.tRel;
-        s.lastNis = Double.NaN;
+        s.set(Slot.LAST_FIX_T_REL, s.get(Slot.T_REL));
+        s.set(Slot.LAST_NIS, Double.NaN);
         GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, upM);
-        s.lastKind = kind.ordinal();
+        s.set(Slot.LAST_KIND, kind.ordinal());
         switch (kind) {
             case ACCEPTED, REACQUIRED, INITIALIZING -> {
                 s.increment(FilterCounter.FIXES_USED);
-                s.lastUsedFixTRel = s.tRel;
-                s.odometerAtLastUsedFixM = s.odometerM;
+                s.set(Slot.LAST_USED_FIX_T_REL, s.get(Slot.T_REL));
+                s.set(Slot.ODOMETER_AT_LAST_USED_FIX_M, s.get(Slot.ODOMETER_M));
             }
             case GATED -> s.increment(FilterCounter.FIXES_GATED);
             case PENDING -> s.increment(FilterCounter.FIXES_PENDING);
@@ -278,15 +280,15 @@ public final class NavigationFilter {
         }
         double sigma = gnssNoise.horizontalSigmaM(fix);
         double var = sigma * sigma;
-        if (!s.initialized) {
+        if (!s.is(Slot.INITIALIZED)) {
             height.update(s, fix, upM, Math.sqrt(var));
             return alignment.align(s, fix, eastM, northM, var);
         }
-        s.correlatedVarM2 = gnssNoise.correlatedVarM2(var);
+        s.set(Slot.CORRELATED_VAR_M2, gnssNoise.correlatedVarM2(var));
         double whiteVar = gnssNoise.whiteVarM2(var);
         height.update(s, fix, upM, sigma);
         double nis = position.innovation(s, update, eastM, northM, whiteVar);
-        s.lastNis = nis;
+        s.set(Slot.LAST_NIS, nis);
         Reacquisition.Verdict verdict = reacquisition.decide(s, update.nu[0], update.nu[1], nis, whiteVar,
                 Alignment.calibrationPlausible(s));
         return switch (verdict) {
@@ -311,7 +313,7 @@ public final class NavigationFilter {
 
     /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
     public double lastNis() {
-        return s.lastNis;
+        return s.get(Slot.LAST_NIS);
     }
 
     private GnssOutcome outcome(GnssOutcome.Kind kind, double nis) {
@@ -319,12 +321,12 @@ public final class NavigationFilter {
     }
 
     public boolean initialized() {
-        return s.initialized;
+        return s.is(Slot.INITIALIZED);
     }
 
     /** Time of the estimate (s since epoch), NaN before the first event. */
     public double tRel() {
-        return s.tRel;
+        return s.get(Slot.T_REL);
     }
 
     /** A copy of the state vector, layout {@link StateIndex}. */
@@ -346,16 +348,16 @@ public final class NavigationFilter {
     public FilterSnapshot snapshot() {
         double[] x = s.x;
         double[] p = s.p;
-        double speed = x[SPEED_SCALE] * s.wheelSpeedMps;
-        double rate = s.standstill || !s.hasYawRate ? 0.0 : s.yawRateRadPerS - x[GYRO_BIAS];
+        double speed = x[SPEED_SCALE] * s.get(Slot.WHEEL_SPEED_MPS);
+        double rate = s.is(Slot.STANDSTILL) || !s.is(Slot.HAS_YAW_RATE) ? 0.0 : s.get(Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
         GnssOutcome.Kind lastKind = s.lastKind();
-        return new FilterSnapshot(s.tRel, s.initialized, x[EAST], x[NORTH],
-                Double.isFinite(s.varUpM2) ? s.upM : 0.0, x[YAW], x[GYRO_BIAS], s.initialized ? x[SPEED_SCALE] : 1.0,
+        return new FilterSnapshot(s.get(Slot.T_REL), s.is(Slot.INITIALIZED), x[EAST], x[NORTH],
+                Double.isFinite(s.get(Slot.VAR_UP_M2)) ? s.get(Slot.UP_M) : 0.0, x[YAW], x[GYRO_BIAS], s.is(Slot.INITIALIZED) ? x[SPEED_SCALE] : 1.0,
                 x[GNSS_ERR_EAST], x[GNSS_ERR_NORTH], p[EAST * SIZE + EAST], p[EAST * SIZE + NORTH],
                 p[NORTH * SIZE + NORTH], p[YAW * SIZE + YAW], p[GYRO_BIAS * SIZE + GYRO_BIAS],
-                p[SPEED_SCALE * SIZE + SPEED_SCALE], Double.isFinite(s.varUpM2) ? s.varUpM2 : Double.NaN,
-                s.initialized ? speed : s.wheelSpeedMps, rate, s.standstill, s.odometerM, s.lastUsedFixTRel,
-                s.lastFixTRel, lastKind == null ? null : outcome(lastKind, s.lastNis), s.odometerAtLastUsedFixM,
-                new FilterCounts(s.counts));
+                p[SPEED_SCALE * SIZE + SPEED_SCALE], Double.isFinite(s.get(Slot.VAR_UP_M2)) ? s.get(Slot.VAR_UP_M2) : Double.NaN,
+                s.is(Slot.INITIALIZED) ? speed : s.get(Slot.WHEEL_SPEED_MPS), rate, s.is(Slot.STANDSTILL), s.get(Slot.ODOMETER_M), s.get(Slot.LAST_USED_FIX_T_REL),
+                s.get(Slot.LAST_FIX_T_REL), lastKind == null ? null : outcome(lastKind, s.get(Slot.LAST_NIS)), s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M),
+                s.counts());
     }
 }

@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
@@ -21,6 +23,9 @@ final class Reacquisition {
 
     /** Why fixes are being held back. */
     enum Probation { NONE, AFTER_GAP, AFTER_GATE }
+
+    /** {@link Probation#values()} once: that method copies the array at every call. */
+    private static final Probation[] PROBATIONS = Probation.values();
 
     /** What to do with the current fix. */
     enum Verdict {
@@ -76,28 +81,28 @@ final class Reacquisition {
      */
     Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
                    boolean calibrationPlausible) {
-        if (s.probation == Probation.NONE.ordinal() && s.tRel - s.lastUsedFixTRel > gapS) {
-            s.probation = Probation.AFTER_GAP.ordinal();
-            s.pendingCount = 0;
+        if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
+            s.set(Slot.PROBATION, Probation.AFTER_GAP.ordinal());
+            s.set(Slot.PENDING_COUNT, 0);
         }
         boolean passes = nis <= gateThreshold;
-        Probation probation = Probation.values()[s.probation];
+        Probation probation = PROBATIONS[s.whole(Slot.PROBATION)];
         if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
             if (passes) {
                 end(s);
                 return Verdict.ACCEPT;
             }
-            s.probation = Probation.AFTER_GATE.ordinal();
-            s.pendingCount = 0;
+            s.set(Slot.PROBATION, Probation.AFTER_GATE.ordinal());
+            s.set(Slot.PENDING_COUNT, 0);
             hold(s, nuEastM, nuNorthM, whiteVar);
             return Verdict.GATED;
         }
         hold(s, nuEastM, nuNorthM, whiteVar);
-        if (s.pendingCount >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible)) {
+        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible)) {
             end(s);
             return Verdict.RESET;
         }
-        if (s.pendingCount >= reacquireFixes) {
+        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes) {
             end(s);
             return Verdict.REACQUIRE;
         }
@@ -106,8 +111,8 @@ final class Reacquisition {
 
     /** Ends any probation and forgets the held fixes. */
     static void end(FilterState s) {
-        s.probation = Probation.NONE.ordinal();
-        s.pendingCount = 0;
+        s.set(Slot.PROBATION, Probation.NONE.ordinal());
+        s.set(Slot.PENDING_COUNT, 0);
     }
 
     /**
@@ -122,37 +127,39 @@ final class Reacquisition {
         double[][] pending = s.pending;
         double relVarPerM2 = Math.max(p[YAW * SIZE + YAW], 0.0) + Math.max(p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0);
         // Newest first: a disagreement drops that fix and every older one.
-        for (int i = s.pendingCount - 1; i >= 0; i--) {
+        for (int i = s.whole(Slot.PENDING_COUNT) - 1; i >= 0; i--) {
             double[] q = pending[i];
             double de = nuEastM - q[0];
             double dn = nuNorthM - q[1];
-            double driven = s.odometerM - q[3];
-            double gmChange = 2.0 * s.correlatedVarM2 * (1.0 - Math.exp(-(s.tRel - q[4]) / correlationTimeS));
+            double driven = s.get(Slot.ODOMETER_M) - q[3];
+            double gmChange = 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-(s.get(Slot.T_REL) - q[4]) / correlationTimeS));
             double v = whiteVar + q[2] + driven * driven * relVarPerM2 + gmChange;
             if ((de * de + dn * dn) / v > gateThreshold) {
                 int drop = i + 1;
                 s.add(FilterCounter.FIXES_DROPPED, drop);
-                for (int j = 0; j < s.pendingCount - drop; j++) {
+                for (int j = 0; j < s.whole(Slot.PENDING_COUNT) - drop; j++) {
                     double[] kept = pending[j + drop];
                     pending[j + drop] = pending[j];
                     pending[j] = kept;
                 }
-                s.pendingCount -= drop;
+                s.set(Slot.PENDING_COUNT, s.whole(Slot.PENDING_COUNT) - (drop));
                 break;
             }
         }
-        if (s.pendingCount == reacquireFixes) {
+        if (s.whole(Slot.PENDING_COUNT) == reacquireFixes) {
             // Full and all agree: shift out the oldest.
             double[] first = pending[0];
             System.arraycopy(pending, 1, pending, 0, reacquireFixes - 1);
             pending[reacquireFixes - 1] = first;
-            s.pendingCount--;
+            s.set(Slot.PENDING_COUNT, s.whole(Slot.PENDING_COUNT) - 1);
         }
-        double[] slot = pending[s.pendingCount++];
+        int held = s.whole(Slot.PENDING_COUNT);
+        s.set(Slot.PENDING_COUNT, held + 1);
+        double[] slot = pending[held];
         slot[0] = nuEastM;
         slot[1] = nuNorthM;
         slot[2] = whiteVar;
-        slot[3] = s.odometerM;
-        slot[4] = s.tRel;
+        slot[3] = s.get(Slot.ODOMETER_M);
+        slot[4] = s.get(Slot.T_REL);
     }
 }

@@ -1,5 +1,7 @@
 package org.wayhold.filter;
 
+import org.wayhold.filter.FilterState.Slot;
+
 import org.wayhold.settings.FilterSettings;
 
 /**
@@ -20,14 +22,14 @@ final class Standstill {
 
     /** Updates the decision after a wheel-speed reading was recorded. */
     void onWheelSpeed(FilterState s) {
-        if (Math.abs(s.wheelSpeedMps) < ZERO_SPEED_MPS) {
-            if (Double.isNaN(s.zeroSpeedSinceTRel)) {
-                s.zeroSpeedSinceTRel = s.tRel;
+        if (Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) < ZERO_SPEED_MPS) {
+            if (Double.isNaN(s.get(Slot.ZERO_SPEED_SINCE_T_REL))) {
+                s.set(Slot.ZERO_SPEED_SINCE_T_REL, s.get(Slot.T_REL));
             }
-            s.standstill = s.tRel - s.zeroSpeedSinceTRel >= afterS;
+            s.set(Slot.STANDSTILL, s.get(Slot.T_REL) - s.get(Slot.ZERO_SPEED_SINCE_T_REL) >= afterS);
         } else {
-            s.zeroSpeedSinceTRel = Double.NaN;
-            s.standstill = false;
+            s.set(Slot.ZERO_SPEED_SINCE_T_REL, Double.NaN);
+            s.set(Slot.STANDSTILL, false);
         }
     }
 
@@ -36,8 +38,8 @@ final class Standstill {
      * here too, as the wheel-speed stream may be slower.
      */
     void onYawRate(FilterState s) {
-        if (Math.abs(s.wheelSpeedMps) < ZERO_SPEED_MPS && !Double.isNaN(s.zeroSpeedSinceTRel)) {
-            s.standstill = s.tRel - s.zeroSpeedSinceTRel >= afterS;
+        if (Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) < ZERO_SPEED_MPS && !Double.isNaN(s.get(Slot.ZERO_SPEED_SINCE_T_REL))) {
+            s.set(Slot.STANDSTILL, s.get(Slot.T_REL) - s.get(Slot.ZERO_SPEED_SINCE_T_REL) >= afterS);
         }
     }
 }
