@@ -201,6 +201,7 @@ final class ScoreCommand implements Callable<Integer> {
                     rejectedCount.incrementAndGet();
                 }
             });
+            List<Sample> all = samples;
             List<String> notes = new ArrayList<>();
             if (rejectedCount.get() > 0) {
                 StringBuilder b = new StringBuilder(rejectedCount.get() + " NDJSON lines rejected");
@@ -209,7 +210,7 @@ final class ScoreCommand implements Callable<Integer> {
             }
             if (nmea != null) {
                 NmeaResult r = NmeaReader.readFile(nmea);
-                samples.addAll(r.fixes());
+                all = mergedByTime(samples, r.fixes());
                 notes.add(String.format(Locale.ROOT, "GNSS from %s: %d fixes; %d sentences skipped as bad; "
                                 + "%d without a solution, %d receiver dead reckoning, %d other quality skipped; "
                                 + "%d undated", nmea.getFileName(), r.fixes().size(), r.bad().size(), r.noSolution(),
@@ -217,8 +218,28 @@ final class ScoreCommand implements Callable<Integer> {
                 r.bad().stream().limit(NOTED_ERRORS).forEach(e ->
                         notes.add(nmea.getFileName() + " line " + e.line() + ": " + e.reason()));
             }
-            return new ScoringRun.LoadedLog(name(), samples, notes);
+            return new ScoringRun.LoadedLog(name(), all, notes);
         }
+    }
+
+    /**
+     * The log's samples with the fixes of a separate GNSS file woven in by time, as a rig posting both
+     * streams would interleave them: each fix goes before the first log sample that is later than it.
+     * Both lists keep their own order, so the time ordering sees each stream as it was recorded.
+     */
+    static List<Sample> mergedByTime(List<Sample> log, List<? extends Sample> fixes) {
+        List<Sample> merged = new ArrayList<>(log.size() + fixes.size());
+        int f = 0;
+        for (Sample s : log) {
+            while (f < fixes.size() && fixes.get(f).t() < s.t()) {
+                merged.add(fixes.get(f++));
+            }
+            merged.add(s);
+        }
+        while (f < fixes.size()) {
+            merged.add(fixes.get(f++));
+        }
+        return merged;
     }
 
     /** Progress on stderr: at most one line every two seconds, and none when quiet. */

@@ -86,7 +86,7 @@ public final class NavigationFilter {
         this.gnssNoise = new GnssNoise(settings);
         this.processNoise = new ProcessNoise(settings);
         this.position = new PositionFix(profile);
-        this.courseSpeed = new CourseSpeed(settings);
+        this.courseSpeed = new CourseSpeed(settings, profile);
         this.zeroRate = new ZeroRate(settings);
         this.height = new HeightChannel(settings, profile);
         this.standstill = new Standstill(settings);

@@ -10,6 +10,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.OptionalLong;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.Executors;
 import java.util.concurrent.ScheduledExecutorService;
@@ -213,16 +214,13 @@ public final class SessionJournal implements Closeable {
             for (VehicleSession s : sessions.sessions()) {
                 String id = s.vehicleId();
                 ByteArrayOutputStream bytes = new ByteArrayOutputStream(64 * 1024);
-                long lastSeq;
-                synchronized (s) {
-                    if (sessions.find(id).map(e -> e.session() != s).orElse(true)) {
-                        continue;
-                    }
-                    s.writeSnapshot(new DataOutputStream(bytes));
-                    // Every record of this vehicle so far was queued under this lock, so it is numbered
-                    // below this; every later one will be numbered at or above it.
-                    lastSeq = journal.nextSeq() - 1;
+                // Every record of this vehicle so far was queued under the session's lock, so it is numbered
+                // below the number read under it; every later one will be numbered at or above it.
+                OptionalLong at = s.writeSnapshot(new DataOutputStream(bytes), () -> journal.nextSeq() - 1);
+                if (at.isEmpty()) {
+                    continue;
                 }
+                long lastSeq = at.getAsLong();
                 captured.add(new Journal.SessionSnapshot(id, lastSeq, bytes.toByteArray()));
             }
             journal.writeSnapshot(floor, captured);

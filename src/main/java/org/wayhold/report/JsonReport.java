@@ -110,6 +110,7 @@ public final class JsonReport {
             ObjectNode o = logs.addObject();
             o.put("log", l.name());
             o.put("reference", l.reference().wireName());
+            o.put("estimate_point", l.reference().estimatePoint());
             o.put("samples", l.samples());
             num(o, "start", l.startT(), 3);
             num(o, "duration", l.endT() - l.startT(), 3);
