@@ -14,7 +14,7 @@ import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
 /**
- * {@code application/json} bodies (contract: "one object or an array"); a rejection's line is the
+ * {@code application/json} bodies (openapi.yaml and README.md: "one object or an array"); a rejection's line is the
  * 1-based index of the element.
  */
 class JsonBodyTest {

@@ -17,8 +17,8 @@ import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
 /**
- * The NDJSON sample format of the interface contract (/work/shared/contract.md, "Sample log / ingest
- * format"). Expected values are exact hand cases: each line is typed here and the record it must give
+ * The NDJSON sample format as README.md ("Sample format") and openapi.yaml (schema {@code Sample})
+ * define it. Expected values are exact hand cases: each line is typed here and the record it must give
  * is written out field by field.
  */
 class NdjsonReaderTest {
