@@ -61,6 +61,12 @@ final class SimulateCommand implements Callable<Integer> {
     @Option(names = "--out", required = true, paramLabel = "FILE", description = "Where to write the drive.")
     private Path out;
 
+    /** The simulator's names for the values these options set. */
+    private static final Map<String, String> OPTION_NAMES = Map.of(
+            "route.durationS", "--minutes", "route.tunnelsS[]", "--tunnels", "route.canyonsS[]", "--canyons",
+            "route.warmUpS", "--warm-up", "route.originLatDeg", "--origin", "route.originLonDeg", "--origin",
+            "route.originAltM", "--origin");
+
     @Override
     public Integer call() throws IOException {
         SimulationSettings s = settings();
@@ -68,7 +74,7 @@ final class SimulateCommand implements Callable<Integer> {
         try {
             drive = DriveSimulator.simulate(s, seed);
         } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
+            throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
         Map<String, Integer> counts = new TreeMap<>();
         try (NdjsonWriter w = NdjsonWriter.open(out)) {
@@ -82,6 +88,11 @@ final class SimulateCommand implements Callable<Integer> {
     }
 
     private SimulationSettings settings() {
+        // Checked here so that the message is in the option's unit (the simulator counts seconds).
+        if (!(minutes > 0.0) || Double.isInfinite(minutes)) {
+            throw new ParameterException(spec.commandLine(),
+                    "--minutes: must be a positive number of minutes, was " + minutes);
+        }
         try {
             SimulationSettings s = SimulationSettings.defaults()
                     .withMinutes(minutes)
@@ -94,7 +105,7 @@ final class SimulateCommand implements Callable<Integer> {
             }
             return perfect ? s.perfectSensors() : s;
         } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
+            throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
     }
 

@@ -66,6 +66,7 @@ public final class SessionJournal implements Closeable {
     private final Object snapshotLock = new Object();
     private ScheduledExecutorService snapshots;
     private volatile long snapshotsWritten;
+    private final java.util.concurrent.atomic.AtomicLong snapshotFailures = new java.util.concurrent.atomic.AtomicLong();
     private volatile long lastSnapshotNanos;
     private volatile String lastSnapshotError;
     private volatile boolean closed;
@@ -197,6 +198,7 @@ public final class SessionJournal implements Closeable {
         } catch (IOException | RuntimeException e) {
             // The journal still holds everything; only the bound on replay time is lost until the next one.
             lastSnapshotError = e.toString();
+            snapshotFailures.incrementAndGet();
         }
     }
 
@@ -229,6 +231,21 @@ public final class SessionJournal implements Closeable {
             lastSnapshotError = null;
             return captured.size();
         }
+    }
+
+    /** Records this process has written to the journal (batches and deletions), for metrics. */
+    public long recordsWritten() {
+        return journal.recordsWritten();
+    }
+
+    /** Bytes this process has written to the journal's segments, for metrics. */
+    public long bytesWritten() {
+        return journal.bytesWritten();
+    }
+
+    /** Periodic snapshots that failed since the start (each is retried at the next interval). */
+    public long snapshotFailures() {
+        return snapshotFailures.get();
     }
 
     /** The journal's state for an admin view. */

@@ -22,7 +22,7 @@ import org.wayhold.simulate.SimulationSettings;
 /**
  * Bad fixes must not yank the pose: a 20-40 m open-sky outlier and the multipath-offset fixes right
  * after a tunnel exit (5-15 m, the simulator's defaults) each move the estimate by less than 2 m beyond
- * what the wheels and gyro moved it (target of the fusion-core issue). The jump a fix causes is the
+ * what the wheels and gyro moved it (the project's target, DEVELOPERS.md, "Targets the tests hold"). The jump a fix causes is the
  * distance between the estimate predicted to the fix time and the estimate after the fix.
  */
 class BadFixRobustnessTest {

@@ -146,7 +146,7 @@ class ScoringRunTest {
 
     /**
      * The default route with perfect sensors (accelerations, turns, a standstill and a reversing move)
-     * drifts by less than 1 cm in every window (target of the scoring issue). It did not while the
+     * drifts by less than 1 cm in every window (DEVELOPERS.md, "Targets the tests hold"). It did not while the
      * filter held each reading until the next: a held input lags a changing one by half a reading
      * interval, which gave up to 1.07 m after 60 s on this drive (seed 21).
      */
