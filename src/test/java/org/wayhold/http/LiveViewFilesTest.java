@@ -12,6 +12,8 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 import java.util.TreeSet;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import java.util.stream.Collectors;
 import java.util.stream.Stream;
 import org.junit.jupiter.api.AfterAll;
@@ -21,7 +23,9 @@ import org.junit.jupiter.api.TestInstance;
 
 /**
  * The live view's files on a real server with read tokens configured: every file of {@code web/} is
- * served without a token and with its type, and the data routes still need one.
+ * served without a token and with its type, the data routes still need one, and the page's module
+ * graph is complete (every import and every name index.html gives resolves to a file, and index.html
+ * names every module, so none is fetched late or left out of the jar unnoticed).
  *
  * <p>Expected types: {@code text/javascript} is the JavaScript type of RFC 9239 (sec. 6), and the HTML
  * Living Standard runs a module script only when its response has a JavaScript MIME type; {@code text/css}
@@ -85,7 +89,7 @@ class LiveViewFilesTest {
     @Test
     void everyFileOfThePageIsServedWithoutATokenAndWithItsType() {
         Set<String> files = pageFiles();
-        assertThat(files).contains("/index.html", "/view.css");
+        assertThat(files).contains("/index.html", "/view.css", "/js/main.js");
         for (String path : files) {
             HttpResponse<String> r = server.get(path);
             assertThat(r.statusCode()).as(path).isEqualTo(200);
@@ -107,6 +111,32 @@ class LiveViewFilesTest {
         for (String path : List.of("/js/missing.js", "/missing.html", "/js/", "/js", "/view.css.map", "/JS/main.js",
                 "/js/../view.css", "/js/%2e%2e/view.css", "/web/index.html")) {
             assertThat(server.get(path).statusCode()).as(path).isEqualTo(401);
+        }
+    }
+
+    @Test
+    void indexNamesEveryModuleAndEveryImportResolves() {
+        Set<String> modules = pageFiles().stream().filter(p -> p.endsWith(".js"))
+                .collect(Collectors.toCollection(TreeSet::new));
+        String index = read("/index.html");
+        Set<String> named = new TreeSet<>();
+        Matcher m = Pattern.compile("<(?:script type=\"module\" src|link rel=\"modulepreload\" href)=\"([^\"]+)\"")
+                .matcher(index);
+        while (m.find()) {
+            named.add("/" + m.group(1));
+        }
+        assertThat(named).as("modules named by index.html").isEqualTo(modules);
+        assertThat(index).contains("<script type=\"module\" src=\"js/main.js\">");
+        // Static imports only, relative to the importing module (no bundler resolves bare names here).
+        Pattern importFrom = Pattern.compile("^import\\s[^;]*?from\\s+'([^']+)';", Pattern.MULTILINE | Pattern.DOTALL);
+        for (String module : modules) {
+            Matcher i = importFrom.matcher(read(module));
+            while (i.find()) {
+                String target = i.group(1);
+                assertThat(target).as("import in %s", module).startsWith("./").endsWith(".js");
+                String resolved = module.substring(0, module.lastIndexOf('/') + 1) + target.substring(2);
+                assertThat(modules).as("import of %s in %s", target, module).contains(resolved);
+            }
         }
     }
 
