@@ -1,8 +1,9 @@
 #!/usr/bin/env bash
-# End-to-end check of the live view (/) in a real browser: Debian's headless Chromium driven by
-# playwright-core from npm (no browser download). Starts the service jar with a replay of
-# sample-logs/two-tunnels.ndjson.gz at 20x and checks the page against it; see e2e/view.e2e.mjs.
-# Screenshots go to target/e2e/. The last line is "e2e: N passed, N failed".
+# The live view (/): first the unit tests of its page-free modules under Node (e2e/modules.test.mjs),
+# then the end-to-end check in a real browser: Debian's headless Chromium driven by playwright-core
+# from npm (no browser download). Starts the service jar with a replay of
+# sample-logs/two-tunnels.ndjson.gz at 20x and checks the page against it, then a fleet and read
+# tokens; see e2e/view.e2e.mjs. Screenshots go to target/e2e/. The last line is "e2e: N passed, N failed".
 # Needs: Java 17, Node.js 20+, npm; installs Chromium with apt-get when it is missing (as root).
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -22,6 +23,8 @@ if [ ! -f target/wayhold.jar ]; then
 fi
 
 (cd e2e && npm ci --no-audit --no-fund)
+
+node --test e2e/modules.test.mjs
 
 mkdir -p target/e2e
 CHROMIUM="$CHROMIUM" node e2e/view.e2e.mjs --jar target/wayhold.jar \

@@ -20,6 +20,9 @@ import org.wayhold.settings.ServerSettings;
  *       vehicles there are and how busy the service is.</li>
  *   <li>{@code /health} and {@code /openapi.yaml} are always open: a load balancer probes the first
  *       without secrets, and the second is the public contract and holds no data.</li>
+ *   <li>Reads of the live view's own files ({@code /} and its HTML, CSS and JavaScript, see
+ *       {@link LiveView}) are open: they hold no data, and the page must load to ask for the token
+ *       it then sends on every data request.</li>
  *   <li>{@code OPTIONS} is open: browsers send CORS preflights without credentials.</li>
  * </ul>
  * No usable token is 401 with a {@code WWW-Authenticate: Bearer} challenge; a read token on a write
@@ -48,11 +51,15 @@ final class BearerTokens {
     /** Javalin before-handler: returns when the request may go on, throws a 401 or 403 problem otherwise. */
     void check(Context ctx) {
         HandlerType method = ctx.method();
-        if (method == HandlerType.OPTIONS || ALWAYS_OPEN.contains(ctx.path())) {
+        boolean read = method == HandlerType.GET || method == HandlerType.HEAD;
+        String path = ctx.path();
+        if (method == HandlerType.OPTIONS || ALWAYS_OPEN.contains(path)) {
             return;
         }
-        boolean read = method == HandlerType.GET || method == HandlerType.HEAD;
         if (read ? readDigests.length == 0 : writeDigests.length == 0) {
+            return;
+        }
+        if (read && LiveView.isPageFile(path)) {
             return;
         }
         String header = ctx.header("Authorization");

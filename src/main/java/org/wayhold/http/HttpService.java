@@ -4,7 +4,6 @@ import com.fasterxml.jackson.core.JsonGenerator;
 import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
-import io.javalin.http.staticfiles.Location;
 import io.javalin.router.Endpoint;
 import java.io.IOException;
 import java.io.InputStream;
@@ -107,7 +106,7 @@ public final class HttpService implements AutoCloseable {
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
                 ctx.statusCode(), ms));
 
-        config.staticFiles.add("/web", Location.CLASSPATH);
+        LiveView.serve(config);
         ErrorMapping.install(config.routes, server.maxBodyBytes());
         config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
