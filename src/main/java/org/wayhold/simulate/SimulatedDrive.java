@@ -205,7 +205,8 @@ public final class SimulatedDrive {
 
     /**
      * The true wheel-speed scale error (unitless: the sensor reads true speed * (1 + this)), constant
-     * over the drive.
+     * over the drive. Tyre growth and slip, when switched on, change the reading on top of it with
+     * speed and acceleration.
      */
     public double speedScaleError() {
         return settings.wheelSpeed().scaleError();
