@@ -82,8 +82,8 @@ final class SimulateCommand implements Callable<Integer> {
     @Option(names = "--scenario", paramLabel = "NAME",
             description = "A what-if preset: gyro-scale, gyro-warm-up, hills, garage, latency, creep, launch-slip, "
                     + "canyon-bias, one-hertz, long-stops, motorway, lever-arm or city (several effects at once). "
-                    + "The options below switch single effects on (--X, or by giving a magnitude) or off (--no-X), "
-                    + "on top of the preset.")
+                    + "The effect options apply on top of it: --X or one of X's magnitudes switches an effect on, "
+                    + "--no-X switches it off.")
     private String scenario;
 
     @Option(names = "--gyro-scale", negatable = true, description = "Gyro scale-factor error (default 1.5%%).")
