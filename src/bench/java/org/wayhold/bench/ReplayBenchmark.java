@@ -23,8 +23,8 @@ import org.openjdk.jmh.annotations.Setup;
 import org.openjdk.jmh.annotations.State;
 import org.openjdk.jmh.annotations.Warmup;
 import org.openjdk.jmh.infra.Blackhole;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.geo.Enu;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
@@ -101,7 +101,7 @@ public class ReplayBenchmark {
         bh.consume(c.sumT);
     }
 
-    /** Bytes to samples to the filter (SampleFeeder, in arrival order), then the final pose. */
+    /** Bytes to samples to the filter (a VehicleTrack, in arrival order), then the final pose. */
     @Benchmark
     public void parseAndFilter(Blackhole bh) {
         bh.consume(filter().pose());
@@ -174,29 +174,18 @@ public class ReplayBenchmark {
         }
     }
 
-    /** What a replay does without a session: the filter in arrival order, a frame from the first fix. */
+    /** What a replay does without a session's ordering and history: the track in arrival order. */
     private static final class FilterFeed implements SampleSink {
-        private final NavigationFilter filter;
-        private final PoseAssembler assembler;
-        private LocalFrame frame;
-        private double epochT = Double.NaN;
+        private final VehicleTrack track;
         private int fed;
 
         FilterFeed(Settings settings) {
-            filter = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(),
-                    settings.profileFor(Settings.DEFAULT_PROFILE));
-            assembler = new PoseAssembler(settings.outage());
+            track = new VehicleTrack(settings, settings.profileFor(Settings.DEFAULT_PROFILE), null, TrackOutput.NONE);
         }
 
         @Override
         public void accept(Sample s) {
-            if (Double.isNaN(epochT)) {
-                epochT = Math.floor(s.t());
-            }
-            if (frame == null && s instanceof GnssFix g && g.fix() != FixType.NONE) {
-                frame = new LocalFrame(new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
-            }
-            SampleFeeder.feed(filter, s, epochT, frame);
+            track.apply(s);
             fed++;
         }
 
@@ -206,7 +195,7 @@ public class ReplayBenchmark {
         }
 
         Pose pose() {
-            return assembler.assemble(filter.snapshot(), epochT, frame);
+            return track.pose();
         }
     }
 

@@ -7,6 +7,7 @@ import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import java.util.Set;
 import java.util.concurrent.Callable;
 import java.util.concurrent.atomic.AtomicInteger;
@@ -15,6 +16,7 @@ import org.wayhold.config.ConfigLoader;
 import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
 import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.UnknownFields;
 import org.wayhold.nmea.NmeaReader;
 import org.wayhold.nmea.NmeaResult;
 import org.wayhold.report.ReportFiles;
@@ -98,11 +100,26 @@ final class ScoreCommand implements Callable<Integer> {
     @Option(names = "--quiet", description = "No progress on stderr.")
     private boolean quiet;
 
+    /** The scoring records' names for their values, as the options that set them. */
+    private static final Map<String, String> OPTION_NAMES = Map.of(
+            "outage", "--outage", "every", "--every", "skip", "--skip", "random", "--random",
+            "min_aided", "--min-aided", "eval_step", "--eval-step", "threads", "--threads", "config", "--config");
+
     @Override
     public Integer call() throws IOException {
         if (!gnss.isEmpty() && gnss.size() != logs.size()) {
             throw new ParameterException(spec.commandLine(), "--gnss: give one NMEA file per LOG (" + logs.size()
                     + " logs, " + gnss.size() + " NMEA files)");
+        }
+        // Missing files are named with the option that gave them before anything is read.
+        for (Path log : logs) {
+            OptionErrors.requireFile(spec, "LOG", log);
+        }
+        for (Path nmea : gnss) {
+            OptionErrors.requireFile(spec, "--gnss", nmea);
+        }
+        for (Path config : configs) {
+            OptionErrors.requireFile(spec, "--config", config);
         }
         ScoringRun.Options options;
         try {
@@ -110,7 +127,7 @@ final class ScoreCommand implements Callable<Integer> {
                     .toArray(), skipS, everyS, random, seed), minAidedS, evalStepS, vehicle, true,
                     threads != null ? threads : Runtime.getRuntime().availableProcessors());
         } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
+            throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
         List<ScoringRun.NamedSettings> named = loadConfigs();
         List<ScoringRun.LogSource> sources = new ArrayList<>();
@@ -118,12 +135,9 @@ final class ScoreCommand implements Callable<Integer> {
             sources.add(new FileLog(logs.get(i), gnss.isEmpty() ? null : gnss.get(i)));
         }
         Progress progress = new Progress(spec.commandLine().getErr(), logs.size(), quiet);
-        List<ScoringRun.LogScores> scores;
-        try {
-            scores = ScoringRun.run(sources, named, options, progress);
-        } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
-        }
+        // A log that cannot be scored (no GNSS fix, say) is a problem of the data, not of the command
+        // line: it fails with one line naming the log and exit code 1, not with the usage.
+        List<ScoringRun.LogScores> scores = ScoringRun.run(sources, named, options, progress);
         progress.finish();
         ReportModel model = ReportModel.of(scores, named, options);
         ReportFiles.write(model, out);
@@ -185,6 +199,7 @@ final class ScoreCommand implements Callable<Integer> {
             List<LineError> rejected = new ArrayList<>();
             AtomicInteger rejectedCount = new AtomicInteger();
             boolean replaceFixes = nmea != null;
+            List<UnknownFields> unknown = new ArrayList<>(1);
             NdjsonReader.readFile(log, new SampleSink() {
                 @Override
                 public void accept(Sample s) {
@@ -200,16 +215,29 @@ final class ScoreCommand implements Callable<Integer> {
                     }
                     rejectedCount.incrementAndGet();
                 }
+
+                @Override
+                public void unknownFields(UnknownFields u) {
+                    unknown.add(u);
+                }
             });
+            List<Sample> all = samples;
             List<String> notes = new ArrayList<>();
             if (rejectedCount.get() > 0) {
                 StringBuilder b = new StringBuilder(rejectedCount.get() + " NDJSON lines rejected");
                 rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.reason()));
                 notes.add(b.toString());
             }
+            unknown.forEach(u -> notes.add("NDJSON: " + u.describe()));
             if (nmea != null) {
-                NmeaResult r = NmeaReader.readFile(nmea);
-                samples.addAll(r.fixes());
+                NmeaResult r;
+                try {
+                    r = NmeaReader.readFile(nmea);
+                } catch (IOException e) {
+                    // Blame the NMEA file, not the log it was paired with.
+                    throw new IOException("the NMEA file " + nmea + ": " + OptionErrors.describe(e), e);
+                }
+                all = mergedByTime(samples, r.fixes());
                 notes.add(String.format(Locale.ROOT, "GNSS from %s: %d fixes; %d sentences skipped as bad; "
                                 + "%d without a solution, %d receiver dead reckoning, %d other quality skipped; "
                                 + "%d undated", nmea.getFileName(), r.fixes().size(), r.bad().size(), r.noSolution(),
@@ -217,8 +245,28 @@ final class ScoreCommand implements Callable<Integer> {
                 r.bad().stream().limit(NOTED_ERRORS).forEach(e ->
                         notes.add(nmea.getFileName() + " line " + e.line() + ": " + e.reason()));
             }
-            return new ScoringRun.LoadedLog(name(), samples, notes);
+            return new ScoringRun.LoadedLog(name(), all, notes);
         }
+    }
+
+    /**
+     * The log's samples with the fixes of a separate GNSS file woven in by time, as a rig posting both
+     * streams would interleave them: each fix goes before the first log sample that is later than it.
+     * Both lists keep their own order, so the time ordering sees each stream as it was recorded.
+     */
+    static List<Sample> mergedByTime(List<Sample> log, List<? extends Sample> fixes) {
+        List<Sample> merged = new ArrayList<>(log.size() + fixes.size());
+        int f = 0;
+        for (Sample s : log) {
+            while (f < fixes.size() && fixes.get(f).t() < s.t()) {
+                merged.add(fixes.get(f++));
+            }
+            merged.add(s);
+        }
+        while (f < fixes.size()) {
+            merged.add(fixes.get(f++));
+        }
+        return merged;
     }
 
     /** Progress on stderr: at most one line every two seconds, and none when quiet. */

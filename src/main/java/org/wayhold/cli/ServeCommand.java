@@ -17,6 +17,7 @@ import org.wayhold.journal.Journal;
 import org.wayhold.journal.SessionJournal;
 import org.wayhold.ingest.NdjsonReader;
 import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.UnknownFields;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.LogReplay;
 import org.wayhold.session.SessionRegistry;
@@ -201,6 +202,11 @@ final class ServeCommand implements Callable<Integer> {
                 if (rejected[0]++ < 5) {
                     out.println("replay: " + file + " line " + e.line() + " skipped: " + e.reason());
                 }
+            }
+
+            @Override
+            public void unknownFields(UnknownFields u) {
+                out.println("replay: " + file + ": " + u.describe());
             }
         });
         if (rejected[0] > 0) {

@@ -227,6 +227,36 @@ final class SimulateCommand implements Callable<Integer> {
             description = "Antenna position from the reference point (m).")
     private List<Double> leverArmM;
 
+    /** The simulator's names for the values these options set. */
+    private static final Map<String, String> OPTION_NAMES = Map.ofEntries(
+            Map.entry("route.durationS", "--minutes"), Map.entry("route.tunnelsS[]", "--tunnels"),
+            Map.entry("route.canyonsS[]", "--canyons"), Map.entry("route.warmUpS", "--warm-up"),
+            Map.entry("route.originLatDeg", "--origin"), Map.entry("route.originLonDeg", "--origin"),
+            Map.entry("route.originAltM", "--origin"), Map.entry("scenario", "--scenario"),
+            Map.entry("yawRate.warmUp.offsetDegPerS", "--gyro-warm-up-deg-per-s"),
+            Map.entry("yawRate.warmUp.timeConstantS", "--gyro-warm-up-time-s"),
+            Map.entry("route.hills.maxGradePct", "--hills-max-grade-pct"),
+            Map.entry("route.garage.storeys", "--garage-storeys"),
+            Map.entry("route.garage.storeyHeightM", "--garage-storey-m"),
+            Map.entry("route.garage.radiusM", "--garage-radius-m"), Map.entry("route.garage.parkS", "--garage-park-s"),
+            Map.entry("gnss.latency.latencyS", "--latency-s"), Map.entry("wheelSpeed.teeth.teeth", "--teeth-count"),
+            Map.entry("wheelSpeed.teeth.circumferenceM", "--tyre-circumference-m"),
+            Map.entry("wheelSpeed.teeth.minSpeedMps", "--teeth-min-speed-mps"),
+            Map.entry("route.queues.count", "--queue-count"), Map.entry("route.queues.minCreepMps", "--creep-mps"),
+            Map.entry("route.queues.maxCreepMps", "--creep-mps"), Map.entry("route.queues.minTurnDeg", "--creep-turn-deg"),
+            Map.entry("route.queues.maxTurnDeg", "--creep-turn-deg"),
+            Map.entry("route.launches.accelMps2", "--launch-accel-mps2"), Map.entry("route.launches.durationS", "--launch-s"),
+            Map.entry("wheelSpeed.slip.frictionCoefficient", "--tyre-friction"),
+            Map.entry("wheelSpeed.slip.slipStiffness", "--slip-stiffness"),
+            Map.entry("gnss.canyonNlos.minBiasM", "--canyon-bias-m"), Map.entry("gnss.canyonNlos.maxBiasM", "--canyon-bias-m"),
+            Map.entry("gnss.canyonNlos.timeConstantS", "--canyon-bias-time-s"),
+            Map.entry("gnss.canyonNlos.reportedSigmaHM", "--canyon-sigma-h-m"), Map.entry("gnss.rateHz", "--gnss-rate-hz"),
+            Map.entry("route.longStops.count", "--long-stop-count"), Map.entry("route.longStops.durationS", "--long-stop-s"),
+            Map.entry("route.motorway.stretchesS[]", "--motorway-s"),
+            Map.entry("route.motorway.minSpeedMps", "--motorway-mps"),
+            Map.entry("route.motorway.maxSpeedMps", "--motorway-mps"),
+            Map.entry("wheelSpeed.tyreGrowth.referenceSpeedMps", "--tyre-growth-ref-mps"));
+
     @Override
     public Integer call() throws IOException {
         SimulationSettings s = settings();
@@ -234,7 +264,7 @@ final class SimulateCommand implements Callable<Integer> {
         try {
             drive = DriveSimulator.simulate(s, seed);
         } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
+            throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
         Map<String, Integer> counts = new TreeMap<>();
         try (NdjsonWriter w = NdjsonWriter.open(out)) {
@@ -248,6 +278,11 @@ final class SimulateCommand implements Callable<Integer> {
     }
 
     private SimulationSettings settings() {
+        // Checked here so that the message is in the option's unit (the simulator counts seconds).
+        if (!(minutes > 0.0) || Double.isInfinite(minutes)) {
+            throw new ParameterException(spec.commandLine(),
+                    "--minutes: must be a positive number of minutes, was " + minutes);
+        }
         try {
             SimulationSettings s = SimulationSettings.defaults()
                     .withMinutes(minutes)
@@ -266,7 +301,7 @@ final class SimulateCommand implements Callable<Integer> {
             }
             return effects(s);
         } catch (IllegalArgumentException e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage(), e);
+            throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
     }
 
@@ -280,6 +315,11 @@ final class SimulateCommand implements Callable<Integer> {
         if (given(gyroScale, gyroScalePct)) {
             scale = scale.on();
             if (gyroScalePct != null) {
+                // Checked here so that the message is in the option's unit (the record holds a fraction).
+                if (!(gyroScalePct > -50.0 && gyroScalePct < 50.0)) {
+                    throw new ParameterException(spec.commandLine(),
+                            "--gyro-scale-pct: must lie in (-50, 50) percent, was " + gyroScalePct);
+                }
                 scale = scale.withError(gyroScalePct / 100.0);
             }
         }
@@ -388,6 +428,10 @@ final class SimulateCommand implements Callable<Integer> {
             }
         }
         TyreGrowth growth = w.tyreGrowth();
+        if (tyreGrowthPct != null && !(tyreGrowthPct >= 0.0 && tyreGrowthPct < 20.0)) {
+            throw new ParameterException(spec.commandLine(),
+                    "--tyre-growth-pct: must lie in [0, 20) percent, was " + tyreGrowthPct);
+        }
         if (given(tyreGrowth, tyreGrowthPct, tyreGrowthRefMps)) {
             growth = growth.withGrowth(tyreGrowthPct != null ? tyreGrowthPct / 100.0 : growth.growthAtReference(),
                     tyreGrowthRefMps != null ? tyreGrowthRefMps : growth.referenceSpeedMps());

@@ -1,18 +1,44 @@
 package org.wayhold.filter;
 
+import java.util.Arrays;
+
 /**
- * Running counts of what the filter decided, for metrics and reports.
- *
- * @param fixesUsed          fixes that initialised or corrected the state
- * @param fixesGated         fixes that failed the chi-square gate
- * @param fixesPending       fixes held back while waiting for agreement after a gap
- * @param fixesDropped       held-back fixes that never found agreement
- * @param fixesUnusable      fixes without a solution
- * @param velocityGated      GNSS speed/course pairs that failed their gate
- * @param covarianceRepairs  times the covariance had to be made positive definite again
- * @param resets             times position and yaw were started afresh because fixes that agreed with
- *                           each other lay far outside the covariance
+ * Running counts of what the filter decided, for metrics and reports: an immutable copy of the
+ * filter's counters, one per {@link FilterCounter}.
  */
-public record FilterCounts(long fixesUsed, long fixesGated, long fixesPending, long fixesDropped,
-                           long fixesUnusable, long velocityGated, long covarianceRepairs, long resets) {
+public final class FilterCounts {
+
+    private final long[] counts;
+
+    FilterCounts(long[] counts) {
+        if (counts.length != FilterCounter.values().length) {
+            throw new IllegalArgumentException("counts: " + counts.length + " values for "
+                    + FilterCounter.values().length + " counters");
+        }
+        this.counts = counts.clone();
+    }
+
+    /** The count of one kind (count, >= 0). */
+    public long get(FilterCounter counter) {
+        return counts[counter.ordinal()];
+    }
+
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof FilterCounts other && Arrays.equals(counts, other.counts);
+    }
+
+    @Override
+    public int hashCode() {
+        return Arrays.hashCode(counts);
+    }
+
+    @Override
+    public String toString() {
+        StringBuilder b = new StringBuilder("FilterCounts[");
+        for (FilterCounter c : FilterCounter.values()) {
+            b.append(c.ordinal() == 0 ? "" : ", ").append(c.wireName()).append('=').append(get(c));
+        }
+        return b.append(']').toString();
+    }
 }

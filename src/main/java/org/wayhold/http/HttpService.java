@@ -63,7 +63,7 @@ public final class HttpService implements AutoCloseable {
         this.sessions = sessions;
         this.journal = journal;
         this.streams = new PoseStreams(server.sseKeepAliveS());
-        this.metrics = new ServiceMetrics(sessions, streams);
+        this.metrics = new ServiceMetrics(sessions, streams, journal);
         this.openApiYaml = readOpenApi();
         sessions.addRemovalListener(streams::closeVehicle);
         IngestRate rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
@@ -223,6 +223,7 @@ public final class HttpService implements AutoCloseable {
     /** Graceful stop: ends pose streams, stops accepting, lets requests in flight finish. */
     public void stop() {
         app.stop();
+        metrics.close();
     }
 
     @Override

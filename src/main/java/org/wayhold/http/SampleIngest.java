@@ -8,6 +8,7 @@ import java.util.List;
 import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
 import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.UnknownFields;
 import org.wayhold.ordering.Admission;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionRegistry;
@@ -130,6 +131,7 @@ final class SampleIngest {
         long accepted;
         long duplicates;
         long rejectedCount;
+        UnknownFields unknown = UnknownFields.NONE;
 
         Batch(String vehicleId, BlankLines blanks) {
             this.vehicleId = vehicleId;
@@ -154,6 +156,11 @@ final class SampleIngest {
             if (chunk.size() == CHUNK_SAMPLES) {
                 flush();
             }
+        }
+
+        @Override
+        public void unknownFields(UnknownFields u) {
+            unknown = u;
         }
 
         @Override
@@ -240,6 +247,16 @@ final class SampleIngest {
                 }
                 g.writeEndArray();
                 g.writeNumberField("rejected_count", rejectedCount);
+                if (!unknown.none()) {
+                    g.writeObjectFieldStart("unknown_fields");
+                    g.writeNumberField("lines", unknown.lines());
+                    g.writeArrayFieldStart("names");
+                    for (String name : unknown.firstNames()) {
+                        g.writeString(name);
+                    }
+                    g.writeEndArray();
+                    g.writeEndObject();
+                }
                 g.writeEndObject();
             });
         }

@@ -1,13 +1,25 @@
 package org.wayhold.http;
 
 import io.micrometer.core.instrument.Counter;
+import io.micrometer.core.instrument.FunctionCounter;
 import io.micrometer.core.instrument.Gauge;
 import io.micrometer.core.instrument.Timer;
+import io.micrometer.core.instrument.binder.jvm.ClassLoaderMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmGcMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmInfoMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmMemoryMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmThreadMetrics;
+import io.micrometer.core.instrument.binder.system.FileDescriptorMetrics;
+import io.micrometer.core.instrument.binder.system.ProcessorMetrics;
+import io.micrometer.core.instrument.binder.system.UptimeMetrics;
 import io.micrometer.prometheusmetrics.PrometheusConfig;
 import io.micrometer.prometheusmetrics.PrometheusMeterRegistry;
 import java.util.Locale;
+import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
+import org.wayhold.BuildInfo;
+import org.wayhold.journal.SessionJournal;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.VehicleSession;
 
@@ -26,10 +38,20 @@ import org.wayhold.session.VehicleSession;
  *   <li>{@code wayhold_sessions}: vehicle sessions held;</li>
  *   <li>{@code wayhold_outages_active}: sessions whose latest pose is in a GNSS outage;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
- *   <li>{@code wayhold_http_request_seconds{method, route, status}}: request latency, with a histogram.</li>
+ *   <li>{@code wayhold_http_request_seconds{method, route, status}}: request latency, with a histogram;</li>
+ *   <li>{@code wayhold_build_info{version, commit}}: always 1, its labels say what runs;</li>
+ *   <li>with a journal ({@code serve --data DIR}): {@code wayhold_journal_records_written_total} and
+ *       {@code wayhold_journal_written_bytes_total} (batches and deletions written by this process),
+ *       {@code wayhold_journal_snapshots_total}, {@code wayhold_journal_snapshot_failures_total},
+ *       {@code wayhold_journal_last_snapshot_age_seconds} (NaN before this process's first snapshot) and
+ *       {@code wayhold_journal_write_failed} (1 once a write failed: writes are then refused until a
+ *       restart);</li>
+ *   <li>the JVM and the process, from Micrometer's binders: {@code jvm_memory_*}, {@code jvm_gc_*},
+ *       {@code jvm_threads_*}, {@code jvm_classes_*}, {@code jvm_info}, {@code process_cpu_usage},
+ *       {@code process_uptime_seconds}, {@code process_files_open_files}, {@code system_cpu_*}.</li>
  * </ul>
  */
-final class ServiceMetrics {
+final class ServiceMetrics implements AutoCloseable {
 
     /** Sample-type label of a line rejected before it became a sample. */
     static final String UNKNOWN_TYPE = "unknown";
@@ -38,13 +60,54 @@ final class ServiceMetrics {
     private final ConcurrentHashMap<String, Counter> counters = new ConcurrentHashMap<>();
     private final ConcurrentHashMap<String, Timer> timers = new ConcurrentHashMap<>();
 
-    ServiceMetrics(SessionRegistry sessions, PoseStreams streams) {
+    /** Listens to the JVM's collector notifications: closed with the service. */
+    private final JvmGcMetrics gc = new JvmGcMetrics();
+
+    ServiceMetrics(SessionRegistry sessions, PoseStreams streams, Optional<SessionJournal> journal) {
         Gauge.builder("wayhold.sessions", sessions, SessionRegistry::size)
                 .description("vehicle sessions held").register(registry);
         Gauge.builder("wayhold.outages.active", sessions, ServiceMetrics::activeOutages)
                 .description("sessions whose latest pose is in a GNSS outage").register(registry);
         Gauge.builder("wayhold.sse.clients", streams, PoseStreams::openCount)
                 .description("open Server-Sent Events pose streams").register(registry);
+        BuildInfo build = BuildInfo.current();
+        Gauge.builder("wayhold.build.info", () -> 1)
+                .description("the running build: version and git commit in the labels, value always 1")
+                .tags("version", build.version(), "commit", build.commit() + (build.dirty() ? "-dirty" : ""))
+                .register(registry);
+        journal.ifPresent(this::journalMeters);
+        new ClassLoaderMetrics().bindTo(registry);
+        new JvmMemoryMetrics().bindTo(registry);
+        gc.bindTo(registry);
+        new JvmThreadMetrics().bindTo(registry);
+        new JvmInfoMetrics().bindTo(registry);
+        new ProcessorMetrics().bindTo(registry);
+        new UptimeMetrics().bindTo(registry);
+        new FileDescriptorMetrics().bindTo(registry);
+    }
+
+    private void journalMeters(SessionJournal j) {
+        FunctionCounter.builder("wayhold.journal.records.written", j, SessionJournal::recordsWritten)
+                .description("journal records (sample batches and deletions) written by this process")
+                .register(registry);
+        FunctionCounter.builder("wayhold.journal.written", j, SessionJournal::bytesWritten).baseUnit("bytes")
+                .description("bytes of journal records written by this process").register(registry);
+        FunctionCounter.builder("wayhold.journal.snapshots", j, x -> x.status().snapshotsWritten())
+                .description("snapshots of all sessions written by this process").register(registry);
+        FunctionCounter.builder("wayhold.journal.snapshot.failures", j, SessionJournal::snapshotFailures)
+                .description("periodic snapshots that failed (each is retried at the next interval)")
+                .register(registry);
+        Gauge.builder("wayhold.journal.last.snapshot.age", j, x -> x.status().lastSnapshotAgeS()).baseUnit("seconds")
+                .description("wall time since this process's last snapshot (NaN before the first)")
+                .register(registry);
+        Gauge.builder("wayhold.journal.write.failed", j, x -> x.status().failure() == null ? 0 : 1)
+                .description("1 once a journal write failed: writes are refused until a restart").register(registry);
+    }
+
+    /** Stops listening to the JVM's garbage collector. */
+    @Override
+    public void close() {
+        gc.close();
     }
 
     private static double activeOutages(SessionRegistry sessions) {

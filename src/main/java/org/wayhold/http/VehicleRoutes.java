@@ -8,7 +8,7 @@ import java.util.concurrent.ConcurrentHashMap;
 import java.util.regex.Pattern;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
-import org.wayhold.session.FixRecord;
+import org.wayhold.pipeline.FixRecord;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;

@@ -43,7 +43,9 @@ import org.wayhold.settings.ServerSettings;
  *       {@code fix}, a field given twice, and any value the sample records refuse are rejected with a
  *       reason that starts with the field name;</li>
  *   <li>unknown fields are ignored whatever their value (forward compatibility: a newer sender may add
- *       fields), and so are known fields that the line's {@code type} does not use.</li>
+ *       fields), and so are known fields that the line's {@code type} does not use; the unknown ones are
+ *       counted and reported to the sink once at the end ({@link SampleSink#unknownFields}), so that a
+ *       misspelt field does not pass unnoticed.</li>
  * </ul>
  *
  * <p>Speed: the common line (a flat object of known fields with plain values) is decoded straight from
@@ -118,6 +120,14 @@ public final class NdjsonReader {
             lines.feed(chunk, n);
         }
         lines.finish();
+        reportUnknown(lines.decoder, sink);
+    }
+
+    private static void reportUnknown(SampleDecoder decoder, SampleSink sink) {
+        UnknownFields u = decoder.unknownFields();
+        if (!u.none()) {
+            sink.unknownFields(u);
+        }
     }
 
     /**
@@ -139,7 +149,7 @@ public final class NdjsonReader {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
-        return new ReadResult(c.samples, c.rejected);
+        return new ReadResult(c.samples, c.rejected, c.unknown);
     }
 
     /**
@@ -180,6 +190,7 @@ public final class NdjsonReader {
             // as "[}") belongs to element 1, and line numbers are 1-based.
             sink.reject(new LineError(Math.max(1, index), malformed(e)));
         }
+        reportUnknown(decoder, sink);
     }
 
     private static void readElement(JsonParser p, JsonToken first, SampleDecoder decoder, long index,
@@ -300,7 +311,7 @@ public final class NdjsonReader {
      */
     private final class LineSplitter {
         private final SampleSink sink;
-        private final SampleDecoder decoder = new SampleDecoder();
+        final SampleDecoder decoder = new SampleDecoder();
         private byte[] pending = new byte[Math.min(maxLineBytes + 1, 1024)];
         private int pendingLength;
         private boolean overlong;
@@ -408,6 +419,7 @@ public final class NdjsonReader {
     private static final class Collector implements SampleSink {
         private final List<Sample> samples = new ArrayList<>();
         private final List<LineError> rejected = new ArrayList<>();
+        private UnknownFields unknown = UnknownFields.NONE;
 
         @Override
         public void accept(Sample s) {
@@ -417,6 +429,11 @@ public final class NdjsonReader {
         @Override
         public void reject(LineError e) {
             rejected.add(e);
+        }
+
+        @Override
+        public void unknownFields(UnknownFields u) {
+            unknown = u;
         }
     }
 }

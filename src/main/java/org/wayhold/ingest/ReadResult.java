@@ -8,11 +8,18 @@ import org.wayhold.sample.Sample;
  *
  * @param samples  the valid samples, in input order
  * @param rejected the rejected lines, in input order
+ * @param unknown  the fields of no sample type that lines carried (skipped)
  */
-public record ReadResult(List<Sample> samples, List<LineError> rejected) {
+public record ReadResult(List<Sample> samples, List<LineError> rejected, UnknownFields unknown) {
 
     public ReadResult {
         samples = List.copyOf(samples);
         rejected = List.copyOf(rejected);
+        java.util.Objects.requireNonNull(unknown, "unknown");
+    }
+
+    /** A result whose lines carried no unknown field. */
+    public ReadResult(List<Sample> samples, List<LineError> rejected) {
+        this(samples, rejected, UnknownFields.NONE);
     }
 }

@@ -5,6 +5,7 @@ import com.fasterxml.jackson.core.JsonToken;
 import com.fasterxml.jackson.core.io.NumberInput;
 import java.io.IOException;
 import java.util.Arrays;
+import java.util.List;
 import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
@@ -19,7 +20,7 @@ import org.wayhold.sample.YawRate;
  * <p>Known field names are checked for their JSON type wherever they appear, even on a line whose
  * {@code type} does not use them (every name has one meaning across all sample types); a field that a
  * type does not use is then ignored. A JSON {@code null} counts as "not given". Unknown names are
- * skipped unread, whatever their value.
+ * skipped unread, whatever their value, and tallied for {@link #unknownFields()}.
  *
  * <p>Most lines take a faster road, {@link #decodeFlat}: a flat object of known fields with plain
  * values is read straight from its bytes, without a JSON parser, and anything else is handed to the
@@ -117,6 +118,9 @@ final class SampleDecoder {
     private String error;
     /** Index into {@link #TYPE_NAMES} when {@link #decodeFlat} read the type, else -1. */
     private int typeIndex;
+    /** Lines so far that carried a field of no sample type, and the first such names. */
+    private long unknownLines;
+    private final java.util.LinkedHashSet<String> unknownNames = new java.util.LinkedHashSet<>();
 
     /**
      * Reads the object whose {@code START_OBJECT} is the parser's current token, up to and including its
@@ -128,8 +132,15 @@ final class SampleDecoder {
      */
     Sample decode(JsonParser p) throws IOException {
         reset();
+        boolean unknown = false;
         while (p.nextToken() == JsonToken.FIELD_NAME) {
             int field = indexOf(p.currentName());
+            if (field < 0) {
+                unknown = true;
+                if (unknownNames.size() < UnknownFields.NAMES_KEPT) {
+                    unknownNames.add(p.currentName());
+                }
+            }
             JsonToken value = p.nextToken();
             if (error != null || field < 0) {
                 // After the first error, or for a field we do not know: consume the value unread.
@@ -152,10 +163,18 @@ final class SampleDecoder {
                 default -> numbers[field] = number(p, value, field);
             }
         }
+        if (unknown) {
+            unknownLines++;
+        }
         if (error != null) {
             throw new IllegalArgumentException(error);
         }
         return build();
+    }
+
+    /** The fields of no sample type seen by this decoder so far. */
+    UnknownFields unknownFields() {
+        return unknownLines == 0 ? UnknownFields.NONE : new UnknownFields(unknownLines, List.copyOf(unknownNames));
     }
 
     private void reset() {

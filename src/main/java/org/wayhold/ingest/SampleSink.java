@@ -10,4 +10,11 @@ public interface SampleSink {
 
     /** A line that was rejected; reading goes on with the next line. */
     void reject(LineError e);
+
+    /**
+     * Once, after the last line, when some lines carried fields that no sample type has (skipped, and
+     * otherwise silent). Sinks that have nowhere to report them may leave this out.
+     */
+    default void unknownFields(UnknownFields u) {
+    }
 }

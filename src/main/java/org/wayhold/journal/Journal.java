@@ -22,6 +22,7 @@ import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.LinkedBlockingQueue;
+import java.util.concurrent.atomic.AtomicLong;
 import java.util.zip.CRC32C;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.SampleCodec;
@@ -58,6 +59,9 @@ public final class Journal implements Closeable {
     private volatile boolean closed;
     private volatile IOException failure;
     private long lastForceNanos;
+    /** Written (and forced, with fsync) by this process; only the writer thread adds. */
+    private final AtomicLong recordsWritten = new AtomicLong();
+    private final AtomicLong bytesWritten = new AtomicLong();
 
     private record Pending(long seq, byte[] record, CompletableFuture<Long> done) {
     }
@@ -303,6 +307,16 @@ public final class Journal implements Closeable {
         }
     }
 
+    /** Records (batches and deletions) this process has written to segments, for metrics. */
+    public long recordsWritten() {
+        return recordsWritten.get();
+    }
+
+    /** Bytes of records, headers included, this process has written to segments, for metrics. */
+    public long bytesWritten() {
+        return bytesWritten.get();
+    }
+
     /** The sequence number the next append will get. */
     public long nextSeq() {
         synchronized (appendLock) {
@@ -375,6 +389,12 @@ public final class Journal implements Closeable {
             segment.force(false);
         }
         lastForceNanos = System.nanoTime();
+        long bytes = 0;
+        for (Pending p : group) {
+            bytes += p.record.length;
+        }
+        recordsWritten.addAndGet(group.size());
+        bytesWritten.addAndGet(bytes);
         for (Pending p : group) {
             p.done.complete(p.seq);
         }

@@ -10,6 +10,7 @@ import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.OptionalLong;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.Executors;
 import java.util.concurrent.ScheduledExecutorService;
@@ -65,6 +66,7 @@ public final class SessionJournal implements Closeable {
     private final Object snapshotLock = new Object();
     private ScheduledExecutorService snapshots;
     private volatile long snapshotsWritten;
+    private final java.util.concurrent.atomic.AtomicLong snapshotFailures = new java.util.concurrent.atomic.AtomicLong();
     private volatile long lastSnapshotNanos;
     private volatile String lastSnapshotError;
     private volatile boolean closed;
@@ -196,6 +198,7 @@ public final class SessionJournal implements Closeable {
         } catch (IOException | RuntimeException e) {
             // The journal still holds everything; only the bound on replay time is lost until the next one.
             lastSnapshotError = e.toString();
+            snapshotFailures.incrementAndGet();
         }
     }
 
@@ -213,16 +216,13 @@ public final class SessionJournal implements Closeable {
             for (VehicleSession s : sessions.sessions()) {
                 String id = s.vehicleId();
                 ByteArrayOutputStream bytes = new ByteArrayOutputStream(64 * 1024);
-                long lastSeq;
-                synchronized (s) {
-                    if (sessions.find(id).map(e -> e.session() != s).orElse(true)) {
-                        continue;
-                    }
-                    s.writeSnapshot(new DataOutputStream(bytes));
-                    // Every record of this vehicle so far was queued under this lock, so it is numbered
-                    // below this; every later one will be numbered at or above it.
-                    lastSeq = journal.nextSeq() - 1;
+                // Every record of this vehicle so far was queued under the session's lock, so it is numbered
+                // below the number read under it; every later one will be numbered at or above it.
+                OptionalLong at = s.writeSnapshot(new DataOutputStream(bytes), () -> journal.nextSeq() - 1);
+                if (at.isEmpty()) {
+                    continue;
                 }
+                long lastSeq = at.getAsLong();
                 captured.add(new Journal.SessionSnapshot(id, lastSeq, bytes.toByteArray()));
             }
             journal.writeSnapshot(floor, captured);
@@ -231,6 +231,21 @@ public final class SessionJournal implements Closeable {
             lastSnapshotError = null;
             return captured.size();
         }
+    }
+
+    /** Records this process has written to the journal (batches and deletions), for metrics. */
+    public long recordsWritten() {
+        return journal.recordsWritten();
+    }
+
+    /** Bytes this process has written to the journal's segments, for metrics. */
+    public long bytesWritten() {
+        return journal.bytesWritten();
+    }
+
+    /** Periodic snapshots that failed since the start (each is retried at the next interval). */
+    public long snapshotFailures() {
+        return snapshotFailures.get();
     }
 
     /** The journal's state for an admin view. */

@@ -289,7 +289,8 @@ public final class HtmlReport {
             case "reference" -> "the logs' reference trajectories (reference lines, interpolated linearly in the "
                     + "local frame); the logs' real GNSS gaps are scored too";
             case "withheld_fixes" -> "the withheld GNSS fixes themselves, at their own times (so the figures include "
-                    + "the fixes' own error)";
+                    + "the fixes' own error); a fix is where the antenna was, so it is compared with the filter's "
+                    + "antenna position, its reference point moved by the configured lever arm";
             default -> "reference trajectories where a log has them, else its withheld GNSS fixes (see each log)";
         };
     }

@@ -1,7 +1,6 @@
 package org.wayhold.report;
 
 import com.fasterxml.jackson.core.JsonGenerator;
-import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.PropertyNamingStrategies;
 import com.fasterxml.jackson.databind.SerializationFeature;
@@ -11,6 +10,7 @@ import java.io.IOException;
 import java.io.OutputStream;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import org.wayhold.config.ConfigLoader;
 import org.wayhold.scoring.LengthSummary;
 import org.wayhold.scoring.ScoringRun;
 import org.wayhold.scoring.TimeSpan;
@@ -110,6 +110,7 @@ public final class JsonReport {
             ObjectNode o = logs.addObject();
             o.put("log", l.name());
             o.put("reference", l.reference().wireName());
+            o.put("estimate_point", l.reference().estimatePoint());
             o.put("samples", l.samples());
             num(o, "start", l.startT(), 3);
             num(o, "duration", l.endT() - l.startT(), 3);
@@ -151,28 +152,17 @@ public final class JsonReport {
         num(o, name + "_diff", b - a, 4);
     }
 
+    /**
+     * A configuration by name and source, and its {@code settings}: a complete configuration file (JSON is
+     * YAML) written through the loader's key table, so that saving it as {@code wayhold.yaml} and passing
+     * it to {@code --config} scores with exactly these settings. Bearer tokens are never written.
+     */
     private static ObjectNode configNode(ScoringRun.NamedSettings c) {
         ObjectNode o = MAPPER.createObjectNode();
         o.put("name", c.name());
         o.put("source", c.source());
-        // The scoring-relevant sections only: server settings (and their tokens) stay out of reports.
-        o.set("filter", sorted(MAPPER.valueToTree(c.settings().filter())));
-        o.set("gating", sorted(MAPPER.valueToTree(c.settings().gating())));
-        o.set("outage", sorted(MAPPER.valueToTree(c.settings().outage())));
-        ObjectNode vehicles = o.putObject("vehicles");
-        c.settings().vehicles().keySet().stream().sorted()
-                .forEach(k -> vehicles.set(k, sorted(MAPPER.valueToTree(c.settings().vehicles().get(k)))));
+        o.set("settings", ConfigLoader.toTree(c.settings()));
         return o;
-    }
-
-    /** The same object with its fields in name order, so the file does not depend on reflection order. */
-    private static JsonNode sorted(JsonNode n) {
-        if (!n.isObject()) {
-            return n;
-        }
-        ObjectNode out = MAPPER.createObjectNode();
-        n.properties().stream().map(java.util.Map.Entry::getKey).sorted().forEach(k -> out.set(k, sorted(n.get(k))));
-        return out;
     }
 
     private static ObjectNode options(ScoringRun.Options o) {

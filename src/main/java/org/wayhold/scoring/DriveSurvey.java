@@ -3,9 +3,9 @@ package org.wayhold.scoring;
 import java.util.ArrayList;
 import java.util.List;
 import org.wayhold.filter.FilterSnapshot;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
-import org.wayhold.geo.LocalFrame;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.pose.Ellipse95;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.PoseAssembler;
@@ -15,7 +15,8 @@ import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
 
 /**
- * The first pass of a scoring: one plain replay of a log that learns where the filter was
+ * The first pass of a scoring: one plain replay of a log through a {@link VehicleTrack}, as the live
+ * session would apply it, that learns where the filter was
  * {@code aided} and keeps its state at the times a window may start, so the windows can be chosen
  * afterwards and scored from those states with {@link OutageReplay#runFrom} without a second main pass.
  *
@@ -32,13 +33,13 @@ public final class DriveSurvey {
 
     private final double gridStartT;
     private final double gridStepS;
-    private final NavigationFilter[] gridStates;
+    private final VehicleTrack[] gridStates;
     private final double[] extraTimes;
-    private final NavigationFilter[] extraStates;
+    private final VehicleTrack[] extraStates;
     private final List<TimeSpan> aidedSpans;
 
-    private DriveSurvey(double gridStartT, double gridStepS, NavigationFilter[] gridStates, double[] extraTimes,
-                        NavigationFilter[] extraStates, List<TimeSpan> aidedSpans) {
+    private DriveSurvey(double gridStartT, double gridStepS, VehicleTrack[] gridStates, double[] extraTimes,
+                        VehicleTrack[] extraStates, List<TimeSpan> aidedSpans) {
         this.gridStartT = gridStartT;
         this.gridStepS = gridStepS;
         this.gridStates = gridStates;
@@ -50,19 +51,21 @@ public final class DriveSurvey {
     /**
      * Replays the samples once.
      *
-     * @param samples    the log, in time order
+     * @param samples    the log in processing order, as {@code pipeline.OrderedLog} gives it
      * @param settings   the configuration
      * @param profile    the vehicle's lever arm
-     * @param frame      the log's ENU frame
+     * @param origin     origin of the ENU frame, or null for the session's rule (the first fix with a
+     *                   solution; see {@link VehicleTrack#frameFor})
      * @param gridStartT first grid time (s, vehicle clock)
      * @param gridStepS  grid spacing (s, > 0)
      * @param minAidedS  aided time needed before a grid time for its state to be kept (s, >= 0)
      * @param extraTimes further times whose states are kept (s, ascending)
+     * @param output     receives the main track's poses and fix decisions
      * @param progress   hears about replayed samples
      */
     public static DriveSurvey run(List<? extends Sample> samples, Settings settings, VehicleProfile profile,
-                                  LocalFrame frame, double gridStartT, double gridStepS, double minAidedS,
-                                  double[] extraTimes, ProgressListener progress) {
+                                  Geodetic origin, double gridStartT, double gridStepS, double minAidedS, double[] extraTimes,
+                                  TrackOutput output, ProgressListener progress) {
         if (!(gridStepS > 0.0)) {
             throw new IllegalArgumentException("gridStepS: must be a positive number of s, was " + gridStepS);
         }
@@ -71,10 +74,9 @@ public final class DriveSurvey {
         }
         int gridCount = samples.isEmpty() ? 0
                 : (int) Math.floor((samples.get(samples.size() - 1).t() - gridStartT) / gridStepS) + 1;
-        NavigationFilter[] grid = new NavigationFilter[Math.max(gridCount, 0)];
-        NavigationFilter[] extra = new NavigationFilter[extraTimes.length];
-        double epochT = OutageReplay.epochOf(samples);
-        NavigationFilter main = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile);
+        VehicleTrack[] grid = new VehicleTrack[Math.max(gridCount, 0)];
+        VehicleTrack[] extra = new VehicleTrack[extraTimes.length];
+        VehicleTrack main = new VehicleTrack(settings, profile, origin, output);
         AidedTracker aided = new AidedTracker(new PoseAssembler(settings.outage()));
         int k = 0;
         int x = 0;
@@ -83,8 +85,8 @@ public final class DriveSurvey {
             while (k < grid.length && gridStartT + k * gridStepS <= s.t()) {
                 double c = gridStartT + k * gridStepS;
                 if (main.initialized()) {
-                    NavigationFilter state = main.copy();
-                    state.predictTo(c - epochT);
+                    VehicleTrack state = main.copyWithoutOutput();
+                    state.predictTo(c);
                     aided.observe(c, state.snapshot());
                     if (aided.since(c) >= minAidedS) {
                         grid[k] = state;
@@ -93,15 +95,15 @@ public final class DriveSurvey {
                 k++;
             }
             while (x < extra.length && extraTimes[x] <= s.t()) {
-                extra[x++] = main.copy();
+                extra[x++] = main.copyWithoutOutput();
             }
             if (s instanceof GnssFix && main.initialized()) {
                 // Predicting first changes nothing (feed predicts to the same time) but lets a gap
                 // show before the fix ends it.
-                main.predictTo(s.t() - epochT);
+                main.predictTo(s.t());
                 aided.observe(s.t(), main.snapshot());
             }
-            SampleFeeder.feed(main, s, epochT, frame);
+            main.apply(s);
             if (s instanceof GnssFix && main.initialized()) {
                 aided.observe(s.t(), main.snapshot());
             }
@@ -136,7 +138,7 @@ public final class DriveSurvey {
     }
 
     /** The state at grid time {@code k}; only where {@link #startAllowed} (not to be modified). */
-    public NavigationFilter gridState(int k) {
+    public VehicleTrack gridState(int k) {
         if (!startAllowed(k)) {
             throw new IllegalArgumentException("k: no window may start at grid time " + k);
         }
@@ -144,7 +146,7 @@ public final class DriveSurvey {
     }
 
     /** The state at extra time {@code i}, null when the log ended before it (not to be modified). */
-    public NavigationFilter extraState(int i) {
+    public VehicleTrack extraState(int i) {
         return extraStates[i];
     }
 

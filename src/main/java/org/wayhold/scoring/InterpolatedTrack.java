@@ -35,6 +35,7 @@ public final class InterpolatedTrack implements ReferenceTrack {
     private final double[] yaw;
     private final double maxGapS;
     private final boolean continuous;
+    private final boolean atAntenna;
 
     /**
      * @param tS         point times (s, vehicle clock, strictly ascending)
@@ -47,6 +48,12 @@ public final class InterpolatedTrack implements ReferenceTrack {
      */
     public InterpolatedTrack(double[] tS, double[] eastM, double[] northM, double[] upM, double[] yawRad,
                              double maxGapS, boolean continuous) {
+        this(tS, eastM, northM, upM, yawRad, maxGapS, continuous, false);
+    }
+
+    private InterpolatedTrack(double[] tS, double[] eastM, double[] northM, double[] upM, double[] yawRad,
+                              double maxGapS, boolean continuous, boolean atAntenna) {
+        this.atAntenna = atAntenna;
         int n = tS.length;
         if (eastM.length != n || northM.length != n || upM.length != n || yawRad.length != n) {
             throw new IllegalArgumentException("points: times, east, north, up and yaw must be as many, were "
@@ -129,7 +136,7 @@ public final class InterpolatedTrack implements ReferenceTrack {
             k++;
         }
         return new InterpolatedTrack(Arrays.copyOf(ts, k), Arrays.copyOf(e, k), Arrays.copyOf(no, k),
-                Arrays.copyOf(u, k), Arrays.copyOf(y, k), maxGapS, false);
+                Arrays.copyOf(u, k), Arrays.copyOf(y, k), maxGapS, false, true);
     }
 
     /** Number of points. */
@@ -235,6 +242,12 @@ public final class InterpolatedTrack implements ReferenceTrack {
             }
         }
         return Double.NaN;
+    }
+
+    /** True for the withheld fixes: their points are where the GNSS antenna was. */
+    @Override
+    public boolean atAntenna() {
+        return atAntenna;
     }
 
     @Override

@@ -4,13 +4,12 @@ import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
 import org.wayhold.filter.FilterSnapshot;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
-import org.wayhold.geo.LocalFrame;
+import org.wayhold.geo.Geodetic;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.pose.Ellipse95;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.PoseAssembler;
-import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
@@ -18,39 +17,42 @@ import org.wayhold.settings.VehicleProfile;
 /**
  * Scores many outage windows in one replay of a drive.
  *
- * <p>The main filter sees every sample. When a window opens, a copy of the main filter branches off
- * and from then on sees every sample but the GNSS fixes; when the window closes the branch is scored
- * and dropped. So each window starts from exactly the state the live filter had, and one replay
- * serves any number of windows.
+ * <p>The main {@link VehicleTrack} sees every sample. When a window opens, a copy of it branches off
+ * ({@link VehicleTrack#branchWithoutGnss()}) and from then on sees every sample but the GNSS fixes;
+ * when the window closes the branch is scored and dropped. So each window starts from exactly the
+ * state the live filter had, and one replay serves any number of windows.
  *
  * <p>{@link #runFrom} does the same from start states saved beforehand (see {@link DriveSurvey}), so the
  * windows can be chosen after a first pass has shown where the filter was aided; it gives exactly the
  * scores {@link #run} gives for the same windows, without replaying the main filter again.
  *
  * <p>When the reference is not {@linkplain ReferenceTrack#continuous() continuous} (the withheld fixes)
- * a window is evaluated at the reference's own times inside it instead of on the regular step.
+ * a window is evaluated at the reference's own times inside it instead of on the regular step. When its
+ * points are {@linkplain ReferenceTrack#atAntenna() antenna positions}, the branch's antenna position is
+ * compared with them: its reference point moved by the configured lever arm at its estimated yaw.
  */
 public final class OutageReplay {
 
     private final Settings settings;
     private final VehicleProfile profile;
-    private final LocalFrame frame;
+    private final Geodetic origin;
     private final double evalStepS;
     private final PoseAssembler assembler;
 
     /**
      * @param settings  filter, gating and outage settings
      * @param profile   the vehicle's lever arm
-     * @param frame     the ENU frame shared by the filter and the reference
+     * @param origin    origin of the ENU frame the reference is given in, or null for the session's rule
+     *                  (the first fix with a solution; see {@link VehicleTrack#frameFor})
      * @param evalStepS spacing of evaluation times inside a window (s)
      */
-    public OutageReplay(Settings settings, VehicleProfile profile, LocalFrame frame, double evalStepS) {
+    public OutageReplay(Settings settings, VehicleProfile profile, Geodetic origin, double evalStepS) {
         if (!(evalStepS > 0.0)) {
             throw new IllegalArgumentException("evalStepS: must be a positive number of s, was " + evalStepS);
         }
         this.settings = settings;
         this.profile = profile;
-        this.frame = frame;
+        this.origin = origin;
         this.evalStepS = evalStepS;
         this.assembler = new PoseAssembler(settings.outage());
     }
@@ -82,21 +84,16 @@ public final class OutageReplay {
      * A window with the state to start it from.
      *
      * @param window the window
-     * @param state  the main filter as it was just before the first sample at or after the window's
-     *               start, fed with times relative to {@link #epochOf} of the same samples (not modified)
+     * @param state  the main track as it was just before the first sample at or after the window's
+     *               start (not modified)
      */
-    public record Start(OutageWindow window, NavigationFilter state) {
-    }
-
-    /** The epoch (s, vehicle clock) filter times are relative to in a replay of these samples. */
-    public static double epochOf(List<? extends Sample> samples) {
-        return samples.isEmpty() ? 0.0 : Math.floor(samples.get(0).t());
+    public record Start(OutageWindow window, VehicleTrack state) {
     }
 
     /**
      * Replays the samples and scores the windows.
      *
-     * @param samples    the drive, in time order
+     * @param samples    the drive, in processing order
      * @param windows    windows to score; those the reference does not cover are skipped
      * @param reference  where the vehicle really was
      * @param keepTraces true to return the evaluation points of each window
@@ -113,7 +110,7 @@ public final class OutageReplay {
     /**
      * Scores windows from saved start states; only the branches are replayed.
      *
-     * @param samples    the drive, in time order (the same the start states came from)
+     * @param samples    the drive, in processing order (the same the start states came from)
      * @param starts     windows with their start states; those the reference does not cover are skipped
      * @param reference  where the vehicle really was
      * @param keepTraces true to return the evaluation points of each window
@@ -139,9 +136,7 @@ public final class OutageReplay {
         }
         List<Start> pending = new ArrayList<>(starts);
         pending.sort(Comparator.comparingDouble(st -> st.window().startT()));
-        double epochT = epochOf(samples);
-        NavigationFilter main = withMain
-                ? new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile) : null;
+        VehicleTrack main = withMain ? new VehicleTrack(settings, profile, origin, TrackOutput.NONE) : null;
         List<Branch> active = new ArrayList<>();
         int next = 0;
         int unreported = 0;
@@ -149,10 +144,10 @@ public final class OutageReplay {
             while (next < pending.size() && pending.get(next).window().startT() <= s.t()) {
                 Start st = pending.get(next++);
                 OutageWindow w = st.window();
-                NavigationFilter from = withMain ? main : st.state();
+                VehicleTrack from = withMain ? main : st.state();
                 if (from.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
-                    Branch b = new Branch(w, from.copy(), epochT, reference, keepTraces);
-                    b.filter.predictTo(w.startT() - epochT);
+                    Branch b = new Branch(w, from.branchWithoutGnss(), reference, keepTraces);
+                    b.track.predictTo(w.startT());
                     b.evaluateUpTo(w.startT());
                     active.add(b);
                 }
@@ -161,7 +156,7 @@ public final class OutageReplay {
                 Branch b = active.get(i);
                 if (s.t() > b.window.endT()) {
                     b.evaluateUpTo(b.window.endT());
-                    b.filter.predictTo(b.window.endT() - epochT);
+                    b.track.predictTo(b.window.endT());
                     scores.add(b.finish());
                     if (keepTraces) {
                         traces.add(new WindowTrace(b.window, b.trace));
@@ -170,12 +165,10 @@ public final class OutageReplay {
                     continue;
                 }
                 b.evaluateUpTo(s.t());
-                if (!(s instanceof GnssFix)) {
-                    SampleFeeder.feed(b.filter, s, epochT, frame);
-                }
+                b.track.apply(s);
             }
             if (withMain) {
-                SampleFeeder.feed(main, s, epochT, frame);
+                main.apply(s);
             }
             if (++unreported == ProgressListener.REPORT_EVERY) {
                 progress.samplesDone(unreported);
@@ -194,8 +187,7 @@ public final class OutageReplay {
     /** A filter running without GNSS through one window, with its running metrics. */
     private final class Branch {
         final OutageWindow window;
-        final NavigationFilter filter;
-        final double epochT;
+        final VehicleTrack track;
         final ReferenceTrack reference;
         final List<TracePoint> trace;
         /** Evaluation times when the reference is known only at its points, else null (regular step). */
@@ -220,11 +212,9 @@ public final class OutageReplay {
         double lastRefEastFinal = Double.NaN;
         double lastRefNorthFinal = Double.NaN;
 
-        Branch(OutageWindow window, NavigationFilter filter, double epochT, ReferenceTrack reference,
-               boolean keepTrace) {
+        Branch(OutageWindow window, VehicleTrack track, ReferenceTrack reference, boolean keepTrace) {
             this.window = window;
-            this.filter = filter;
-            this.epochT = epochT;
+            this.track = track;
             this.reference = reference;
             this.trace = keepTrace ? new ArrayList<>() : null;
             this.nextEvalT = window.startT();
@@ -250,8 +240,8 @@ public final class OutageReplay {
         }
 
         private void evaluateAt(double t) {
-            filter.predictTo(t - epochT);
-            FilterSnapshot s = filter.snapshot();
+            track.predictTo(t);
+            FilterSnapshot s = track.snapshot();
             double refEast = reference.eastAt(t);
             double refNorth = reference.northAt(t);
             if (!Double.isNaN(lastRefEast)) {
@@ -259,8 +249,16 @@ public final class OutageReplay {
             }
             lastRefEast = refEast;
             lastRefNorth = refNorth;
-            double de = s.eastM() - refEast;
-            double dn = s.northM() - refNorth;
+            double estEast = s.eastM();
+            double estNorth = s.northM();
+            if (reference.atAntenna()) {
+                double c = Math.cos(s.yawRad());
+                double sn = Math.sin(s.yawRad());
+                estEast += profile.leverArmForwardM() * c - profile.leverArmLeftM() * sn;
+                estNorth += profile.leverArmForwardM() * sn + profile.leverArmLeftM() * c;
+            }
+            double de = estEast - refEast;
+            double dn = estNorth - refNorth;
             double err = Math.hypot(de, dn);
             double a = s.covEastEastM2();
             double b = s.covEastNorthM2();
@@ -286,17 +284,17 @@ public final class OutageReplay {
             lastErrNorth = dn;
             lastError = err;
             lastT = t;
-            lastEstEast = s.eastM();
-            lastEstNorth = s.northM();
+            lastEstEast = estEast;
+            lastEstNorth = estNorth;
             lastRefEastFinal = refEast;
             lastRefNorthFinal = refNorth;
             if (trace != null) {
-                trace.add(new TracePoint(t, s.eastM(), s.northM(), refEast, refNorth, err, ellipse.semiMajorM()));
+                trace.add(new TracePoint(t, estEast, estNorth, refEast, refNorth, err, ellipse.semiMajorM()));
             }
         }
 
         WindowScore finish() {
-            FilterSnapshot s = filter.snapshot();
+            FilterSnapshot s = track.snapshot();
             double t = window.endT();
             // Split the error along the reference's direction where that error was measured.
             double yaw = times == null || Double.isNaN(lastT) ? reference.yawAt(t) : reference.yawAt(lastT);

@@ -28,6 +28,16 @@ public interface ReferenceTrack {
     }
 
     /**
+     * True when the reference's points are positions of the GNSS antenna (the withheld fixes) rather
+     * than of the vehicle reference point: the estimate compared with them is then the filter's antenna
+     * position, its reference point moved by the configured lever arm at the estimated yaw, so that a
+     * lever arm does not count as error.
+     */
+    default boolean atAntenna() {
+        return false;
+    }
+
+    /**
      * The times of the reference's own points in {@code [fromT, toT]} (s, vehicle clock, ascending);
      * only asked of a reference that is not {@link #continuous()}.
      */

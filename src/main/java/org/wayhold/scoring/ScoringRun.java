@@ -13,8 +13,10 @@ import java.util.concurrent.CompletionException;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Semaphore;
-import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
+import org.wayhold.pipeline.OrderedLog;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
@@ -50,18 +52,28 @@ public final class ScoringRun {
     /** What the error is measured against. */
     public enum ReferenceKind {
         /** The log's {@code reference} lines, interpolated to each evaluation time. */
-        REFERENCE("reference"),
-        /** The withheld GNSS fixes, at their own times. */
-        WITHHELD_FIXES("withheld_fixes");
+        REFERENCE("reference", "reference_point"),
+        /**
+         * The withheld GNSS fixes, at their own times, compared with the filter's antenna position (the
+         * reference point moved by the configured lever arm).
+         */
+        WITHHELD_FIXES("withheld_fixes", "antenna");
 
         private final String wireName;
+        private final String estimatePoint;
 
-        ReferenceKind(String wireName) {
+        ReferenceKind(String wireName, String estimatePoint) {
             this.wireName = wireName;
+            this.estimatePoint = estimatePoint;
         }
 
         public String wireName() {
             return wireName;
+        }
+
+        /** Which point of the vehicle the estimate is taken at: {@code reference_point} or {@code antenna}. */
+        public String estimatePoint() {
+            return estimatePoint;
         }
     }
 
@@ -107,7 +119,8 @@ public final class ScoringRun {
      * A log as read.
      *
      * @param name    name shown in reports
-     * @param samples its samples (any order; sorted by time here, stably)
+     * @param samples its samples in the order a rig would have posted them (file order); put in processing
+     *                order here by the service's time ordering ({@link OrderedLog})
      * @param notes   what the reader wants said about the input (rejected lines and the like)
      */
     public record LoadedLog(String name, List<Sample> samples, List<String> notes) {
@@ -249,8 +262,8 @@ public final class ScoringRun {
         List<CompletableFuture<DriveSurvey>> surveys = new ArrayList<>();
         for (NamedSettings c : configs) {
             surveys.add(CompletableFuture.supplyAsync(() -> DriveSurvey.run(p.samples, c.settings(),
-                    c.settings().profileFor(options.vehicle()), p.frame, p.startT, GRID_STEP_S, options.minAidedS(),
-                    p.extraTimes, listener::samplesDone), pool));
+                    c.settings().profileFor(options.vehicle()), null, p.startT, GRID_STEP_S, options.minAidedS(),
+                    p.extraTimes, TrackOutput.NONE, listener::samplesDone), pool));
         }
         return CompletableFuture.allOf(surveys.toArray(CompletableFuture[]::new)).thenCompose(done -> {
             List<DriveSurvey> ss = surveys.stream().map(CompletableFuture::join).toList();
@@ -270,7 +283,7 @@ public final class ScoringRun {
             }
             return CompletableFuture.allOf(scored.toArray(CompletableFuture[]::new)).thenApply(d2 ->
                     new LogScores(log.name(), index, p.samples.size(), p.startT, p.endT, p.frame, p.kind, p.track,
-                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), log.notes()));
+                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), p.notes));
         });
     }
 
@@ -289,7 +302,7 @@ public final class ScoringRun {
                 real.add(p.realGapWindows.get(i));
             }
         }
-        OutageReplay replay = new OutageReplay(s, s.profileFor(options.vehicle()), p.frame, options.evalStepS());
+        OutageReplay replay = new OutageReplay(s, s.profileFor(options.vehicle()), null, options.evalStepS());
         OutageReplay.Result r = replay.runFrom(p.samples, starts, p.track, options.keepTraces(),
                 listener::samplesDone);
         List<WindowScore> windows = new ArrayList<>();
@@ -321,15 +334,29 @@ public final class ScoringRun {
         InterpolatedTrack track;
         List<TimeSpan> gaps;
         List<OutageWindow> realGapWindows = new ArrayList<>();
+        List<String> notes;
         double[] extraTimes = new double[0];
     }
 
     private static Prepared prepare(LoadedLog log, List<NamedSettings> configs, Options options) {
         Prepared p = new Prepared();
-        List<Sample> sorted = new ArrayList<>(log.samples());
-        // Stable: samples with the same time keep their order in the file.
-        sorted.sort(Comparator.comparingDouble(Sample::t));
-        p.samples = List.copyOf(sorted);
+        // The service's time ordering, with the first configuration's reorder window: duplicates dropped,
+        // implausible times refused, samples put in processing order.
+        OrderedLog ordered = OrderedLog.order(log.samples(), configs.get(0).settings().ordering());
+        p.samples = ordered.samples();
+        p.notes = new ArrayList<>(log.notes());
+        if (ordered.duplicates() > 0) {
+            p.notes.add(ordered.duplicates() + " duplicate samples ignored, as the service ignores them");
+        }
+        if (!ordered.rejected().isEmpty()) {
+            OrderedLog.Refused first = ordered.rejected().get(0);
+            p.notes.add(ordered.rejected().size() + " samples refused by the time ordering, as the service would"
+                    + " refuse them; the first, sample " + (first.index() + 1) + " of the log: "
+                    + first.admission().reason());
+        }
+        if (p.samples.isEmpty()) {
+            throw new IllegalArgumentException(log.name() + ": has no sample the time ordering accepts, nothing to score");
+        }
         List<GnssFix> fixes = new ArrayList<>();
         List<ReferencePoint> refs = new ArrayList<>();
         for (Sample s : p.samples) {
@@ -343,7 +370,7 @@ public final class ScoringRun {
             throw new IllegalArgumentException(log.name() + ": has no GNSS fix with a solution, nothing to score");
         }
         GnssFix first = fixes.get(0);
-        p.frame = new LocalFrame(new Geodetic(first.latDeg(), first.lonDeg(), first.hasAlt() ? first.altM() : 0.0));
+        p.frame = VehicleTrack.frameFor(first, null);
         p.startT = p.samples.get(0).t();
         p.endT = p.samples.get(p.samples.size() - 1).t();
         p.firstFixT = first.t();

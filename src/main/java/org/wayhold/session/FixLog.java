@@ -1,5 +1,6 @@
 package org.wayhold.session;
 
+import org.wayhold.pipeline.FixRecord;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;

@@ -24,9 +24,11 @@ public interface SessionLog {
     /** Records that a vehicle's session was dropped. */
     CompletableFuture<?> delete(String vehicleId);
 
+    /** A recording that is already durable. */
+    CompletableFuture<Void> DONE = CompletableFuture.completedFuture(null);
+
     /** Records nothing: sessions live only in memory (tests, offline tools). */
     SessionLog NONE = new SessionLog() {
-        private static final CompletableFuture<Void> DONE = CompletableFuture.completedFuture(null);
 
         @Override
         public CompletableFuture<?> batch(String vehicleId, List<? extends Sample> samples) {

@@ -104,7 +104,7 @@ public final class SessionRegistry {
 
     /**
      * Applies a batch to the vehicle's session (created when absent) and records it in the session log,
-     * both under the session's lock, so the log's order per vehicle is the order of application and a
+     * both under the session's lock ({@link VehicleSession#submit(List, VehicleSession.BatchRecorder)}), so the log's order per vehicle is the order of application and a
      * restart that applies the log again rebuilds the same state. The caller waits on
      * {@link Submission#awaitRecorded} outside any lock before acknowledging.
      *
@@ -116,14 +116,11 @@ public final class SessionRegistry {
     public Submission submit(String vehicleId, List<? extends Sample> batch) {
         while (true) {
             Entry entry = getOrCreate(vehicleId);
-            VehicleSession session = entry.session();
-            synchronized (session) {
-                if (sessions.get(vehicleId) != entry) {
-                    continue;
-                }
-                List<Admission> admissions = session.submit(batch);
-                return new Submission(admissions, log.batch(vehicleId, batch));
+            VehicleSession.Applied applied = entry.session().submit(batch, b -> log.batch(vehicleId, b));
+            if (applied != null) {
+                return new Submission(applied.admissions(), applied.recorded());
             }
+            // The session was retired by a delete that raced this batch: go to the one registered now.
         }
     }
 
@@ -141,14 +138,13 @@ public final class SessionRegistry {
             if (entry == null) {
                 return false;
             }
-            synchronized (entry.session()) {
-                if (sessions.get(vehicleId) == entry) {
-                    // Logged before the entry leaves the map: a new session of the same id can only be
-                    // created afterwards, so its batches follow the deletion in the log.
-                    recorded = log.delete(vehicleId);
-                    synchronized (this) {
-                        sessions.remove(vehicleId, entry);
-                    }
+            // Logged before the entry leaves the map: a new session of the same id can only be created
+            // afterwards, so its batches follow the deletion in the log. A retired session takes no
+            // more batches, so none can be logged after its deletion.
+            recorded = entry.session().retire(() -> log.delete(vehicleId));
+            if (recorded != null) {
+                synchronized (this) {
+                    sessions.remove(vehicleId, entry);
                 }
             }
         }
@@ -178,6 +174,7 @@ public final class SessionRegistry {
         if (removed == null) {
             return false;
         }
+        removed.session().retire(() -> SessionLog.DONE);
         for (Consumer<String> l : removalListeners) {
             l.accept(vehicleId);
         }

@@ -5,57 +5,62 @@ import java.io.DataOutput;
 import java.io.IOException;
 import java.util.List;
 import java.util.Optional;
+import java.util.OptionalLong;
+import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.function.Consumer;
+import java.util.function.LongSupplier;
+import java.util.function.Supplier;
 import org.wayhold.filter.FilterSnapshot;
-import org.wayhold.filter.GnssOutcome;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
-import org.wayhold.geo.Enu;
 import org.wayhold.geo.Geodetic;
-import org.wayhold.geo.LocalFrame;
 import org.wayhold.ordering.Admission;
-import org.wayhold.ordering.ReorderBuffer;
-import org.wayhold.ordering.Replayable;
+import org.wayhold.pipeline.FixRecord;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehiclePipeline;
 import org.wayhold.pose.Pose;
-import org.wayhold.pose.PoseAssembler;
 import org.wayhold.pose.PoseHistory;
-import org.wayhold.sample.FixType;
-import org.wayhold.sample.GnssFix;
-import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
-import org.wayhold.sample.WheelSpeed;
-import org.wayhold.sample.YawRate;
 import org.wayhold.settings.Settings;
 
 /**
- * One vehicle: samples in, in time order, through the filter, to poses and a bounded history.
+ * One vehicle as the service holds it: its {@link VehiclePipeline}, a bounded history of poses and
+ * fixes, and listeners of new poses.
  *
- * <p>Thread-safety: {@link #submit} and the history queries are serialised on this object (one
- * writer per vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest.
+ * <p>Thread-safety: writes and history queries are serialised on a private lock (one writer per
+ * vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest. Callers that
+ * must record a change in the same order as it is applied (the journal) pass the recording step in,
+ * and it runs under that lock ({@link #submit}, {@link #retire}, {@link #writeSnapshot}).
  */
 public final class VehicleSession {
 
-    private final String vehicleId;
-    private final Settings settings;
-    private final Geodetic configuredOrigin;
-    private final PoseAssembler assembler;
-    private final PoseHistory history;
-    private final FixLog fixes;
-    private final Pipeline pipeline;
-    private final ReorderBuffer<Checkpoint> ordering;
-    private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+    /** Records an applied batch; runs under the session's lock, must not block on a device. */
+    @FunctionalInterface
+    public interface BatchRecorder {
+        /** @return completes once the batch is durable */
+        CompletableFuture<?> record(List<? extends Sample> batch);
+    }
+
+    /** What {@link #submit} did: one admission per sample, and the recording of the batch. */
+    public record Applied(List<Admission> admissions, CompletableFuture<?> recorded) {
+    }
 
     /** Version of the layout {@link #writeSnapshot} writes. */
-    private static final int SNAPSHOT_FORMAT = 3;
+    private static final int SNAPSHOT_FORMAT = 4;
 
-    private double epochT = Double.NaN;
+    private final Object lock = new Object();
+    private final String vehicleId;
+    private final PoseHistory history;
+    private final FixLog fixes;
+    private final VehiclePipeline pipeline;
+    private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+
     /** Time of the newest pose given to listeners (s, vehicle clock); not part of the state. */
     private double emittedUpToT = Double.NEGATIVE_INFINITY;
     private Pose lastEmitted;
     private volatile Pose latest;
     private volatile long version;
-    private final long[] appliedByType = new long[4];
+    /** True once the registry has dropped this session: it takes no more writes. */
+    private boolean retired;
 
     /**
      * @param vehicleId        the vehicle's id
@@ -64,14 +69,26 @@ public final class VehicleSession {
      */
     public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin) {
         this.vehicleId = vehicleId;
-        this.settings = settings;
-        this.configuredOrigin = configuredOrigin;
-        this.assembler = new PoseAssembler(settings.outage());
         this.history = new PoseHistory(settings.history().maxPoses());
         this.fixes = new FixLog(settings.history().maxPoses());
-        this.pipeline = new Pipeline(new NavigationFilter(settings.filter(), settings.gating(), settings.outage(),
-                settings.profileFor(vehicleId)));
-        this.ordering = new ReorderBuffer<>(pipeline, settings.ordering());
+        this.pipeline = new VehiclePipeline(settings, settings.profileFor(vehicleId), configuredOrigin,
+                new TrackOutput() {
+                    @Override
+                    public void pose(Pose pose) {
+                        history.add(pose);
+                    }
+
+                    @Override
+                    public void fix(FixRecord record) {
+                        fixes.add(record);
+                    }
+
+                    @Override
+                    public void rewoundTo(double tS) {
+                        history.truncateAfter(tS);
+                        fixes.truncateAfter(tS);
+                    }
+                });
     }
 
     public String vehicleId() {
@@ -79,26 +96,62 @@ public final class VehicleSession {
     }
 
     /**
-     * Admits a batch of samples.
+     * Admits a batch of samples, unrecorded (tests, offline tools, journal replay).
      *
      * @return one admission per sample, in the order given
      */
-    public synchronized List<Admission> submit(List<? extends Sample> samples) {
-        if (samples.isEmpty()) {
-            return List.of();
+    public List<Admission> submit(List<? extends Sample> samples) {
+        Applied applied = submit(samples, b -> SessionLog.DONE);
+        if (applied == null) {
+            throw new IllegalStateException("vehicle '" + vehicleId + "': the session was dropped");
         }
-        List<Admission> result = ordering.submit(samples);
-        refreshLatest();
-        notifyListeners();
-        return result;
+        return applied.admissions();
+    }
+
+    /**
+     * Admits a batch of samples and, under the same lock, records it, so that the record's order per
+     * vehicle is the order of application.
+     *
+     * @return the admissions and the recording, or null when the session has been retired (the caller
+     *         must submit to the vehicle's current session instead)
+     */
+    public Applied submit(List<? extends Sample> samples, BatchRecorder recorder) {
+        synchronized (lock) {
+            if (retired) {
+                return null;
+            }
+            if (samples.isEmpty()) {
+                return new Applied(List.of(), SessionLog.DONE);
+            }
+            List<Admission> result = pipeline.submit(samples);
+            refreshLatest();
+            CompletableFuture<?> recorded = recorder.record(samples);
+            notifyListeners();
+            return new Applied(result, recorded);
+        }
+    }
+
+    /**
+     * Takes no more writes from now on; under the same lock, records the deletion.
+     *
+     * @return the recording, or null when the session was already retired
+     */
+    public CompletableFuture<?> retire(Supplier<CompletableFuture<?>> recordDeletion) {
+        synchronized (lock) {
+            if (retired) {
+                return null;
+            }
+            retired = true;
+            return recordDeletion.get();
+        }
     }
 
     private void refreshLatest() {
-        if (Double.isNaN(epochT) || Double.isNaN(pipeline.filter.tRel())) {
-            return;
+        Pose p = pipeline.latestPose();
+        if (p != null) {
+            latest = p;
+            version++;
         }
-        latest = assembler.assemble(pipeline.filter.snapshot(), epochT, pipeline.frame);
-        version++;
     }
 
     /**
@@ -131,8 +184,9 @@ public final class VehicleSession {
     }
 
     /**
-     * Registers a listener called, from the writer's thread at the end of each batch, with the poses the
-     * batch added to the history (see {@link #notifyListeners}).
+     * Registers a listener called with the poses each batch added to the history (see
+     * {@link #notifyListeners}). It is called under the session's lock, on the writer's thread, so it
+     * must only hand the pose over (to a queue, say) and never block.
      */
     public void addListener(Consumer<Pose> listener) {
         listeners.add(listener);
@@ -153,41 +207,59 @@ public final class VehicleSession {
     }
 
     /** The newest pose at or before {@code tS} from the history. */
-    public synchronized Optional<Pose> at(double tS) {
-        return history.at(tS);
+    public Optional<Pose> at(double tS) {
+        synchronized (lock) {
+            return history.at(tS);
+        }
     }
 
     /** Fixes received with fromS <= t <= toS and the filter's decision on each, oldest first. */
-    public synchronized List<FixRecord> fixes(double fromS, double toS) {
-        return fixes.between(fromS, toS);
+    public List<FixRecord> fixes(double fromS, double toS) {
+        synchronized (lock) {
+            return fixes.between(fromS, toS);
+        }
     }
 
     /** Poses from the history with fromS <= t <= toS. */
-    public synchronized List<Pose> track(double fromS, double toS) {
-        return history.between(fromS, toS);
+    public List<Pose> track(double fromS, double toS) {
+        synchronized (lock) {
+            return history.between(fromS, toS);
+        }
     }
 
     /** A consistent set of counters for metrics and the vehicle list. */
-    public synchronized SessionStats stats() {
-        FilterSnapshot s = pipeline.filter.snapshot();
-        return new SessionStats(appliedByType[0], appliedByType[1], appliedByType[2], appliedByType[3],
-                ordering.duplicates(), ordering.rejected(), ordering.rewinds(), s.counts(), history.size());
+    public SessionStats stats() {
+        synchronized (lock) {
+            FilterSnapshot s = pipeline.snapshot();
+            return new SessionStats(pipeline.applied(0), pipeline.applied(1), pipeline.applied(2),
+                    pipeline.applied(3), pipeline.duplicates(), pipeline.rejected(), pipeline.rewinds(), s.counts(),
+                    history.size());
+        }
     }
 
     /**
      * Writes the session's whole state (time ordering with its checkpoints, filter, frame, history and
-     * counters), bit for bit. A session built with the same id and settings and given this to
+     * counters), bit for bit, and reads a sequence number under the same lock: every record of this
+     * vehicle made so far was made under the lock, so it lies before that number, and every later one
+     * after. A session built with the same id and settings and given the bytes to
      * {@link #readSnapshot} continues exactly as this one would; listeners are not part of it.
+     *
+     * @param sequence read under the lock after writing (the journal's next sequence number, say)
+     * @return the sequence number, or empty when the session has been retired (nothing was written)
      */
-    public synchronized void writeSnapshot(DataOutput out) throws IOException {
-        out.writeInt(SNAPSHOT_FORMAT);
-        out.writeUTF(vehicleId);
-        out.writeDouble(epochT);
-        writeCheckpoint(out, pipeline.checkpoint());
-        ordering.writeState(out, VehicleSession::writeCheckpoint);
-        history.writeTo(out);
-        fixes.writeTo(out);
-        out.writeLong(version);
+    public OptionalLong writeSnapshot(DataOutput out, LongSupplier sequence) throws IOException {
+        synchronized (lock) {
+            if (retired) {
+                return OptionalLong.empty();
+            }
+            out.writeInt(SNAPSHOT_FORMAT);
+            out.writeUTF(vehicleId);
+            pipeline.writeState(out);
+            history.writeTo(out);
+            fixes.writeTo(out);
+            out.writeLong(version);
+            return OptionalLong.of(sequence.getAsLong());
+        }
     }
 
     /**
@@ -196,140 +268,22 @@ public final class VehicleSession {
      *
      * @throws IOException when the data is not a snapshot of this vehicle in this format
      */
-    public synchronized void readSnapshot(DataInput in) throws IOException {
-        int format = in.readInt();
-        if (format != SNAPSHOT_FORMAT) {
-            throw new IOException("snapshot: format " + format + ", expected " + SNAPSHOT_FORMAT);
-        }
-        String id = in.readUTF();
-        if (!id.equals(vehicleId)) {
-            throw new IOException("snapshot: written for vehicle '" + id + "', not '" + vehicleId + "'");
-        }
-        epochT = in.readDouble();
-        pipeline.restoreWithoutHistory(readCheckpoint(in));
-        ordering.readState(in, this::readCheckpoint);
-        history.readFrom(in);
-        fixes.readFrom(in);
-        long savedVersion = in.readLong();
-        refreshLatest();
-        version = savedVersion;
-    }
-
-    private static void writeCheckpoint(DataOutput out, Checkpoint c) throws IOException {
-        c.filter.writeState(out);
-        out.writeBoolean(c.frame != null);
-        if (c.frame != null) {
-            Geodetic o = c.frame.origin();
-            out.writeDouble(o.latDeg());
-            out.writeDouble(o.lonDeg());
-            out.writeDouble(o.altM());
-        }
-        out.writeDouble(c.lastHistoryTRel);
-        out.writeInt(c.appliedByType.length);
-        for (long v : c.appliedByType) {
-            out.writeLong(v);
-        }
-    }
-
-    private Checkpoint readCheckpoint(DataInput in) throws IOException {
-        NavigationFilter f = pipeline.filter.stateCopy();
-        f.readState(in);
-        LocalFrame frame = null;
-        if (in.readBoolean()) {
-            try {
-                frame = new LocalFrame(new Geodetic(in.readDouble(), in.readDouble(), in.readDouble()));
-            } catch (IllegalArgumentException e) {
-                throw new IOException("snapshot: bad frame origin: " + e.getMessage(), e);
+    public void readSnapshot(DataInput in) throws IOException {
+        synchronized (lock) {
+            int format = in.readInt();
+            if (format != SNAPSHOT_FORMAT) {
+                throw new IOException("snapshot: format " + format + ", expected " + SNAPSHOT_FORMAT);
             }
-        }
-        double lastHistoryTRel = in.readDouble();
-        int n = in.readInt();
-        if (n != appliedByType.length) {
-            throw new IOException("snapshot: " + n + " sample counters, expected " + appliedByType.length);
-        }
-        long[] applied = new long[n];
-        for (int i = 0; i < n; i++) {
-            applied[i] = in.readLong();
-        }
-        return new Checkpoint(f, frame, lastHistoryTRel, applied);
-    }
-
-    /** Index into the applied counters: wheel speed, yaw rate, GNSS, reference, as in {@link SessionStats}. */
-    private static int countIndex(Sample s) {
-        if (s instanceof WheelSpeed) {
-            return 0;
-        }
-        if (s instanceof YawRate) {
-            return 1;
-        }
-        return s instanceof GnssFix ? 2 : 3;
-    }
-
-    /** Everything a checkpoint must bring back. */
-    private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
-                              long[] appliedByType) {
-    }
-
-    /** The in-order part: time ordering calls it sample by sample. */
-    private final class Pipeline implements Replayable<Checkpoint> {
-        private final NavigationFilter filter;
-        private LocalFrame frame;
-        private double lastHistoryTRel = Double.NEGATIVE_INFINITY;
-
-        Pipeline(NavigationFilter filter) {
-            this.filter = filter;
-        }
-
-        @Override
-        public void apply(Sample sample) {
-            if (Double.isNaN(epochT)) {
-                // The first sample applied is the earliest the ordering kept of the first batch, so a
-                // sample it refused (a wrong clock) never sets the epoch.
-                epochT = Math.floor(sample.t());
+            String id = in.readUTF();
+            if (!id.equals(vehicleId)) {
+                throw new IOException("snapshot: written for vehicle '" + id + "', not '" + vehicleId + "'");
             }
-            if (frame == null && sample instanceof GnssFix g && g.fix() != FixType.NONE) {
-                frame = new LocalFrame(configuredOrigin != null ? configuredOrigin
-                        : new Geodetic(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : 0.0));
-            }
-            GnssOutcome outcome = SampleFeeder.feed(filter, sample, epochT, frame);
-            if (outcome != null && frame != null) {
-                GnssFix g = (GnssFix) sample;
-                Enu enu = frame.toEnu(g.latDeg(), g.lonDeg(), g.hasAlt() ? g.altM() : frame.origin().altM());
-                fixes.add(new FixRecord(g.t(), g.latDeg(), g.lonDeg(), enu.eastM(), enu.northM(),
-                        filter.horizontalSigmaM(g), outcome.kind(), outcome.nis()));
-            }
-            appliedByType[countIndex(sample)]++;
-            if (sample instanceof ReferencePoint) {
-                // Reference points are for scoring only: they reach the filter only as time.
-                return;
-            }
-            double tRel = sample.t() - epochT;
-            if (frame != null && (sample instanceof GnssFix || tRel - lastHistoryTRel >= settings.history().intervalS())) {
-                Pose pose = assembler.assemble(filter.snapshot(), epochT, frame);
-                history.add(pose);
-                lastHistoryTRel = tRel;
-
-            }
-        }
-
-        @Override
-        public Checkpoint checkpoint() {
-            return new Checkpoint(filter.stateCopy(), frame, lastHistoryTRel, appliedByType.clone());
-        }
-
-        @Override
-        public void restore(Checkpoint c) {
-            restoreWithoutHistory(c);
-            double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
-            history.truncateAfter(t);
-            fixes.truncateAfter(t);
-        }
-
-        void restoreWithoutHistory(Checkpoint c) {
-            filter.restore(c.filter);
-            frame = c.frame;
-            lastHistoryTRel = c.lastHistoryTRel;
-            System.arraycopy(c.appliedByType, 0, appliedByType, 0, appliedByType.length);
+            pipeline.readState(in);
+            history.readFrom(in);
+            fixes.readFrom(in);
+            long savedVersion = in.readLong();
+            refreshLatest();
+            version = savedVersion;
         }
     }
 }

@@ -3,8 +3,8 @@ package org.wayhold.accuracy;
 import java.util.ArrayList;
 import java.util.List;
 import org.wayhold.filter.FilterSnapshot;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.geo.Enu;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
@@ -63,7 +63,7 @@ final class AccuracyStudy {
                     windows.add(new OutageWindow(start, len));
                 }
             }
-            OutageReplay replay = new OutageReplay(settings, settings.profileFor("default"), drive.frame(), 0.1);
+            OutageReplay replay = new OutageReplay(settings, settings.profileFor("default"), drive.frame().origin(), 0.1);
             List<WindowScore> scores = replay.run(drive.samples(), windows, new SimulatedReference(drive), false)
                     .scores();
             all.addAll(scores);
@@ -72,12 +72,11 @@ final class AccuracyStudy {
             scores.stream().filter(w -> w.window().startT() == firstStart).forEach(firstWindows::add);
 
             // Open sky: the main filter against truth and the raw fixes against truth, after 60 s.
-            NavigationFilter f = new NavigationFilter(settings.filter(), settings.gating(), settings.outage(),
-                    settings.profileFor("default"));
-            double epoch = Math.floor(drive.samples().get(0).t());
+            VehicleTrack f = new VehicleTrack(settings, settings.profileFor("default"), drive.frame().origin(),
+                    TrackOutput.NONE);
             boolean calibrationChecked = false;
             for (Sample s : drive.samples()) {
-                SampleFeeder.feed(f, s, epoch, drive.frame());
+                f.apply(s);
                 if (s instanceof GnssFix g && s.t() - drive.startT() > 60) {
                     Truth truth = drive.truthAt(s.t());
                     FilterSnapshot snap = f.snapshot();

@@ -46,7 +46,8 @@ class FilterAccuracyTest {
 
     @Test
     void driftStaysWithinTheTargetsOfTheErrorBudget() {
-        // Targets of the fusion-core issue, derived from the error budget cited in the class comment.
+        // The project's drift targets (DEVELOPERS.md, "Targets the tests hold"), set from the error
+        // budget cited in the class comment.
         assertThat(length(10).medianFinalM()).isLessThanOrEqualTo(1.0);
         assertThat(length(10).p95FinalM()).isLessThanOrEqualTo(2.5);
         assertThat(length(30).medianFinalM()).isLessThanOrEqualTo(2.5);
@@ -60,7 +61,7 @@ class FilterAccuracyTest {
 
     @Test
     void openSkyFusionBeatsTheRawFixes() {
-        // Target: at most 60% of the raw fixes' RMS error on the same drives.
+        // Target (DEVELOPERS.md, "Targets the tests hold"): at most 60% of the raw fixes' RMS error.
         assertThat(figures.openSkyRmsM()).isLessThanOrEqualTo(0.6 * figures.rawFixRmsM());
     }
 
@@ -72,8 +73,9 @@ class FilterAccuracyTest {
 
     @Test
     void theTruthLiesInsideThe95PercentEllipseAsOftenAsItShould() {
-        // Binomial 95% band for 100 outages of a consistent filter is [0.90, 0.99]
-        // (reference-checks.md); too large a covariance fails as surely as too small a one.
+        // Binomial 95% band for 100 outages of a consistent filter: Commons Math 3.6.1
+        // BinomialDistribution(100, 0.95) has its 2.5% and 97.5% quantiles at 90 and 99, so [0.90, 0.99];
+        // too large a covariance fails as surely as too small a one.
         for (double len : AccuracyStudy.LENGTHS_S) {
             assertThat(length(len).inside95()).as("inside95 of %s s outages", len).isBetween(0.90, 0.99);
         }
@@ -92,7 +94,9 @@ class FilterAccuracyTest {
     void meanNeesOverIndependentRunsLiesInsideTheChiSquareInterval() {
         // Bar-Shalom et al. sec. 5.4: N runs of a 2-dimensional NEES; their sum is chi-square with 2N
         // degrees of freedom, so the mean lies in [chi2_2N(0.025), chi2_2N(0.975)] / N with 95%.
-        // For N = 50 that is [1.48, 2.59] (reference-checks.md); the bounds come from Commons Math.
+        // For N = 50 that is [74.222, 129.561] / 50 = [1.48, 2.59] (NIST/SEMATECH e-Handbook of Statistical
+        // Methods, 1.3.6.7.4, the row for 100 degrees of freedom, cited from memory); the bounds used come
+        // from Commons Math 3.6.1 and are checked against those two table values.
         ChiSquaredDistribution chi2 = new ChiSquaredDistribution(2.0 * DRIVES);
         double lo = chi2.inverseCumulativeProbability(0.025) / DRIVES;
         double hi = chi2.inverseCumulativeProbability(0.975) / DRIVES;

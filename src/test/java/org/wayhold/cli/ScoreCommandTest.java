@@ -68,16 +68,70 @@ class ScoreCommandTest {
         assertThat(json.get("outages").size()).isGreaterThan(4);
         assertThat(json.get("outages").get(0).get("config").asText()).isEqualTo("a");
         assertThat(json.get("comparison").get(0).get("config").asText()).isEqualTo("b");
-        assertThat(json.get("configs").get(1).get("outage").get("alert_limit_m").asDouble()).isEqualTo(5.0);
+        assertThat(json.get("configs").get(1).get("settings").get("outage").get("alert_limit_m").asDouble())
+                .isEqualTo(5.0);
         assertThat(out.resolve("outages.csv")).exists();
         assertThat(out.resolve("report.html")).exists();
     }
 
     @Test
-    void badOptionsExitWithTwoAndSayWhy(@TempDir Path dir) throws Exception {
-        Run r = run("score", dir.resolve("none.ndjson").toString(), "--every", "12.5", "--out", dir.toString());
+    void badOptionsExitWithTwoAndNameTheOptionInOneLineAndAPointerToTheHelp(@TempDir Path dir) throws Exception {
+        Path log = dir.resolve("some.ndjson");
+        Files.writeString(log, "");
+        Run r = run("score", log.toString(), "--every", "12.5", "--out", dir.toString());
         assertThat(r.exit()).isEqualTo(2);
-        assertThat(r.err()).contains("every: must be a whole number");
+        assertThat(r.err()).isEqualTo("wayhold score: --every: must be a whole number of 1.0 s steps, was 12.5 s"
+                + System.lineSeparator() + "Try 'wayhold score --help' for the options." + System.lineSeparator());
+        assertThat(run("score", log.toString(), "--min-aided", "-5", "--out", dir.toString()).err())
+                .startsWith("wayhold score: --min-aided: ");
+    }
+
+    @Test
+    void aMissingFileIsBlamedOnTheOptionThatNamedIt(@TempDir Path dir) throws Exception {
+        Path log = dir.resolve("drive.ndjson");
+        Files.writeString(log, "");
+        Run r = run("score", log.toString(), "--gnss", dir.resolve("missing.nmea").toString(), "--out", dir.toString());
+        assertThat(r.exit()).isEqualTo(2);
+        assertThat(r.err()).startsWith("wayhold score: --gnss: no such file ").contains("missing.nmea")
+                .doesNotContain("drive.ndjson");
+        r = run("score", dir.resolve("absent.ndjson").toString(), "--out", dir.toString());
+        assertThat(r.err()).startsWith("wayhold score: LOG: no such file ").contains("absent.ndjson");
+        r = run("score", log.toString(), "--config", dir.resolve("absent.yaml").toString(), "--out", dir.toString());
+        assertThat(r.err()).startsWith("wayhold score: --config: no such file ");
+    }
+
+    @Test
+    void aLogWithoutGnssIsADataErrorInOneLineWithoutTheUsage(@TempDir Path dir) throws Exception {
+        Path log = dir.resolve("odometry-only.ndjson");
+        Files.writeString(log, "{\"type\":\"wheel_speed\",\"t\":1800000000.0,\"speed\":10.0}\n"
+                + "{\"type\":\"yaw_rate\",\"t\":1800000000.01,\"rate\":0.0}\n");
+        Run r = run("score", log.toString(), "--out", dir.resolve("out").toString(), "--quiet");
+        assertThat(r.exit()).isEqualTo(1);
+        assertThat(r.err()).isEqualTo("wayhold score: odometry-only.ndjson: has no GNSS fix with a solution, "
+                + "nothing to score" + System.lineSeparator());
+    }
+
+    @Test
+    void fieldsOfNoSampleTypeAreCountedAndNamedInTheLogsNotes(@TempDir Path dir) throws Exception {
+        SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(4).withWarmUpS(120)
+                .withStartT(1_800_000_000.0), 63L);
+        Path log = dir.resolve("drive.ndjson");
+        try (BufferedWriter w = Files.newBufferedWriter(log)) {
+            w.write("{\"type\":\"gnss\",\"t\":1799999999.0,\"lat\":0.0,\"lon\":0.0,\"sigma_hz\":1.0}\n");
+            w.write("{\"type\":\"wheel_speed\",\"t\":1799999999.5,\"speed\":0.0,\"spede\":1,\"sigma_hz\":2}\n");
+        }
+        try (NdjsonWriter w = NdjsonWriter.open(dir.resolve("rest.ndjson"))) {
+            for (Sample s : drive.samples()) {
+                w.write(s);
+            }
+        }
+        Files.write(log, Files.readAllBytes(dir.resolve("rest.ndjson")), java.nio.file.StandardOpenOption.APPEND);
+        Path out = dir.resolve("out");
+        Run r = run("score", log.toString(), "--outage", "10", "--every", "30", "--out", out.toString(), "--quiet");
+        assertThat(r.exit()).as(r.err()).isZero();
+        String notes = new ObjectMapper().readTree(out.resolve("report.json").toFile()).get("logs").get(0)
+                .get("notes").toString();
+        assertThat(notes).contains("2 lines carry fields that no sample type has, ignored: sigma_hz, spede");
     }
 
     /**

@@ -91,15 +91,23 @@ class SimulateCommandTest {
         int code = run("simulate", "--minutes", "2", "--tunnels", "100,100", "--out",
                 dir.resolve("x.ndjson").toString());
         assertThat(code).isEqualTo(2);
-        assertThat(err.toString()).contains("route.durationS").contains("need at least");
+        assertThat(err.toString()).startsWith("wayhold simulate: --minutes: 120.0 s is too short")
+                .contains("need at least").doesNotContain("route.").doesNotContain("Usage");
     }
 
     @Test
     void missingRequiredOptionsAndANegativeLengthAreRefused() {
         assertThat(run("simulate", "--out", dir.resolve("x.ndjson").toString())).isEqualTo(2);
         assertThat(err.toString()).contains("--minutes");
+        err.getBuffer().setLength(0);
         assertThat(run("simulate", "--minutes", "-1", "--out", dir.resolve("x.ndjson").toString())).isEqualTo(2);
-        assertThat(err.toString()).contains("route.durationS: must be a positive finite number of s, was -60.0");
+        assertThat(err.toString()).isEqualTo("wayhold simulate: --minutes: must be a positive number of minutes, "
+                + "was -1.0" + System.lineSeparator() + "Try 'wayhold simulate --help' for the options."
+                + System.lineSeparator());
+        err.getBuffer().setLength(0);
+        assertThat(run("simulate", "--minutes", "3", "--origin", "95,10,0", "--out", dir.resolve("x.ndjson").toString()))
+                .isEqualTo(2);
+        assertThat(err.toString()).startsWith("wayhold simulate: --origin: must lie within [-89, 89] degrees");
     }
 
     @Test
@@ -192,7 +200,9 @@ class SimulateCommandTest {
         assertThat(run("simulate", "--minutes", "3", "--creep-mps", "0.1", "--out", x.toString())).isEqualTo(2);
         assertThat(err.toString()).contains("--creep-mps: expected MIN,MAX");
         assertThat(run("simulate", "--minutes", "3", "--latency-s", "0.123", "--out", x.toString())).isEqualTo(2);
-        assertThat(err.toString()).contains("gnss.latency.latencyS");
+        assertThat(err.toString()).contains("--latency-s: must be a whole number of 0.01 s ticks, was 0.123 s");
+        assertThat(run("simulate", "--minutes", "3", "--gyro-scale-pct", "60", "--out", x.toString())).isEqualTo(2);
+        assertThat(err.toString()).contains("--gyro-scale-pct: must lie in (-50, 50) percent, was 60.0");
         assertThat(run("simulate", "--minutes", "3", "--scenario", "garage", "--out", x.toString())).isEqualTo(2);
         assertThat(err.toString()).contains("need at least");
         assertThat(x).doesNotExist();

@@ -264,7 +264,15 @@ class ConfigLoaderTest {
 
     @Test
     void aDuplicateKeyMalformedYamlAndANonMappingTopLevelAreRejected() {
-        assertThat(errorOf("server:\n  port: 1\n  port: 2\n")).startsWith("test.yaml: not valid YAML").contains("'port'");
+        assertThat(errorOf("server:\n  port: 1\n  port: 2\n"))
+                .isEqualTo("server.port: given twice in the same mapping (lines 2 and 3) (in test.yaml)");
+        assertThat(errorOf("filter:\n  gnss_floor_m: 0.3\nfilter:\n  gnss_floor_m: 0.4\n"))
+                .isEqualTo("filter: given twice in the same mapping (lines 1 and 3) (in test.yaml)");
+        assertThat(errorOf("vehicles:\n  van_3:\n    lever_arm_up_m: 1\n    lever_arm_up_m: 2\n"))
+                .startsWith("vehicles.van_3.lever_arm_up_m: given twice");
+        // The same name in two different mappings is no duplicate.
+        assertThat(parse("vehicles:\n  a:\n    lever_arm_up_m: 1\n  b:\n    lever_arm_up_m: 2\n")
+                .profileFor("b").leverArmUpM()).isEqualTo(2.0);
         assertThat(errorOf("server:\n  port: [1\n")).startsWith("test.yaml: not valid YAML at line");
         assertThat(errorOf("- server\n- filter\n")).startsWith("test.yaml: the top level must be a mapping");
     }

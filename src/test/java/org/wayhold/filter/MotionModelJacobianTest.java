@@ -22,7 +22,8 @@ import org.junit.jupiter.api.Test;
  * is h^2 |f'''| / 6, about 2e-11 relative here (every third derivative is bounded by the entry's own
  * scale: sines and cosines of the yaw, times dist or dt); its rounding error is about
  * eps |f| / h = 2.2e-11 |f|, with |f| <= 60 m for the positions drawn below. Both sit far below the
- * 1e-6 relative tolerance the issue asks for. The random bias is kept so that a perturbation never
+ * 1e-6 relative tolerance (DEVELOPERS.md, "Targets the tests hold"), which a wrong entry (off by a
+ * term, a factor or a sign) exceeds by orders of magnitude. The random bias is kept so that a perturbation never
  * carries |theta| across the series/closed-form switch at 1e-4 rad, where the two branches differ by
  * ~1e-12 and would swamp a quotient over 2 h dt.
  */

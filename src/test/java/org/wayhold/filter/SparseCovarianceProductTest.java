@@ -37,7 +37,7 @@ class SparseCovarianceProductTest {
 
         double[] dense = multiplyTransposed(multiply(f, p), f);
         double[] sparse = p.clone();
-        NavigationFilter.predictCovariance(f, sparse, new double[N * N]);
+        CovariancePrediction.predict(f, sparse, new double[N * N]);
 
         for (int i = 0; i < N * N; i++) {
             assertThat(Double.doubleToRawLongBits(sparse[i])).as("entry %d: sparse %s, dense %s", i, sparse[i],

@@ -33,9 +33,9 @@ import org.wayhold.settings.ServerSettings;
  * go to a real service on loopback. Whatever a client sends, the service answers with a status below
  * 500, logs nothing (the service and Jetty log output is captured for the whole class and must stay
  * empty: no stack trace, no warning), still answers {@code /health}, and in a batch that mixes valid
- * and malformed lines keeps every valid sample and rejects exactly the malformed lines (contract.md,
- * "Unknown type or a malformed line: rejected with its line number and a reason; the valid lines of
- * the same batch are kept").
+ * and malformed lines keeps every valid sample and rejects exactly the malformed lines (README.md,
+ * "Sample format": "A bad line is rejected with its 1-based line number and a reason naming the field;
+ * the valid lines of the same input are kept").
  *
  * <p>The server has write and read tokens, a 256 KiB body limit, 1 KiB lines and 2000 samples per
  * request, so that every limit is within reach of generated input. The count of

@@ -10,7 +10,7 @@ import java.util.Random;
 
 /**
  * Makers of NDJSON lines for the hostile-input properties: valid samples with values anywhere in their
- * documented ranges (contract.md), and malformed lines of many kinds, each of which the contract says
+ * documented ranges (README.md, "Sample format"; openapi.yaml), and malformed lines of many kinds, each of which the contract says
  * must be rejected (so the properties can count exactly). Every maker draws from the {@link Random} it
  * is given, which the tests seed.
  */
@@ -63,7 +63,7 @@ final class HostileLines {
                 optional(r, fields, "heading", uniform(r, -360.0, 720.0));
             }
         }
-        // Unknown names are skipped whatever their value (contract: only known fields are read).
+        // Unknown names are skipped whatever their value (openapi.yaml, Sample: unknown fields are ignored).
         if (r.nextInt(4) == 0) {
             fields.add("\"x_" + r.nextInt(1000) + "\":" + junkValue(r));
         }
@@ -87,7 +87,7 @@ final class HostileLines {
         }
     }
 
-    /** Mostly in [lo, hi], sometimes far beyond it (still valid: the contract only asks for >= 0). */
+    /** Mostly in [lo, hi], sometimes far beyond it (still valid: the sample records only ask for >= 0). */
     private static double wild(Random r, double lo, double hi) {
         return r.nextInt(20) == 0 ? Math.abs(r.nextGaussian()) * 1e6 : uniform(r, lo, hi);
     }
@@ -120,7 +120,7 @@ final class HostileLines {
     }
 
     // ---------------------------------------------------------------------------------------------
-    // Malformed lines: never blank, never holding CR or LF, and each one rejected by the contract.
+    // Malformed lines: never blank, never holding CR or LF, and each one rejected by the documented format.
 
     static byte[] malformed(Random r, double t, int maxLineBytes) {
         byte[] valid = valid(r, t);

@@ -130,6 +130,56 @@ class JournaledServiceTest {
         }
     }
 
+    /**
+     * /metrics carries the build, the JVM and the journal. Expected values: the build's own
+     * {@link org.wayhold.BuildInfo}; the journal's segment files on disk (a fresh directory holds nothing
+     * but what this process wrote, records laid end to end); two posts of one chunk each (two records).
+     */
+    @Test
+    void metricsShowTheBuildTheJvmAndTheJournal() throws IOException {
+        try (Served s = new Served()) {
+            List<Sample> samples = Drives.openSky(8L, 3.0);
+            assertThat(s.client.post("van-3", samples.subList(0, 40)).statusCode()).isEqualTo(200);
+            assertThat(s.client.post("van-3", samples.subList(40, 80)).statusCode()).isEqualTo(200);
+            String before = s.client.get("/metrics").body();
+            assertThat(metric(before, "wayhold_journal_last_snapshot_age_seconds")).isNaN();
+            s.journal.snapshot();
+            String m = s.client.get("/metrics").body();
+            org.wayhold.BuildInfo build = org.wayhold.BuildInfo.current();
+            assertThat(m).contains("wayhold_build_info{commit=\"" + build.commit() + (build.dirty() ? "-dirty" : "")
+                    + "\",version=\"" + build.version() + "\"} 1");
+            long onDisk;
+            try (var files = Files.list(dir)) {
+                onDisk = files.filter(f -> f.getFileName().toString().endsWith(".wal")).mapToLong(f -> {
+                    try {
+                        return Files.size(f);
+                    } catch (IOException e) {
+                        throw new java.io.UncheckedIOException(e);
+                    }
+                }).sum();
+            }
+            assertThat(onDisk).isPositive();
+            assertThat(metric(m, "wayhold_journal_written_bytes_total")).isEqualTo(onDisk);
+            assertThat(metric(m, "wayhold_journal_records_written_total")).isEqualTo(2.0);
+            assertThat(metric(m, "wayhold_journal_snapshots_total")).isEqualTo(1.0);
+            assertThat(metric(m, "wayhold_journal_snapshot_failures_total")).isZero();
+            assertThat(metric(m, "wayhold_journal_write_failed")).isZero();
+            assertThat(metric(m, "wayhold_journal_last_snapshot_age_seconds")).isBetween(0.0, 60.0);
+            assertThat(m).contains("jvm_memory_used_bytes{", "jvm_threads_live_threads ", "jvm_info{",
+                    "process_uptime_seconds ", "process_cpu_usage ", "jvm_classes_loaded_classes ");
+        }
+    }
+
+    /** The value of an unlabelled sample in Prometheus text exposition. */
+    private static double metric(String exposition, String name) {
+        for (String line : exposition.split("\n")) {
+            if (line.startsWith(name + " ")) {
+                return Double.parseDouble(line.substring(name.length() + 1).trim());
+            }
+        }
+        throw new AssertionError(name + " not in /metrics");
+    }
+
     @Test
     void aJournalThatCannotWriteAnswers503AndNeverASuccess() throws IOException {
         try (Served s = new Served()) {

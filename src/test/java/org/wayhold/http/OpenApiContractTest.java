@@ -104,7 +104,7 @@ class OpenApiContractTest {
     @Test
     void liveResponsesMatchTheSpec() {
         List<String> errors = new ArrayList<>();
-        String ndjson = "{\"type\":\"wheel_speed\",\"t\":1800003700.0,\"speed\":1.0}\n"
+        String ndjson = "{\"type\":\"wheel_speed\",\"t\":1800003700.0,\"speed\":1.0,\"odo_ticks\":12}\n"
                 + "{\"type\":\"gnss\",\"t\":1800003700.1,\"lat\":91,\"lon\":10}\n"
                 + "{\"type\":\"wheel_speed\",\"t\":1800003000.0,\"speed\":1.0}\n"
                 + "not json\n";

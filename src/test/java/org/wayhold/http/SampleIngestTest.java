@@ -66,6 +66,21 @@ class SampleIngestTest {
     }
 
     @Test
+    void fieldsOfNoSampleTypeAreCountedWithTheirFirstNamesAndOnlyThen() {
+        String body = """
+                {"type":"wheel_speed","t":1800000000.00,"speed":3.0,"odo_ticks":120}
+                {"type":"wheel_speed","t":1800000000.02,"speed":3.0}
+                {"type":"yaw_rate","t":1800000000.01,"rate":0.01,"rate_dps":0.57,"odo_ticks":121}
+                """;
+        JsonNode reply = post("unknown-fields", "application/x-ndjson", body);
+        assertThat(reply.get("accepted").asLong()).isEqualTo(3);
+        assertThat(reply.get("unknown_fields").get("lines").asLong()).isEqualTo(2);
+        assertThat(reply.get("unknown_fields").get("names").toString()).isEqualTo("[\"odo_ticks\",\"rate_dps\"]");
+        assertThat(post("unknown-fields", "application/x-ndjson",
+                "{\"type\":\"wheel_speed\",\"t\":1800000000.04,\"speed\":3.0}\n").has("unknown_fields")).isFalse();
+    }
+
+    @Test
     void samplesOutsideTheReorderWindowAreRejectedWithTheirLineNumbers() {
         double maxLagS = Settings.defaults().ordering().maxLagS();
         double maxJumpS = Settings.defaults().ordering().maxForwardJumpS();

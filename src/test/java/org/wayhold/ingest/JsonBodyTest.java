@@ -14,7 +14,7 @@ import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
 /**
- * {@code application/json} bodies (contract: "one object or an array"); a rejection's line is the
+ * {@code application/json} bodies (openapi.yaml and README.md: "one object or an array"); a rejection's line is the
  * 1-based index of the element.
  */
 class JsonBodyTest {
@@ -22,6 +22,7 @@ class JsonBodyTest {
     private static ReadResult readJson(String body) throws IOException {
         List<Sample> samples = new ArrayList<>();
         List<LineError> rejected = new ArrayList<>();
+        UnknownFields[] unknown = {UnknownFields.NONE};
         new NdjsonReader().readJson(new ByteArrayInputStream(body.getBytes(StandardCharsets.UTF_8)),
                 new SampleSink() {
                     @Override
@@ -33,8 +34,13 @@ class JsonBodyTest {
                     public void reject(LineError e) {
                         rejected.add(e);
                     }
+
+                    @Override
+                    public void unknownFields(UnknownFields u) {
+                        unknown[0] = u;
+                    }
                 });
-        return new ReadResult(samples, rejected);
+        return new ReadResult(samples, rejected, unknown[0]);
     }
 
     @Test
@@ -101,5 +107,13 @@ class JsonBodyTest {
         assertThat(trailing.samples()).hasSize(1);
         assertThat(trailing.rejected()).containsExactly(
                 new LineError(2, "malformed JSON: more content after the end of the body"));
+    }
+
+    @Test
+    void unknownFieldsOfArrayElementsAreCountedPerElement() throws IOException {
+        ReadResult r = readJson("[{\"type\":\"wheel_speed\",\"t\":1,\"speed\":2,\"x\":1},"
+                + " {\"type\":\"wheel_speed\",\"t\":2,\"speed\":2}, {\"type\":\"wheel_speed\",\"t\":3,\"speed\":2,\"x\":2}]");
+        assertThat(r.samples()).hasSize(3);
+        assertThat(r.unknown()).isEqualTo(new UnknownFields(2, List.of("x")));
     }
 }

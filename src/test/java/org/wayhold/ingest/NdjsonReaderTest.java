@@ -17,8 +17,8 @@ import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
 /**
- * The NDJSON sample format of the interface contract (/work/shared/contract.md, "Sample log / ingest
- * format"). Expected values are exact hand cases: each line is typed here and the record it must give
+ * The NDJSON sample format as README.md ("Sample format") and openapi.yaml (schema {@code Sample})
+ * define it. Expected values are exact hand cases: each line is typed here and the record it must give
  * is written out field by field.
  */
 class NdjsonReaderTest {
@@ -374,5 +374,27 @@ class NdjsonReaderTest {
         ReadResult r = read("{\"type\":\"yaw_rate\",\"t\":1,\"rate\":0.5}\nx\n");
         assertThat(r.samples()).isUnmodifiable();
         assertThat(r.rejected()).isUnmodifiable();
+    }
+
+    @Test
+    void fieldsOfNoSampleTypeAreSkippedButCountedWithTheirFirstNames() {
+        ReadResult r = read("""
+                {"type":"wheel_speed","t":1,"speed":2}
+                {"type":"wheel_speed","t":2,"speed":2,"spede":3}
+                {"type":"gnss","t":3,"lat":1,"lon":2,"sigma_hz":1,"note":{"a":[1]}}
+                {"type":"yaw_rate","t":4,"rate":0.1,"rate_dps":5.7}
+                {"type":"yaw_rate","t":5,"rate":"fast","spede":1}
+                {"type":"reference","t":6,"lat":1,"lon":2,"a":1,"b":2,"c":3}
+                """);
+        assertThat(r.samples()).hasSize(5);
+        assertThat(r.rejected()).extracting(LineError::line).containsExactly(5L);
+        // Five lines carry unknown names (the rejected one too); the first five distinct names are kept.
+        assertThat(r.unknown()).isEqualTo(new UnknownFields(5,
+                java.util.List.of("spede", "sigma_hz", "note", "rate_dps", "a")));
+        assertThat(r.unknown().describe())
+                .isEqualTo("5 lines carry fields that no sample type has, ignored: spede, sigma_hz, note, rate_dps, a, ...");
+        // A field that another sample type uses is not unknown, only unused here.
+        assertThat(read("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":2,\"rate\":0.1}\n").unknown())
+                .isEqualTo(UnknownFields.NONE);
     }
 }

@@ -289,7 +289,7 @@ class JournalTest {
                     List<Journal.SessionSnapshot> snaps = new ArrayList<>();
                     for (Map.Entry<String, VehicleSession> e : live.entrySet()) {
                         ByteArrayOutputStream bytes = new ByteArrayOutputStream();
-                        e.getValue().writeSnapshot(new DataOutputStream(bytes));
+                        e.getValue().writeSnapshot(new DataOutputStream(bytes), () -> 0L);
                         snaps.add(new Journal.SessionSnapshot(e.getKey(), lastSeq.get(e.getKey()), bytes.toByteArray()));
                     }
                     j.writeSnapshot(floor, snaps);

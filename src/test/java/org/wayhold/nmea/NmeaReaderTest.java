@@ -11,8 +11,11 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 
 /**
- * The worked sentences are the NMEA 0183 examples quoted in /work/shared/reference-checks.md (NMEA 0183
- * section; the checksum rule of NMEA 0183 v3.0 as quoted in receiver manuals).
+ * The worked sentences are the GGA and RMC example pair widely reproduced in receiver documentation and
+ * in D. DePriest's "NMEA data" notes (cited from memory); their fields follow the GGA and RMC sentence
+ * definitions of NMEA 0183 v3.0, and their checksums the rule of the same standard (8-bit XOR of the
+ * characters between {@code $} and {@code *}). Decoded values are exact hand cases: ddmm.mmm is
+ * dd + mm.mmm / 60 degrees, and a knot is 1852/3600 m/s (international nautical mile).
  */
 class NmeaReaderTest {
 

@@ -13,14 +13,15 @@ import org.junit.jupiter.api.Test;
 
 class Ellipse95Test {
 
-    /** reference-checks.md prints the semi-axes to 3 decimals: half a unit of the last place. */
+    /** The expected semi-axes are written to 3 decimals: half a unit of the last place. */
     private static final double PRINTED_HALF_UNIT_M = 0.0005;
 
     @Test
     void eastWestElongatedCovarianceGivesThePublishedAxesAndPointsEast() {
-        // /work/shared/reference-checks.md, "Chi-square quantiles": cov ee = 4, nn = 1, en = 0 gives
-        // 4.895 m and 2.448 m (sqrt(5.991 lambda_i), NIST/SEMATECH 1.3.6.7.4 for the 5.991). The major
-        // axis lies east-west, which is 90 deg clockwise from north.
+        // Hand case: cov ee = 4, nn = 1, en = 0 has eigenvalues 4 and 1, so the semi-axes are
+        // sqrt(5.991 * 4) = 4.895 m and sqrt(5.991) = 2.448 m, with 5.991 the 0.95 quantile of chi-square
+        // with 2 degrees of freedom (NIST/SEMATECH e-Handbook of Statistical Methods, 1.3.6.7.4). The
+        // major axis lies east-west, which is 90 deg clockwise from north.
         Ellipse95 e = Ellipse95.of(4.0, 0.0, 1.0);
         assertThat(e.semiMajorM()).isCloseTo(4.895, within(PRINTED_HALF_UNIT_M));
         assertThat(e.semiMinorM()).isCloseTo(2.448, within(PRINTED_HALF_UNIT_M));

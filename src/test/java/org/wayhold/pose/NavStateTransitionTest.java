@@ -14,8 +14,8 @@ import org.wayhold.settings.GatingSettings;
 import org.wayhold.settings.Settings;
 
 /**
- * The navigation state machine on a scripted drive, checked against the definitions of the interface
- * contract (/work/shared/contract.md, "States"):
+ * The navigation state machine on a scripted drive, checked against the definitions of the states in
+ * README.md ("Conventions", navigation states) and openapi.yaml (schema {@code Pose}, {@code state}):
  * <ul>
  *   <li>{@code initializing} until the first accepted fix and a heading;</li>
  *   <li>{@code aided} while good fixes arrive;</li>

@@ -10,6 +10,10 @@ import net.sf.geographiclib.Geodesic;
 import net.sf.geographiclib.GeodesicData;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.dataformat.yaml.YAMLMapper;
+import org.wayhold.config.ConfigLoader;
 import org.wayhold.sample.Sample;
 import org.wayhold.scoring.ScoringRun;
 import org.wayhold.scoring.WindowPlan;
@@ -111,5 +115,35 @@ class ReportTest {
         assertThat(html).contains(HtmlReport.CAUTION).contains("<svg").contains("Comparison (same windows)");
         assertThat(html).doesNotContain("<script").doesNotContain("src=\"http").doesNotContain("href=\"http")
                 .doesNotContain("@import");
+    }
+
+    /**
+     * Each configuration in report.json is a configuration file: saved as YAML and loaded with the
+     * loader, it gives the settings that were scored. Expected values are those settings themselves; the
+     * second configuration sets every key away from its default (checked in ConfigRoundTripTest) and
+     * carries bearer tokens, which must not reach the report.
+     */
+    @Test
+    void theReportsConfigurationsLoadBackAsTheSettingsThatWereScored(@TempDir Path dir) throws Exception {
+        Settings everyKey = ConfigLoader.parse(new String(ReportTest.class
+                .getResourceAsStream("/org/wayhold/config/every-key.yaml").readAllBytes(), StandardCharsets.UTF_8),
+                "every-key.yaml", name -> null);
+        List<ScoringRun.NamedSettings> two = List.of(ONE.get(0), new ScoringRun.NamedSettings("every-key", "test",
+                everyKey));
+        ReportModel m = model(List.of(drive(61L)), two, new WindowPlan.Schedule(new double[] {10}, 0, 60, 0, 0), 2);
+        ReportFiles.write(m, dir);
+        String text = Files.readString(dir.resolve(ReportFiles.JSON));
+        assertThat(text).doesNotContain("token-0123456789").doesNotContain("_tokens");
+        JsonNode configs = new ObjectMapper().readTree(text).get("configs");
+        List<Settings> scored = List.of(Settings.defaults(), new Settings(
+                everyKey.server().withTokens(List.of(), List.of()), everyKey.filter(), everyKey.gating(),
+                everyKey.outage(), everyKey.ordering(), everyKey.history(), everyKey.vehicles(), everyKey.journal()));
+        assertThat(configs).hasSize(2);
+        for (int i = 0; i < 2; i++) {
+            Path yaml = dir.resolve("config-" + i + ".yaml");
+            Files.writeString(yaml, new YAMLMapper().writeValueAsString(configs.get(i).get("settings")));
+            assertThat(ConfigLoader.load(yaml, name -> null)).as(configs.get(i).get("name").asText())
+                    .isEqualTo(scored.get(i));
+        }
     }
 }

@@ -2,8 +2,8 @@ package org.wayhold.scoring;
 
 import java.util.List;
 import java.util.Locale;
-import org.wayhold.filter.NavigationFilter;
-import org.wayhold.filter.SampleFeeder;
+import org.wayhold.pipeline.TrackOutput;
+import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.sample.Sample;
 import org.wayhold.settings.Settings;
 import org.wayhold.simulate.DriveSimulator;
@@ -53,10 +53,9 @@ public final class ScoreBenchmarkMain {
         for (int round = 0; round < 6; round++) {
             long w0 = System.nanoTime();
             long c0 = mx.getCurrentThreadCpuTime();
-            NavigationFilter f = new NavigationFilter(s.filter(), s.gating(), s.outage(), s.profileFor("default"));
-            double epoch = OutageReplay.epochOf(samples);
+            VehicleTrack f = new VehicleTrack(s, s.profileFor("default"), drive.frame().origin(), TrackOutput.NONE);
             for (Sample x : samples) {
-                SampleFeeder.feed(f, x, epoch, drive.frame());
+                f.apply(x);
             }
             double plainWall = (System.nanoTime() - w0) / 1e9;
             double plainCpu = (mx.getCurrentThreadCpuTime() - c0) / 1e9;

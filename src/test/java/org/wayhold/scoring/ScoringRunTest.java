@@ -4,6 +4,7 @@ import static org.assertj.core.api.Assertions.assertThat;
 
 import java.util.ArrayList;
 import java.util.List;
+import org.wayhold.pipeline.TrackOutput;
 import org.junit.jupiter.api.Test;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
@@ -25,8 +26,8 @@ class ScoringRunTest {
         List<Sample> samples = drive.samples();
         Settings s = Settings.defaults();
         double startT = samples.get(0).t();
-        DriveSurvey survey = DriveSurvey.run(samples, s, s.profileFor("default"), drive.frame(), startT, 1.0, 30,
-                new double[0], ProgressListener.NONE);
+        DriveSurvey survey = DriveSurvey.run(samples, s, s.profileFor("default"), drive.frame().origin(),
+                startT, 1.0, 30, new double[0], TrackOutput.NONE, ProgressListener.NONE);
         WindowPlan plan = WindowPlan.choose(new WindowPlan.Schedule(LENGTHS, 0, 20, 0, 0),
                 new WindowPlan.Log(startT, 1.0, survey.gridCount(), GnssGaps.firstFixT(samples),
                         GnssGaps.lastFixT(samples), GnssGaps.find(samples, 1.5), survey::startAllowed), 0);
@@ -37,7 +38,7 @@ class ScoringRunTest {
         }
         InterpolatedTrack track = InterpolatedTrack.ofReference(drive.samplesOf(ReferencePoint.class), drive.frame(),
                 1.0);
-        OutageReplay replay = new OutageReplay(s, s.profileFor("default"), drive.frame(), 0.1);
+        OutageReplay replay = new OutageReplay(s, s.profileFor("default"), drive.frame().origin(), 0.1);
         OutageReplay.Result full = replay.run(samples, plan.windows(), track, true);
         OutageReplay.Result fromStates = replay.runFrom(samples, starts, track, true, ProgressListener.NONE);
         // Record equality compares every double bit for bit (Double.compare), NaN included.
@@ -145,7 +146,7 @@ class ScoringRunTest {
 
     /**
      * The default route with perfect sensors (accelerations, turns, a standstill and a reversing move)
-     * drifts by less than 1 cm in every window (target of the scoring issue). It did not while the
+     * drifts by less than 1 cm in every window (DEVELOPERS.md, "Targets the tests hold"). It did not while the
      * filter held each reading until the next: a held input lags a changing one by half a reading
      * interval, which gave up to 1.07 m after 60 s on this drive (seed 21).
      */

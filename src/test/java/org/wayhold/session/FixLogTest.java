@@ -1,5 +1,6 @@
 package org.wayhold.session;
 
+import org.wayhold.pipeline.FixRecord;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import java.io.ByteArrayInputStream;

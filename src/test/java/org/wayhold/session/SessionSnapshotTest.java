@@ -61,7 +61,7 @@ class SessionSnapshotTest {
     private static byte[] snapshot(VehicleSession s) throws IOException {
         ByteArrayOutputStream bytes = new ByteArrayOutputStream();
         try (DataOutputStream out = new DataOutputStream(bytes)) {
-            s.writeSnapshot(out);
+            s.writeSnapshot(out, () -> 0L);
         }
         return bytes.toByteArray();
     }

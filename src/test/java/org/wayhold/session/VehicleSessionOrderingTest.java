@@ -17,7 +17,8 @@ import org.wayhold.settings.Settings;
 
 /**
  * The session's promise on ordering: samples up to max_lag_s late give a result identical, bit for
- * bit, to in-order processing (the issue's definition), whatever the batching; later ones are refused.
+ * bit, to in-order processing, whatever the batching; later ones are refused (README.md, "The HTTP
+ * service"; DEVELOPERS.md, "Targets the tests hold").
  * The expected value is the session's own in-order run on the same seeded drive, so equality here is
  * exact ({@code Pose} is a record of doubles: {@code equals} compares bit patterns).
  */

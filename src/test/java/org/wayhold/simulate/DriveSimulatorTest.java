@@ -311,7 +311,7 @@ class DriveSimulatorTest {
         assertThat(d.truthAt(d.endT()).t()).isEqualTo(d.endT());
     }
 
-    /** Heading in degrees clockwise from north, from yaw counter-clockwise from east (style.md example). */
+    /** Heading in degrees clockwise from north, from yaw counter-clockwise from east (README.md, "Conventions"). */
     private static double headingDeg(double yawRad) {
         return 90.0 - Math.toDegrees(yawRad);
     }

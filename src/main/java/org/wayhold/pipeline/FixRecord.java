@@ -1,4 +1,4 @@
-package org.wayhold.session;
+package org.wayhold.pipeline;
 
 import org.wayhold.filter.GnssOutcome;
 

@@ -1,0 +1,69 @@
+package org.wayhold.filter;
+
+import org.wayhold.filter.FilterState.Slot;
+
+/**
+ * The inputs between readings. Wheel speed and yaw rate drive the prediction; each step takes them at
+ * its midpoint on the line through their last two readings, at most one reading interval (and
+ * {@link #MAX_EXTRAPOLATION_S}) past the newest. A held value lags a changing input by half a reading
+ * interval on average, which adds up while the vehicle accelerates or enters a turn; the line does
+ * not, and its noise telescopes over consecutive steps (the weights 1.5 and -0.5 of two readings sum
+ * to 1), so the integrated noise is that of holding.
+ */
+final class InputHold {
+
+    /** Inputs are extended along their trend at most this far past the latest reading (s). */
+    static final double MAX_EXTRAPOLATION_S = 0.1;
+
+    private InputHold() {
+    }
+
+    /** Records a wheel-speed reading at the state's time (m/s, signed). */
+    static void recordWheelSpeed(FilterState s, double speedMps) {
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_MPS, s.get(Slot.WHEEL_SPEED_MPS));
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_T_REL, s.get(Slot.WHEEL_SPEED_T_REL));
+        s.set(Slot.WHEEL_SPEED_MPS, speedMps);
+        s.set(Slot.WHEEL_SPEED_T_REL, s.get(Slot.T_REL));
+    }
+
+    /** Records a yaw-rate reading at the state's time (rad/s, counter-clockwise positive). */
+    static void recordYawRate(FilterState s, double rateRadPerS) {
+        s.set(Slot.PREVIOUS_YAW_RATE_RAD_PER_S, s.get(Slot.YAW_RATE_RAD_PER_S));
+        s.set(Slot.PREVIOUS_YAW_RATE_T_REL, s.get(Slot.YAW_RATE_T_REL));
+        s.set(Slot.YAW_RATE_RAD_PER_S, rateRadPerS);
+        s.set(Slot.YAW_RATE_T_REL, s.get(Slot.T_REL));
+        s.set(Slot.HAS_YAW_RATE, true);
+    }
+
+    /** The wheel speed to use over a step whose midpoint is {@code tMidRel} (m/s). */
+    static double wheelSpeedAt(FilterState s, double tMidRel) {
+        double wheel = extended(s.get(Slot.WHEEL_SPEED_MPS), s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_MPS),
+                s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL), tMidRel);
+        if (wheel * s.get(Slot.WHEEL_SPEED_MPS) <= 0.0) {
+            // Never extend through zero: a stop or a change of direction shows in the readings first.
+            wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        }
+        return wheel;
+    }
+
+    /** The measured yaw rate to use over a step whose midpoint is {@code tMidRel} (rad/s). */
+    static double yawRateAt(FilterState s, double tMidRel) {
+        return extended(s.get(Slot.YAW_RATE_RAD_PER_S), s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), tMidRel);
+    }
+
+    /**
+     * An input's value at {@code tMidRel}: the latest reading extended along the line through the last
+     * two readings, at most one reading interval (and {@link #MAX_EXTRAPOLATION_S}) ahead.
+     */
+    private static double extended(double value, double valueT, double previous, double previousT, double tMidRel) {
+        double interval = valueT - previousT;
+        if (!(interval > 0.0)) {
+            return value;
+        }
+        double ahead = Math.min(tMidRel - valueT, Math.min(interval, MAX_EXTRAPOLATION_S));
+        if (ahead <= 0.0) {
+            return value;
+        }
+        return value + (value - previous) / interval * ahead;
+    }
+}

@@ -1,0 +1,165 @@
+package org.wayhold.filter;
+
+import org.wayhold.filter.FilterState.Slot;
+
+import static org.wayhold.filter.StateIndex.SIZE;
+import static org.wayhold.filter.StateIndex.SPEED_SCALE;
+import static org.wayhold.filter.StateIndex.YAW;
+
+import org.wayhold.settings.GatingSettings;
+import org.wayhold.settings.OutageSettings;
+
+/**
+ * Decides what a fix does to an initialised state: correct it, wait, or start afresh.
+ *
+ * <p>A fix inside the chi-square gate corrects the state. After a gap (no used fix for longer than
+ * {@code outage.gap_s}) or after a gated fix, fixes are held until {@code gating.reacquire_fixes}
+ * consecutive ones agree with each other, so a single outlier or erratic multipath cannot yank the
+ * pose; then the newest is applied whatever the gate says, so a filter that drifted further than its
+ * covariance admits is pulled back. Agreeing fixes further than {@link #RESET_NIS} outside the
+ * covariance (or with an implausible calibration) restart position and yaw instead.
+ */
+final class Reacquisition {
+
+    /** Why fixes are being held back. */
+    enum Probation { NONE, AFTER_GAP, AFTER_GATE }
+
+    /** {@link Probation#values()} once: that method copies the array at every call. */
+    private static final Probation[] PROBATIONS = Probation.values();
+
+    /** What to do with the current fix. */
+    enum Verdict {
+        /** Inside the gate: correct the state with it. */
+        ACCEPT,
+        /** Enough held fixes agree: correct the state with it whatever the gate says. */
+        REACQUIRE,
+        /** Enough held fixes agree but lie absurdly far from the estimate: start position and yaw afresh. */
+        RESET,
+        /** Held while waiting for agreement. */
+        PENDING,
+        /** Outside the gate; held as the first of a possible agreement. */
+        GATED
+    }
+
+    /**
+     * A reacquisition whose normalised innovation squared exceeds this restarts position and yaw
+     * instead of correcting them: about 30 sigma, far beyond any honest covariance.
+     */
+    static final double RESET_NIS = 900.0;
+
+    private final double gateThreshold;
+    private final double gapS;
+    private final int reacquireFixes;
+    private final double correlationTimeS;
+
+    Reacquisition(GatingSettings gating, OutageSettings outage, double correlationTimeS) {
+        this.gateThreshold = ChiSquare.quantile2Dof(gating.chiSquareProbability());
+        this.gapS = outage.gapS();
+        this.reacquireFixes = gating.reacquireFixes();
+        this.correlationTimeS = correlationTimeS;
+    }
+
+    /** The chi-square gate on a fix's NIS (unitless). */
+    double gateThreshold() {
+        return gateThreshold;
+    }
+
+    /** Fixes that must agree (count), the capacity of the held-fix buffer. */
+    int reacquireFixes() {
+        return reacquireFixes;
+    }
+
+    /**
+     * Decides on a fix whose innovation has been computed.
+     *
+     * @param s                    the state (probation and held fixes modified)
+     * @param nuEastM              east innovation (m)
+     * @param nuNorthM             north innovation (m)
+     * @param nis                  its normalised innovation squared (unitless)
+     * @param whiteVar             the fix's white variance per axis (m^2)
+     * @param calibrationPlausible whether the calibration states could survive a reset
+     */
+    Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
+                   boolean calibrationPlausible) {
+        if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
+            s.set(Slot.PROBATION, Probation.AFTER_GAP.ordinal());
+            s.set(Slot.PENDING_COUNT, 0);
+        }
+        boolean passes = nis <= gateThreshold;
+        Probation probation = PROBATIONS[s.whole(Slot.PROBATION)];
+        if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
+            if (passes) {
+                end(s);
+                return Verdict.ACCEPT;
+            }
+            s.set(Slot.PROBATION, Probation.AFTER_GATE.ordinal());
+            s.set(Slot.PENDING_COUNT, 0);
+            hold(s, nuEastM, nuNorthM, whiteVar);
+            return Verdict.GATED;
+        }
+        hold(s, nuEastM, nuNorthM, whiteVar);
+        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible)) {
+            end(s);
+            return Verdict.RESET;
+        }
+        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes) {
+            end(s);
+            return Verdict.REACQUIRE;
+        }
+        return passes || probation == Probation.AFTER_GAP ? Verdict.PENDING : Verdict.GATED;
+    }
+
+    /** Ends any probation and forgets the held fixes. */
+    static void end(FilterState s) {
+        s.set(Slot.PROBATION, Probation.NONE.ordinal());
+        s.set(Slot.PENDING_COUNT, 0);
+    }
+
+    /**
+     * Holds the current fix's innovation for the agreement test. Consecutive fixes share the
+     * prediction error, so the difference of two innovations only carries the fixes' white noise, the
+     * change of the correlated GNSS error between them, and the error of the relative motion the wheels
+     * and gyro predicted: distance driven times the yaw and scale uncertainty. A difference outside the
+     * chi-square gate means they disagree, and the older ones are dropped.
+     */
+    private void hold(FilterState s, double nuEastM, double nuNorthM, double whiteVar) {
+        double[] p = s.p;
+        double[][] pending = s.pending;
+        double relVarPerM2 = Math.max(p[YAW * SIZE + YAW], 0.0) + Math.max(p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0);
+        // Newest first: a disagreement drops that fix and every older one.
+        for (int i = s.whole(Slot.PENDING_COUNT) - 1; i >= 0; i--) {
+            double[] q = pending[i];
+            double de = nuEastM - q[0];
+            double dn = nuNorthM - q[1];
+            double driven = s.get(Slot.ODOMETER_M) - q[3];
+            double gmChange = 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-(s.get(Slot.T_REL) - q[4]) / correlationTimeS));
+            double v = whiteVar + q[2] + driven * driven * relVarPerM2 + gmChange;
+            if ((de * de + dn * dn) / v > gateThreshold) {
+                int drop = i + 1;
+                s.add(FilterCounter.FIXES_DROPPED, drop);
+                for (int j = 0; j < s.whole(Slot.PENDING_COUNT) - drop; j++) {
+                    double[] kept = pending[j + drop];
+                    pending[j + drop] = pending[j];
+                    pending[j] = kept;
+                }
+                s.set(Slot.PENDING_COUNT, s.whole(Slot.PENDING_COUNT) - (drop));
+                break;
+            }
+        }
+        if (s.whole(Slot.PENDING_COUNT) == reacquireFixes) {
+            // Full and all agree: shift out the oldest.
+            double[] first = pending[0];
+            System.arraycopy(pending, 1, pending, 0, reacquireFixes - 1);
+            pending[reacquireFixes - 1] = first;
+            s.set(Slot.PENDING_COUNT, s.whole(Slot.PENDING_COUNT) - 1);
+        }
+        int held = s.whole(Slot.PENDING_COUNT);
+        s.set(Slot.PENDING_COUNT, held + 1);
+        double[] slot = pending[held];
+        slot[0] = nuEastM;
+        slot[1] = nuNorthM;
+        slot[2] = whiteVar;
+        slot[3] = s.get(Slot.ODOMETER_M);
+        slot[4] = s.get(Slot.T_REL);
+    }
+}
