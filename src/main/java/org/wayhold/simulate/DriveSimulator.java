@@ -1,7 +1,10 @@
 package org.wayhold.simulate;
 
+import java.util.ArrayDeque;
 import java.util.ArrayList;
+import java.util.EnumMap;
 import java.util.List;
+import java.util.Map;
 import java.util.SplittableRandom;
 import org.wayhold.geo.Angles;
 import org.wayhold.geo.Geodetic;
@@ -17,9 +20,13 @@ import org.wayhold.sample.YawRate;
  * Simulates a drive: plans the route, integrates the truth and samples every sensor from it.
  *
  * <p>Randomness: one {@link SplittableRandom} per seed, split into independent streams for the route,
- * the wheel-speed noise, the gyro, the GNSS noise, the GNSS faults and the receiver's quality
- * figures. Each stream draws the same numbers whether or not its error is switched on, so turning
- * one error source off leaves every other one unchanged.
+ * the wheel-speed noise, the gyro, the GNSS noise, the GNSS faults, the receiver's quality figures,
+ * the road's grades and the canyons' non-line-of-sight bias. Each stream draws the same numbers
+ * whether or not its error is switched on, so turning one error source off leaves every other one
+ * unchanged; the effects that are not random (scale factors, latency, lever arm, tooth counting,
+ * slip, tyre growth, warm-up) change only what they act on. Route elements (garage, queues, long
+ * stops, motorway stretches, hard launches) change the route itself, so everything after the first
+ * one differs.
  */
 public final class DriveSimulator {
 
@@ -42,13 +49,13 @@ public final class DriveSimulator {
      */
     public static SimulatedDrive simulate(SimulationSettings s, long seed) {
         Streams streams = new Streams(seed);
-        Route route = RoutePlanner.plan(s.route(), streams.route);
+        Route route = RoutePlanner.plan(s.route(), streams.route, streams.hills);
         return run(s, route, seed, streams);
     }
 
     /**
-     * Simulates a drive on a given route, for exact tests (a circle, a straight line). The route
-     * part of {@code s} supplies only the origin, start time and reference rate.
+     * Simulates a drive on a given route, for exact tests (a circle, a straight line, a constant
+     * grade). The route part of {@code s} supplies only the origin, start time and reference rate.
      *
      * @param s     sensor error models, origin, start time
      * @param route the truth's speed and yaw-rate profiles, tunnels and canyons
@@ -66,6 +73,8 @@ public final class DriveSimulator {
         final Gaussian gnssNoise;
         final Gaussian gnssFault;
         final Gaussian receiver;
+        final SplittableRandom hills;
+        final Gaussian nlos;
 
         Streams(long seed) {
             SplittableRandom master = new SplittableRandom(seed);
@@ -75,6 +84,9 @@ public final class DriveSimulator {
             gnssNoise = new Gaussian(master.split());
             gnssFault = new Gaussian(master.split());
             receiver = new Gaussian(master.split());
+            // Split after the original six, so drives without hills or canyon bias keep every number.
+            hills = master.split();
+            nlos = new Gaussian(master.split());
         }
     }
 
@@ -93,7 +105,8 @@ public final class DriveSimulator {
         int gnssTicks = Route.ticksPerSample("gnss.rateHz", gs.rateHz());
         int refTicks = Route.ticksPerSample("route.referenceRateHz", rs.referenceRateHz());
 
-        List<long[]> tunnels = route.tunnelTicks();
+        // GNSS is denied in tunnels and in the garage; the first fixes after either are spoiled.
+        List<long[]> denied = merged(route.tunnelTicks(), route.zoneTicks(Zone.GARAGE));
         List<long[]> canyons = route.canyonTicks();
         long multipathTicks = Math.round(gs.multipathAfterExitS() * Route.TICKS_PER_S);
 
@@ -122,26 +135,30 @@ public final class DriveSimulator {
         double hdopPhase = rnd.receiver.uniform(0.0, 2.0 * Math.PI);
         double satsPhase = rnd.receiver.uniform(0.0, 2.0 * Math.PI);
 
+        Nlos nlos = gs.canyonNlos().enabled() ? new Nlos(gs.canyonNlos(), gnssDtS, rnd.nlos) : null;
+        long latencyTicks = gs.latency().ticks();
+        ArrayDeque<GnssFix> pending = new ArrayDeque<>();
+        Wheel wheel = new Wheel(ws, route);
+
         for (int i = 0; i < n; i++) {
             double t = startT + i / (double) Route.TICKS_PER_S;
             int k = route.segmentAt(i);
 
             if (i % gyroTicks == 0) {
                 int g = i / gyroTicks;
-                gyroBiasRadPerS[g] = biasRadPerS;
-                double rate = route.yawRateRadPerS(k, i) + biasRadPerS + gyroNoiseRadPerS * rnd.gyro.next();
+                double totalBiasRadPerS = ys.warmUp().enabled()
+                        ? biasRadPerS + ys.warmUp().offsetRadPerS(i * Route.TICK_S) : biasRadPerS;
+                gyroBiasRadPerS[g] = totalBiasRadPerS;
+                double rate = bodyYawRateRadPerS(route, ys, k, i) + totalBiasRadPerS
+                        + gyroNoiseRadPerS * rnd.gyro.next();
                 samples.add(new YawRate(t, rate));
                 biasRadPerS += biasStepRadPerS * rnd.gyro.next();
             }
 
+            wheel.advanceTo(i);
             if (i % wheelTicks == 0) {
                 double w = rnd.wheel.next();
-                double v = route.speedMps(k, i);
-                // A wheel standing still sends no pulses: the reading is exactly zero, which is what lets a
-                // filter detect standstill.
-                double reading = v == 0.0 ? 0.0 : quantize((1.0 + ws.scaleError()) * v + ws.noiseMps() * w,
-                        ws.quantumMps());
-                samples.add(new WheelSpeed(t, reading));
+                samples.add(new WheelSpeed(t, wheel.reading(k, i, w)));
             }
 
             if (i % gnssTicks == 0) {
@@ -161,8 +178,14 @@ public final class DriveSimulator {
                 double uDir = rnd.gnssFault.uniform(0.0, 2.0 * Math.PI);
                 double uHdop = rnd.receiver.uniform(0.0, 1.0);
                 int satsDrop = rnd.receiver.uniformInt(0, 2);
+                boolean inCanyon = inside(canyons, i);
+                if (nlos != null) {
+                    nlos.step(inCanyon, route.yawRad(k, i));
+                }
 
-                if (!inside(tunnels, i)) {
+                if (!inside(denied, i)) {
+                    // The fix describes tick i; with latency it is stamped later.
+                    double stampT = latencyTicks == 0 ? t : startT + (i + latencyTicks) / (double) Route.TICKS_PER_S;
                     double ts = i * Route.TICK_S;
                     double hdop = 0.8 + 0.4 * (0.5 + 0.5 * StrictMath.sin(2 * Math.PI * ts / HDOP_PERIOD_S + hdopPhase));
                     int sats = 8 + (int) Math.round(4 * (0.5 + 0.5 * StrictMath.sin(
@@ -170,13 +193,20 @@ public final class DriveSimulator {
                     FixType fix = FixType.THREE_D;
                     GnssFault.Kind kind = null;
                     double sizeM = 0.0;
-                    if (justAfter(tunnels, i, multipathTicks)) {
+                    double fixSigmaHM = sigmaHM;
+                    if (justAfter(denied, i, multipathTicks)) {
                         kind = GnssFault.Kind.EXIT_MULTIPATH;
                         sizeM = gs.multipathMinM() + uSize * (gs.multipathMaxM() - gs.multipathMinM());
                         hdop = 2.0 + 2.0 * uHdop;
                         sats = 4 + satsDrop;
                         fix = sats == 4 ? FixType.TWO_D : FixType.THREE_D;
-                    } else if (inside(canyons, i)) {
+                    } else if (inCanyon && nlos != null) {
+                        hdop = gs.canyonNlos().hdopFactor() * hdop;
+                        sats = nlos.sats();
+                        fixSigmaHM = gs.canyonNlos().reportedSigmaHM();
+                        kind = uDrop < gs.canyonDropProbability() ? GnssFault.Kind.CANYON_DROPPED
+                                : GnssFault.Kind.CANYON_NLOS;
+                    } else if (inCanyon) {
                         hdop = 1.5 + 1.5 * uHdop;
                         sats = 5 + satsDrop;
                         if (uDrop < gs.canyonDropProbability()) {
@@ -192,43 +222,218 @@ public final class DriveSimulator {
                     hdop = Math.rint(hdop * 100.0) / 100.0;
                     double faultE = sizeM * StrictMath.cos(uDir);
                     double faultN = sizeM * StrictMath.sin(uDir);
+                    if (kind == GnssFault.Kind.CANYON_NLOS) {
+                        faultE = nlos.biasEastM();
+                        faultN = nlos.biasNorthM();
+                    }
                     if (kind != null) {
-                        faults.add(new GnssFault(t, kind, faultE, faultN));
+                        faults.add(new GnssFault(stampT, kind, faultE, faultN));
                     }
                     if (kind != GnssFault.Kind.CANYON_DROPPED) {
-                        samples.add(fix(frame, truth.at(i, t), gs, t, gmEastM + whiteE + faultE,
-                                gmNorthM + whiteN + faultN, whiteU, velE, velN, sigmaHM, fix, sats, hdop));
+                        GnssFix f = fix(frame, truth.at(i, t), route.gradeRateRadPerS(k), gs, stampT,
+                                gmEastM + whiteE + faultE, gmNorthM + whiteN + faultN, whiteU, velE, velN,
+                                fixSigmaHM, fix, sats, hdop);
+                        if (latencyTicks == 0) {
+                            samples.add(f);
+                        } else {
+                            pending.add(f);
+                        }
                     }
                 }
             }
+            // Late fixes join the log at their stamp; those stamped after the drive's end are never logged.
+            while (!pending.isEmpty() && pending.peek().t() <= t) {
+                samples.add(pending.poll());
+            }
 
             if (i % refTicks == 0) {
-                Geodetic g = frame.toGeodetic(truth.eastM(i), truth.northM(i), 0.0);
+                Geodetic g = frame.toGeodetic(truth.eastM(i), truth.northM(i), truth.upM(i));
                 samples.add(new ReferencePoint(t, g.latDeg(), g.lonDeg(), g.altM(),
                         Angles.yawRadToHeadingDeg(route.yawRad(k, i))));
             }
         }
 
-        List<TimeWindow> tunnelWindows = windows(tunnels, startT);
-        List<TimeWindow> canyonWindows = windows(canyons, startT);
-        return new SimulatedDrive(s, seed, route, truth, frame, samples, tunnelWindows, canyonWindows, faults,
-                gyroBiasRadPerS, gyroTicks);
+        Map<Zone, List<TimeWindow>> windows = new EnumMap<>(Zone.class);
+        for (Zone z : Zone.values()) {
+            windows.put(z, windows(route.zoneTicks(z), startT));
+        }
+        return new SimulatedDrive(s, seed, route, truth, frame, samples, windows, faults, gyroBiasRadPerS, gyroTicks);
     }
 
-    private static GnssFix fix(LocalFrame frame, Truth tr, GnssSettings gs, double t, double errE, double errN,
-                               double errU, double velNoiseE, double velNoiseN, double sigmaHM, FixType fixType,
-                               int sats, double hdop) {
+    /**
+     * The angular rate the gyro's axis senses, before bias and noise (rad/s): the yaw rate projected on
+     * the pitched body's z axis, yaw rate * cos(grade) (see {@link YawRateSettings}), times the scale
+     * factor when that error is on. On a level road with no scale error it is the yaw rate itself.
+     */
+    private static double bodyYawRateRadPerS(Route route, YawRateSettings ys, int k, int i) {
+        double rate = route.yawRateRadPerS(k, i);
+        if (!route.level()) {
+            rate *= StrictMath.cos(route.gradeRad(k, i));
+        }
+        return ys.scale().enabled() ? ys.scale().factor() * rate : rate;
+    }
+
+    /** Two lists of {@code [start, end)} tick windows as one, in time order. */
+    private static List<long[]> merged(List<long[]> a, List<long[]> b) {
+        if (b.isEmpty()) {
+            return a;
+        }
+        List<long[]> out = new ArrayList<>(a);
+        out.addAll(b);
+        out.sort((x, y) -> Long.compare(x[0], y[0]));
+        return out;
+    }
+
+    /**
+     * The wheel-speed sensor. Its wheel's circumferential speed is the true speed along the road
+     * times (1 + scale error), over (1 + tyre growth) and over (1 - slip), each factor applied only when
+     * its effect is on. The classic reading adds white noise and rounds; with tooth counting the wheel's
+     * angle is integrated every 10 ms tick (trapezoid rule, exact for the piecewise-linear speed of a
+     * route without slip or growth) and the reading is the teeth counted since the last sample.
+     */
+    private static final class Wheel {
+        private final WheelSpeedSettings ws;
+        private final Route route;
+        private final ToothCounting teeth;
+        private final double stepMps;
+        private double previousRollingMps;
+        private double phaseTeeth;
+        private long counted;
+
+        Wheel(WheelSpeedSettings ws, Route route) {
+            this.ws = ws;
+            this.route = route;
+            this.teeth = ws.teeth();
+            this.stepMps = teeth.stepMps(ws.rateHz());
+            this.previousRollingMps = teeth.enabled() ? rollingMps(route.segmentAt(0), 0) : 0.0;
+        }
+
+        /** Circumferential speed of the wheel at tick i (m/s, signed). */
+        private double rollingMps(int k, double tick) {
+            double v = route.speedMps(k, tick);
+            double rolling = (1.0 + ws.scaleError()) * v;
+            if (ws.tyreGrowth().enabled()) {
+                rolling = rolling / (1.0 + ws.tyreGrowth().growthAt(v));
+            }
+            if (ws.slip().enabled()) {
+                rolling = rolling / (1.0 - ws.slip().travelSlip(v, route.accelerationMps2(k), route.gradeRad(k, tick)));
+            }
+            return rolling;
+        }
+
+        /** With tooth counting, turns the wheel through the tick that ends at tick i and counts the teeth seen. */
+        void advanceTo(int i) {
+            if (!teeth.enabled() || i == 0) {
+                return;
+            }
+            double rolling = rollingMps(route.segmentAt(i), i);
+            double before = phaseTeeth;
+            phaseTeeth += 0.5 * (previousRollingMps + rolling) * Route.TICK_S / teeth.toothArcM();
+            previousRollingMps = rolling;
+            double middle = i - 0.5;
+            boolean detected = Math.abs(route.speedMps(route.segmentAt(middle), middle)) >= teeth.minSpeedMps();
+            if (detected) {
+                counted += (long) Math.floor(phaseTeeth) - (long) Math.floor(before);
+            }
+        }
+
+        /** The reading at tick i in segment k; {@code w} is this sample's standard normal draw. */
+        double reading(int k, int i, double w) {
+            if (teeth.enabled()) {
+                double r = counted * stepMps;
+                counted = 0;
+                return r;
+            }
+            double v = route.speedMps(k, i);
+            // A wheel standing still sends no pulses: the reading is exactly zero, which is what lets a
+            // filter detect standstill.
+            return v == 0.0 ? 0.0 : quantize(rollingMps(k, i) + ws.noiseMps() * w, ws.quantumMps());
+        }
+    }
+
+    /**
+     * The non-line-of-sight bias of {@link CanyonNlos}: a unit Gauss-Markov process stepped at every
+     * GNSS epoch (exact discretisation, as for the open-sky correlated error), mapped through the normal
+     * distribution function onto the bias range, pointing across the current street to a side drawn
+     * for each street.
+     */
+    private static final class Nlos {
+        /** A turn of more than this from the street's direction starts a new street (rad). */
+        private static final double NEW_STREET_RAD = Math.toRadians(45.0);
+
+        private final CanyonNlos c;
+        private final double phi;
+        private final double step;
+        private final Gaussian rng;
+        private double x;
+        private double streetYawRad = Double.NaN;
+        private double side;
+        private double yawRad;
+
+        Nlos(CanyonNlos c, double dtS, Gaussian rng) {
+            this.c = c;
+            this.phi = StrictMath.exp(-dtS / c.timeConstantS());
+            this.step = StrictMath.sqrt(1.0 - phi * phi);
+            this.rng = rng;
+            this.x = rng.next();
+        }
+
+        void step(boolean inCanyon, double yawRad) {
+            x = phi * x + step * rng.next();
+            this.yawRad = yawRad;
+            if (!inCanyon) {
+                streetYawRad = Double.NaN;
+                return;
+            }
+            if (Double.isNaN(streetYawRad) || Math.abs(yawRad - streetYawRad) > NEW_STREET_RAD) {
+                streetYawRad = yawRad;
+                side = rng.uniform(0.0, 1.0) < 0.5 ? 1.0 : -1.0;
+            }
+        }
+
+        double sizeM() {
+            return c.minBiasM() + (c.maxBiasM() - c.minBiasM()) * CanyonNlos.normalCdf(x);
+        }
+
+        /** Bias east (m): the size along the left of the car (-sin yaw, cos yaw) times the street's side. */
+        double biasEastM() {
+            return -side * sizeM() * StrictMath.sin(yawRad);
+        }
+
+        double biasNorthM() {
+            return side * sizeM() * StrictMath.cos(yawRad);
+        }
+
+        int sats() {
+            return c.maxSats() - (int) Math.round((c.maxSats() - c.minSats()) * CanyonNlos.normalCdf(x));
+        }
+    }
+
+    private static GnssFix fix(LocalFrame frame, Truth tr, double gradeRateRadPerS, GnssSettings gs, double t,
+                               double errE, double errN, double errU, double velNoiseE, double velNoiseN,
+                               double sigmaHM, FixType fixType, int sats, double hdop) {
         double f = gs.leverArmForwardM();
         double l = gs.leverArmLeftM();
-        double antE = tr.bodyPointEastM(f, l);
-        double antN = tr.bodyPointNorthM(f, l);
-        Geodetic g = frame.toGeodetic(antE + errE, antN + errN, gs.leverArmUpM() + errU);
-        // Antenna velocity: the reference point's velocity plus yaw rate x lever arm, the arm (rE, rN)
-        // rotated by 90 degrees counter-clockwise.
+        double u = gs.leverArmUpM();
+        double antE = tr.bodyPointEastM(f, l, u);
+        double antN = tr.bodyPointNorthM(f, l, u);
+        Geodetic g = frame.toGeodetic(antE + errE, antN + errN, tr.bodyPointUpM(f, u) + errU);
+        // Antenna velocity: the reference point's horizontal velocity plus yaw rate x lever arm, the arm
+        // (rE, rN) rotated by 90 degrees counter-clockwise; on a changing grade the arm's horizontal
+        // length changes too, at -(f sin(grade) + u cos(grade)) * grade rate along the heading.
         double rE = antE - tr.eastM();
         double rN = antN - tr.northM();
-        double ve = tr.speedMps() * StrictMath.cos(tr.yawRad()) - tr.yawRateRadPerS() * rN + velNoiseE;
-        double vn = tr.speedMps() * StrictMath.sin(tr.yawRad()) + tr.yawRateRadPerS() * rE + velNoiseN;
+        double horizontal = tr.horizontalSpeedMps();
+        double cosYaw = StrictMath.cos(tr.yawRad());
+        double sinYaw = StrictMath.sin(tr.yawRad());
+        double ve = horizontal * cosYaw - tr.yawRateRadPerS() * rN + velNoiseE;
+        double vn = horizontal * sinYaw + tr.yawRateRadPerS() * rE + velNoiseN;
+        if (gradeRateRadPerS != 0.0) {
+            double aheadRateMps = -(f * StrictMath.sin(tr.gradeRad()) + u * StrictMath.cos(tr.gradeRad()))
+                    * gradeRateRadPerS;
+            ve += aheadRateMps * cosYaw;
+            vn += aheadRateMps * sinYaw;
+        }
         double speed = Math.hypot(ve, vn);
         double course = speed >= gs.courseMinSpeedMps() && speed > 0.0 ? Angles.yawRadToHeadingDeg(StrictMath.atan2(vn, ve))
                 : Double.NaN;

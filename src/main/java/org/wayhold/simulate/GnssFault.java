@@ -4,7 +4,8 @@ package org.wayhold.simulate;
  * A fix the simulator deliberately spoiled (or left out), so tests can tell the filter's reaction to
  * it from its reaction to ordinary noise.
  *
- * @param t             time of the fix (seconds on the vehicle's clock)
+ * @param t             the fix's {@code t} (seconds on the vehicle's clock): its stamp, later than its time of
+ *                      validity when {@link GnssLatency} is on
  * @param kind          what happened to it
  * @param offsetEastM   extra error added east on top of the ordinary noise (m; 0 for a dropped fix)
  * @param offsetNorthM  extra error added north on top of the ordinary noise (m; 0 for a dropped fix)
@@ -20,7 +21,9 @@ public record GnssFault(double t, Kind kind, double offsetEastM, double offsetNo
         /** An offset fix inside an urban canyon. */
         CANYON_MULTIPATH,
         /** A fix missing inside an urban canyon (not in the samples). */
-        CANYON_DROPPED
+        CANYON_DROPPED,
+        /** A fix inside an urban canyon carrying the slowly varying non-line-of-sight bias of {@link CanyonNlos}. */
+        CANYON_NLOS
     }
 
     public GnssFault {

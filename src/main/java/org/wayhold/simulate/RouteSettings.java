@@ -10,7 +10,9 @@ import org.wayhold.settings.Check;
  * speed changes between {@code minSpeedMps} and {@code maxSpeedMps}, stops once for
  * {@code standstillS} and reverses about {@code reverseDistanceM} at {@code reverseSpeedMps}. Tunnels
  * and urban canyons are placed along it, alternating (first tunnel, first canyon, second tunnel...),
- * each a stretch of driving of the given length.
+ * each a stretch of driving of the given length. The optional elements (motorway stretches, the garage,
+ * queues and long stops) join that sequence, in the order first tunnel, first canyon, first motorway
+ * stretch, the garage, first queue, first long stop, second tunnel, and so on.
  *
  * @param durationS            length of the drive (s, > 0)
  * @param tunnelsS             length of each GNSS-denied stretch (s, each > 0), in route order
@@ -22,7 +24,8 @@ import org.wayhold.settings.Check;
  * @param startT               time of the first sample (epoch seconds)
  * @param originLatDeg         WGS-84 latitude of the start and of the ENU origin (degrees)
  * @param originLonDeg         WGS-84 longitude of the start and of the ENU origin (degrees)
- * @param originAltM           ellipsoidal height of the (planar) road (m)
+ * @param originAltM           ellipsoidal height of the road at the start (m); the road stays at this
+ *                             height unless hills or a garage lift it
  * @param minSpeedMps          lowest cruising speed (m/s, > 0)
  * @param maxSpeedMps          highest cruising speed (m/s, >= minSpeedMps)
  * @param maxLateralAccelMps2  sharpest turn allowed: radius >= speed^2 / this (m/s^2, > 0)
@@ -30,13 +33,20 @@ import org.wayhold.settings.Check;
  * @param reverseSpeedMps      speed of the reversing move, as a magnitude (m/s, > 0)
  * @param reverseDistanceM     length of the reversing move (m, > 0)
  * @param referenceRateHz      rate of the {@code reference} lines (Hz, must divide 100 Hz)
+ * @param hills                height profile of the road (off by default: a flat road at originAltM)
+ * @param garage               a visit to a multi-storey garage with a helical ramp (off by default)
+ * @param queues               traffic-light queues with creeping (off by default)
+ * @param launches             hard starts from rest (off by default)
+ * @param longStops            standstills of minutes (off by default)
+ * @param motorway             motorway stretches (off by default)
  */
 public record RouteSettings(double durationS, List<Double> tunnelsS, List<Double> canyonsS, double warmUpS,
                             double minGapS,
                             double startT, double originLatDeg, double originLonDeg, double originAltM,
                             double minSpeedMps, double maxSpeedMps, double maxLateralAccelMps2,
                             double standstillS, double reverseSpeedMps, double reverseDistanceM,
-                            double referenceRateHz) {
+                            double referenceRateHz, Hills hills, Garage garage, Queues queues,
+                            HardLaunches launches, LongStops longStops, Motorway motorway) {
 
     public RouteSettings {
         Check.positive("route.durationS", durationS, "s");
@@ -69,6 +79,23 @@ public record RouteSettings(double durationS, List<Double> tunnelsS, List<Double
         Check.positive("route.reverseSpeedMps", reverseSpeedMps, "m/s");
         Check.positive("route.reverseDistanceM", reverseDistanceM, "m");
         Route.ticksPerSample("route.referenceRateHz", referenceRateHz);
+        if (hills == null || garage == null || queues == null || launches == null || longStops == null
+                || motorway == null) {
+            throw new IllegalArgumentException("route.hills, route.garage, route.queues, route.launches, "
+                    + "route.longStops, route.motorway: must be given (use Hills.off() and so on)");
+        }
+    }
+
+    /** The classic scenario: a flat road, no garage, queues, hard launches, long stops or motorway. */
+    public RouteSettings(double durationS, List<Double> tunnelsS, List<Double> canyonsS, double warmUpS,
+                         double minGapS, double startT, double originLatDeg, double originLonDeg, double originAltM,
+                         double minSpeedMps, double maxSpeedMps, double maxLateralAccelMps2,
+                         double standstillS, double reverseSpeedMps, double reverseDistanceM,
+                         double referenceRateHz) {
+        this(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg, originAltM,
+                minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps, reverseDistanceM,
+                referenceRateHz, Hills.off(), Garage.off(), Queues.off(), HardLaunches.off(), LongStops.off(),
+                Motorway.off());
     }
 
     /**
@@ -84,54 +111,99 @@ public record RouteSettings(double durationS, List<Double> tunnelsS, List<Double
     public RouteSettings withDurationS(double value) {
         return new RouteSettings(value, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withTunnelsS(List<Double> value) {
         return new RouteSettings(durationS, value, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withCanyonsS(List<Double> value) {
         return new RouteSettings(durationS, tunnelsS, value, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withWarmUpS(double value) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, value, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withMinGapS(double value) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, value, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withStartT(double value) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, value, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withOrigin(double latDeg, double lonDeg, double altM) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, latDeg, lonDeg,
                 altM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withSpeedRange(double minMps, double maxMps) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minMps, maxMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
     }
 
     public RouteSettings withStandstillS(double value) {
         return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
                 originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, value, reverseSpeedMps,
-                reverseDistanceM, referenceRateHz);
+                reverseDistanceM, referenceRateHz, hills, garage, queues,
+                launches, longStops, motorway);
+    }
+
+    public RouteSettings withHills(Hills value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, value, garage, queues, launches, longStops, motorway);
+    }
+
+    public RouteSettings withGarage(Garage value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, hills, value, queues, launches, longStops, motorway);
+    }
+
+    public RouteSettings withQueues(Queues value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, hills, garage, value, launches, longStops, motorway);
+    }
+
+    public RouteSettings withLaunches(HardLaunches value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, hills, garage, queues, value, longStops, motorway);
+    }
+
+    public RouteSettings withLongStops(LongStops value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, hills, garage, queues, launches, value, motorway);
+    }
+
+    public RouteSettings withMotorway(Motorway value) {
+        return new RouteSettings(durationS, tunnelsS, canyonsS, warmUpS, minGapS, startT, originLatDeg, originLonDeg,
+                originAltM, minSpeedMps, maxSpeedMps, maxLateralAccelMps2, standstillS, reverseSpeedMps,
+                reverseDistanceM, referenceRateHz, hills, garage, queues, launches, longStops, value);
     }
 }

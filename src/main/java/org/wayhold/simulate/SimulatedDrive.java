@@ -2,7 +2,9 @@ package org.wayhold.simulate;
 
 import java.util.ArrayList;
 import java.util.Collections;
+import java.util.EnumMap;
 import java.util.List;
+import java.util.Map;
 import org.wayhold.geo.Enu;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
@@ -29,14 +31,13 @@ public final class SimulatedDrive {
     private final TruthTable truth;
     private final LocalFrame frame;
     private final List<Sample> samples;
-    private final List<TimeWindow> tunnels;
-    private final List<TimeWindow> canyons;
+    private final Map<Zone, List<TimeWindow>> windows;
     private final List<GnssFault> faults;
     private final double[] gyroBiasRadPerS;
     private final int gyroTicks;
 
     SimulatedDrive(SimulationSettings settings, long seed, Route route, TruthTable truth, LocalFrame frame,
-                   List<Sample> samples, List<TimeWindow> tunnels, List<TimeWindow> canyons,
+                   List<Sample> samples, Map<Zone, List<TimeWindow>> windows,
                    List<GnssFault> faults, double[] gyroBiasRadPerS, int gyroTicks) {
         this.settings = settings;
         this.seed = seed;
@@ -44,8 +45,10 @@ public final class SimulatedDrive {
         this.truth = truth;
         this.frame = frame;
         this.samples = Collections.unmodifiableList(samples);
-        this.tunnels = List.copyOf(tunnels);
-        this.canyons = List.copyOf(canyons);
+        this.windows = new EnumMap<>(Zone.class);
+        for (Zone z : Zone.values()) {
+            this.windows.put(z, List.copyOf(windows.getOrDefault(z, List.of())));
+        }
         this.faults = List.copyOf(faults);
         this.gyroBiasRadPerS = gyroBiasRadPerS;
         this.gyroTicks = gyroTicks;
@@ -89,19 +92,23 @@ public final class SimulatedDrive {
 
     /**
      * The true position of a point fixed to the vehicle (such as the GNSS antenna) in the drive's ENU
-     * frame (m): the reference point plus the lever arm rotated by the true yaw.
+     * frame (m): the reference point plus the lever arm pitched by the grade and rotated by the yaw.
      *
      * @param t        time (epoch seconds) within the drive
      * @param forwardM distance ahead of the reference point (m)
      * @param leftM    distance left of the reference point (m)
-     * @param upM      height above the reference point (m); the road is the plane up = 0
+     * @param upM      height above the reference point, along the body's z axis (m)
      */
     public Enu bodyPointAt(double t, double forwardM, double leftM, double upM) {
         Truth tr = truthAt(t);
-        return new Enu(tr.bodyPointEastM(forwardM, leftM), tr.bodyPointNorthM(forwardM, leftM), upM);
+        return new Enu(tr.bodyPointEastM(forwardM, leftM, upM), tr.bodyPointNorthM(forwardM, leftM, upM),
+                tr.bodyPointUpM(forwardM, upM));
     }
 
-    /** The true GNSS antenna position (m, ENU), using the configured lever arm. */
+    /**
+     * The true GNSS antenna position (m, ENU) at {@code t}, using the configured lever arm. With
+     * {@link GnssLatency} on, the fix stamped t shows the antenna at {@code t - latency}.
+     */
     public Enu antennaAt(double t) {
         GnssSettings g = settings.gnss();
         return bodyPointAt(t, g.leverArmForwardM(), g.leverArmLeftM(), g.leverArmUpM());
@@ -132,24 +139,57 @@ public final class SimulatedDrive {
         return truth.ticks() * Route.TICK_S;
     }
 
-    /** GNSS-denied intervals, in time order: no fix has a time inside any of them. */
+    /** Tunnels, in time order: no fix has a time of validity inside any of them. */
     public List<TimeWindow> tunnels() {
-        return tunnels;
+        return windows.get(Zone.TUNNEL);
     }
 
     /** Intervals of degraded GNSS (urban canyons), in time order. */
     public List<TimeWindow> canyons() {
-        return canyons;
+        return windows.get(Zone.CANYON);
     }
 
-    /** Every outlier, multipath fix and dropped canyon fix, in time order. */
+    /** Garage visits, entrance to exit, in time order: GNSS denied like a tunnel. */
+    public List<TimeWindow> garages() {
+        return windows.get(Zone.GARAGE);
+    }
+
+    /** Traffic-light queues, from the stop at the back to the launch on green, in time order. */
+    public List<TimeWindow> queues() {
+        return windows.get(Zone.QUEUE);
+    }
+
+    /** Long standstills, in time order. */
+    public List<TimeWindow> longStops() {
+        return windows.get(Zone.LONG_STOP);
+    }
+
+    /** Motorway stretches, slip roads included, in time order. */
+    public List<TimeWindow> motorways() {
+        return windows.get(Zone.MOTORWAY);
+    }
+
+    /** The stretches of one kind, in time order. */
+    public List<TimeWindow> windows(Zone zone) {
+        return windows.get(zone);
+    }
+
+    /** Every GNSS-denied interval (tunnels and garages), in time order. */
+    public List<TimeWindow> gnssDenied() {
+        List<TimeWindow> out = new ArrayList<>(tunnels());
+        out.addAll(garages());
+        out.sort((a, b) -> Double.compare(a.startT(), b.startT()));
+        return List.copyOf(out);
+    }
+
+    /** Every outlier, multipath fix, dropped canyon fix and NLOS-biased canyon fix, in time order. */
     public List<GnssFault> faults() {
         return faults;
     }
 
     /**
-     * The true gyro bias (rad/s): the bias the reading at or just before {@code t} carried. The bias is
-     * constant between gyro samples.
+     * The true gyro bias (rad/s): the bias the reading at or just before {@code t} carried, the warm-up
+     * offset included. The bias is constant between gyro samples.
      *
      * @param t time (epoch seconds) within the drive
      */
@@ -165,7 +205,8 @@ public final class SimulatedDrive {
 
     /**
      * The true wheel-speed scale error (unitless: the sensor reads true speed * (1 + this)), constant
-     * over the drive.
+     * over the drive. Tyre growth and slip, when switched on, change the reading on top of it with
+     * speed and acceleration.
      */
     public double speedScaleError() {
         return settings.wheelSpeed().scaleError();
