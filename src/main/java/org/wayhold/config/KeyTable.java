@@ -121,7 +121,14 @@ final class KeyTable {
                 s.number("gnss_speed_sigma_mps", FilterSettings::gnssSpeedSigmaMps),
                 s.number("gnss_course_sigma_deg", FilterSettings::gnssCourseSigmaDeg),
                 s.number("standstill_after_s", FilterSettings::standstillAfterS),
-                s.number("heading_init_min_distance_m", FilterSettings::headingInitMinDistanceM));
+                s.number("heading_init_min_distance_m", FilterSettings::headingInitMinDistanceM),
+                s.number("initial_gyro_scale_sigma", FilterSettings::initialGyroScaleSigma),
+                s.number("gyro_scale_random_walk_per_sqrt_s", FilterSettings::gyroScaleRandomWalkPerSqrtS),
+                s.number("gyro_rate_proportional_noise", FilterSettings::gyroRateProportionalNoise),
+                s.number("sideslip_rad_per_mps2", FilterSettings::sideslipRadPerMps2),
+                s.number("wheel_speed_zero_below_mps", FilterSettings::wheelSpeedZeroBelowMps),
+                s.number("min_turn_radius_m", FilterSettings::minTurnRadiusM),
+                s.number("gnss_hdop_floor_m", FilterSettings::gnssHdopFloorM));
     }
 
     static GatingSettings gating(Keys<GatingSettings> s) {
@@ -162,6 +169,11 @@ final class KeyTable {
         return new VehicleProfile(
                 s.number("lever_arm_forward_m", VehicleProfile::leverArmForwardM),
                 s.number("lever_arm_left_m", VehicleProfile::leverArmLeftM),
-                s.number("lever_arm_up_m", VehicleProfile::leverArmUpM));
+                s.number("lever_arm_up_m", VehicleProfile::leverArmUpM),
+                s.number("lever_arm_sigma_m", VehicleProfile::leverArmSigmaM),
+                s.number("gnss_latency_s", VehicleProfile::gnssLatencyS),
+                s.number("gnss_latency_sigma_s", VehicleProfile::gnssLatencySigmaS),
+                s.number("speed_scale", VehicleProfile::speedScale),
+                s.number("gyro_scale", VehicleProfile::gyroScale));
     }
 }

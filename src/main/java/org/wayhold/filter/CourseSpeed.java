@@ -1,8 +1,9 @@
 package org.wayhold.filter;
 
-import org.wayhold.filter.FilterState.Slot;
-
 import static org.wayhold.filter.StateIndex.GYRO_BIAS;
+import static org.wayhold.filter.StateIndex.GYRO_SCALE;
+import static org.wayhold.filter.StateIndex.LEVER_FORWARD;
+import static org.wayhold.filter.StateIndex.LEVER_LEFT;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
@@ -11,14 +12,15 @@ import java.util.Arrays;
 import org.wayhold.geo.Angles;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.settings.FilterSettings;
-import org.wayhold.settings.VehicleProfile;
 
 /**
- * The measurement model of a GNSS course and speed over the ground, which are the antenna's: the
- * course observes the yaw (reversed when the wheels say the car reverses) and, with a lever arm, the
- * turn rate; the speed observes the scale times the wheel speed.
- * Used only when the vehicle moves fast enough for the course to mean something. Course noise shrinks
- * with speed (its error is roughly a velocity error divided by the speed).
+ * The measurement model of a GNSS course and speed over the ground, which are the antenna's. In the
+ * vehicle frame (x forward, y left) the antenna moves with the reference point's velocity plus
+ * omega z x (forward, left), that is (a, b) = (v - omega left, omega forward): its course is the yaw
+ * plus atan2(b, a) and its speed the length of (a, b). With the antenna at the reference point this is
+ * the yaw (reversed when the car reverses) and the scaled wheel speed. Used only when the vehicle
+ * moves fast enough for the course to mean something. Course noise shrinks with speed (its error is
+ * roughly a velocity error divided by the speed).
  */
 final class CourseSpeed {
 
@@ -26,13 +28,9 @@ final class CourseSpeed {
     static final double MOVING_SPEED_MPS = 0.5;
 
     private final FilterSettings settings;
-    private final double leverForwardM;
-    private final double leverLeftM;
 
-    CourseSpeed(FilterSettings settings, VehicleProfile profile) {
+    CourseSpeed(FilterSettings settings) {
         this.settings = settings;
-        this.leverForwardM = profile.leverArmForwardM();
-        this.leverLeftM = profile.leverArmLeftM();
     }
 
     /**
@@ -44,53 +42,49 @@ final class CourseSpeed {
      * @param gateThreshold chi-square gate on the two-row NIS (unitless)
      */
     void update(FilterState s, JosephUpdate u, GnssFix fix, double gateThreshold) {
-        if (!fix.hasSpeed() || !fix.hasCourse() || s.is(Slot.STANDSTILL)) {
+        if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
+        double wheel = s.get(FilterState.Slot.WHEEL_SPEED_MPS);
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        if (fix.speedMps() < minSpeed || Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
+        if (fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS) {
             return;
         }
-        double wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        double[] x = s.x;
         double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
                 / fix.speedMps();
         double speedSigma = settings.gnssSpeedSigmaMps();
+        double unbiased = s.get(FilterState.Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
+        double omega = x[GYRO_SCALE] * unbiased;
+        double fwd = x[LEVER_FORWARD];
+        double left = x[LEVER_LEFT];
+        double a = x[SPEED_SCALE] * wheel - omega * left;
+        double b = omega * fwd;
+        double n2 = a * a + b * b;
+        double n = Math.sqrt(n2);
+        // Derivatives of the course offset atan2(b, a) and of the speed |(a, b)| by omega.
+        double dCourseDOmega = (b * left + a * fwd) / n2;
+        double dSpeedDOmega = (b * fwd - a * left) / n;
         double[] h = u.h;
         Arrays.fill(h, 0.0);
+        h[YAW] = 1.0;
+        h[SPEED_SCALE] = -b * wheel / n2;
+        h[GYRO_BIAS] = -x[GYRO_SCALE] * dCourseDOmega;
+        h[GYRO_SCALE] = unbiased * dCourseDOmega;
+        h[LEVER_FORWARD] = a * omega / n2;
+        h[LEVER_LEFT] = b * omega / n2;
+        h[SIZE + SPEED_SCALE] = a * wheel / n;
+        h[SIZE + GYRO_BIAS] = -x[GYRO_SCALE] * dSpeedDOmega;
+        h[SIZE + GYRO_SCALE] = unbiased * dSpeedDOmega;
+        h[SIZE + LEVER_FORWARD] = b * omega / n;
+        h[SIZE + LEVER_LEFT] = -a * omega / n;
         u.r[0] = courseSigma * courseSigma;
         u.r[1] = 0.0;
         u.r[2] = 0.0;
         u.r[3] = speedSigma * speedSigma;
         double measuredYaw = Angles.headingDegToYawRad(fix.courseDeg());
-        if (leverForwardM == 0.0 && leverLeftM == 0.0) {
-            // The antenna moves with the reference point: its course is the yaw (reversed when the car
-            // reverses) and its speed the scaled wheel speed.
-            if (wheel < 0.0) {
-                measuredYaw = Angles.wrapPi(measuredYaw + Math.PI);
-            }
-            double absWheel = Math.abs(wheel);
-            h[YAW] = 1.0;
-            h[SIZE + SPEED_SCALE] = absWheel;
-            u.nu[0] = Angles.wrapPi(measuredYaw - s.x[YAW]);
-            u.nu[1] = fix.speedMps() - s.x[SPEED_SCALE] * absWheel;
-        } else {
-            // The antenna's velocity in the vehicle frame (x forward, y left) is the reference point's
-            // plus omega z x (forward, left): (v - omega left, omega forward). Its course is the yaw plus
-            // the direction of that vector, its speed the vector's length; in a turn both differ from
-            // the reference point's by the lever arm.
-            double omega = s.get(Slot.YAW_RATE_RAD_PER_S) - s.x[GYRO_BIAS];
-            double a = s.x[SPEED_SCALE] * wheel - omega * leverLeftM;
-            double b = omega * leverForwardM;
-            double n2 = a * a + b * b;
-            double speed = Math.sqrt(n2);
-            h[YAW] = 1.0;
-            h[SPEED_SCALE] = -b * wheel / n2;
-            h[GYRO_BIAS] = -(a * leverForwardM + b * leverLeftM) / n2;
-            h[SIZE + SPEED_SCALE] = a * wheel / speed;
-            h[SIZE + GYRO_BIAS] = (a * leverLeftM - b * leverForwardM) / speed;
-            u.nu[0] = Angles.wrapPi(measuredYaw - (s.x[YAW] + Math.atan2(b, a)));
-            u.nu[1] = fix.speedMps() - speed;
-        }
+        u.nu[0] = Angles.wrapPi(measuredYaw - (x[YAW] + Math.atan2(b, a)));
+        u.nu[1] = fix.speedMps() - n;
         u.prepare(s.p, 2);
         if (u.nis() > gateThreshold) {
             s.increment(FilterCounter.VELOCITY_GATED);

@@ -19,6 +19,12 @@ public enum FilterCounter {
     VELOCITY_GATED("velocity_gated"),
     /** Times a variance had to be made positive again after rounding. */
     COVARIANCE_REPAIRS("covariance_repairs"),
+    /** Updates refused because they would have left a value that is not finite. */
+    UPDATES_REFUSED("updates_refused"),
+    /** Wheel-speed or yaw-rate readings refused as not finite or beyond any vehicle. */
+    INPUTS_REFUSED("inputs_refused"),
+    /** Times the covariance was widened because fixes disagreed with it for longer than chance allows. */
+    COVARIANCE_WIDENINGS("covariance_widenings"),
     /**
      * Times position and yaw were started afresh because fixes that agreed with each other lay far
      * outside the covariance.

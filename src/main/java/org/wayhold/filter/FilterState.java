@@ -13,8 +13,8 @@ import java.util.Arrays;
  * counters). The parts of {@link NavigationFilter} are stateless apart from work arrays; all of their
  * memory lives here, so a checkpoint, a branch and a snapshot are copies of one object.
  *
- * <p>{@link Slot} is the one list of the scalar bookkeeping; with x, P, the held fixes and the
- * {@link FilterCounter}s it is all the state holds. Copying, restoring and the binary codec walk these
+ * <p>{@link Slot} is the one list of the scalar bookkeeping; with x, P, the held fixes, the innovation
+ * window, the displacement ring and the {@link FilterCounter}s it is all the state holds. Copying, restoring and the binary codec walk these
  * arrays whole, so a new scalar is one new {@link Slot} constant and nothing else. The codec writes
  * each array's length, so a state written by a different layout is refused rather than misread.
  *
@@ -23,10 +23,18 @@ import java.util.Arrays;
 public final class FilterState {
 
     /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
-    static final int FORMAT = 3;
+    static final int FORMAT = 4;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
+
+    /** Position NIS values kept for the sustained-disagreement test (count). */
+    static final int NIS_WINDOW = 10;
+
+    /** Fixes kept for the displacement test, one per second at most (count). */
+    static final int TRAIL_LENGTH = 24;
+    /** Per trail entry: time, fix east, fix north, odometry east, odometry north, white variance. */
+    static final int TRAIL_FIELDS = 6;
 
     /**
      * The scalar bookkeeping, one slot each. Flags are 0 or 1, whole numbers are stored exactly (all
@@ -86,7 +94,43 @@ public final class FilterState {
         /** Why fixes are held back, an ordinal of {@link Reacquisition.Probation}. */
         PROBATION(0.0),
         /** Number of held fixes (count). */
-        PENDING_COUNT(0.0);
+        PENDING_COUNT(0.0),
+        /** True while the wheels read zero but the gyro says the vehicle turns (flag). */
+        CREEPING(0.0),
+        /** Time of the last yaw-rate reading that contradicted a standstill (s since epoch). */
+        LAST_TURN_AT_REST_T_REL(Double.NaN),
+        /** Direction of the last nonzero wheel-speed reading: +1 forward, -1 reversing. */
+        LAST_MOVING_SIGN(1.0),
+        /** Dead-reckoned east, never corrected by fixes (m): the odometry's own path. */
+        ODOMETRY_EAST_M(0.0),
+        /** Dead-reckoned north, never corrected by fixes (m). */
+        ODOMETRY_NORTH_M(0.0),
+        /** Variance added to fixes while they disagree with the odometry (m^2 per axis). */
+        INCONSISTENCY_VAR_M2(0.0),
+        /** Time the fixes last disagreed with the odometry (s since epoch). */
+        INCONSISTENT_T_REL(Double.NaN),
+        /** Consecutive fixes that failed the displacement test (count). */
+        INCONSISTENT_RUN(0.0),
+        /** Time the covariance was last widened for sustained disagreement or a jump (s since epoch). */
+        WIDENED_T_REL(Double.NaN),
+        /** Number of NIS values in the innovation window (count). */
+        NIS_COUNT(0.0),
+        /** Next slot of the innovation window (index). */
+        NIS_NEXT(0.0),
+        /** Number of entries in the displacement ring (count). */
+        TRAIL_COUNT(0.0),
+        /** Next slot of the displacement ring (index). */
+        TRAIL_NEXT(0.0),
+        /** True once any wheel-speed reading arrived (flag). */
+        HAS_WHEEL_SPEED(0.0),
+        /** The last fix's sigma was raised by its geometry or by inconsistency (flag). */
+        FIX_WEAK(0.0),
+        /** Wheel speed when the scale's uncertainty last grew for a change of speed (m/s). */
+        SCALE_REFERENCE_SPEED_MPS(0.0),
+        /** When the current probation began (s since epoch). */
+        PROBATION_SINCE_T_REL(Double.NaN),
+        /** Horizontal variance of the fix at the alignment anchor, per axis (m^2). */
+        ANCHOR_VAR_M2(Double.NaN);
 
         private final double initial;
 
@@ -107,6 +151,10 @@ public final class FilterState {
     private final double[] v = new double[SLOTS.length];
     /** Fixes held back by {@link Reacquisition}, {@link #PENDING_FIELDS} entries each. */
     final double[][] pending;
+    /** The last position NIS values of used fixes, a ring of {@link #NIS_WINDOW}. */
+    final double[] recentNis = new double[NIS_WINDOW];
+    /** Past fixes with the odometry's position at their time, a ring of {@link #TRAIL_LENGTH}. */
+    final double[][] trail = new double[TRAIL_LENGTH][TRAIL_FIELDS];
     /** Running counts, indexed by {@link FilterCounter#ordinal()}. */
     private final long[] counts = new long[FilterCounter.values().length];
 
@@ -185,6 +233,10 @@ public final class FilterState {
         for (int i = 0; i < pending.length; i++) {
             System.arraycopy(o.pending[i], 0, pending[i], 0, PENDING_FIELDS);
         }
+        System.arraycopy(o.recentNis, 0, recentNis, 0, NIS_WINDOW);
+        for (int i = 0; i < TRAIL_LENGTH; i++) {
+            System.arraycopy(o.trail[i], 0, trail[i], 0, TRAIL_FIELDS);
+        }
         System.arraycopy(o.counts, 0, counts, 0, counts.length);
     }
 
@@ -196,6 +248,11 @@ public final class FilterState {
         writeAll(out, v);
         out.writeInt(pending.length);
         for (double[] row : pending) {
+            writeAll(out, row);
+        }
+        writeAll(out, recentNis);
+        out.writeInt(trail.length);
+        for (double[] row : trail) {
             writeAll(out, row);
         }
         out.writeInt(counts.length);
@@ -221,6 +278,11 @@ public final class FilterState {
         expectLength(in, pending.length, "held fixes");
         for (double[] row : pending) {
             readAll(in, row, "held fix");
+        }
+        readAll(in, recentNis, "innovation window");
+        expectLength(in, trail.length, "displacement ring");
+        for (double[] row : trail) {
+            readAll(in, row, "displacement entry");
         }
         expectLength(in, counts.length, "counters");
         for (int i = 0; i < counts.length; i++) {

@@ -8,8 +8,23 @@ import org.wayhold.settings.FilterSettings;
  * white part and a time-correlated part (a first-order Gauss-Markov process per axis, held in the
  * state; Groves, <i>Principles of GNSS, Inertial, and Multisensor Integrated Navigation Systems</i>,
  * 2nd ed., sec. 9.4 and 14.2.7).
+ *
+ * <p>A receiver's own {@code sigma_h} is believed only down to floors the fix's geometry sets: HDOP
+ * times {@code filter.gnss_hdop_floor_m}, and more with few satellites, where one reflected signal
+ * weighs more in the solution. Receivers in urban canyons report sigmas of a few metres while their
+ * error is tens; the geometry they report is harder to hide.
  */
 final class GnssNoise {
+
+    /**
+     * Multiplier on the sigma of a fix from this few satellites or fewer (unitless): four is the least
+     * that gives a 3D solution, with no redundancy to catch a bad signal (common practice).
+     */
+    private static final double FEW_SATELLITES_FACTOR = 2.0;
+    private static final int FEW_SATELLITES = 4;
+    /** Multiplier for five or six satellites: some redundancy, little (common practice). */
+    private static final double SOME_SATELLITES_FACTOR = 1.3;
+    private static final int SOME_SATELLITES = 6;
 
     private final FilterSettings settings;
 
@@ -20,7 +35,8 @@ final class GnssNoise {
     /**
      * The 1-sigma horizontal error per axis the filter assumes for a fix (m): {@code sigma_h} when
      * given, else HDOP times the configured range error, else the configured default; scaled by the
-     * fix type and never below the configured floor.
+     * fix type; raised to the geometry floor (HDOP times {@code gnss_hdop_floor_m}) and for few
+     * satellites; never below {@code gnss_floor_m}.
      */
     double horizontalSigmaM(GnssFix fix) {
         double sigma;
@@ -32,6 +48,16 @@ final class GnssNoise {
             sigma = settings.gnssDefaultSigmaM();
         }
         sigma *= settings.fixScale(fix.fix());
+        if (fix.hasHdop()) {
+            sigma = Math.max(sigma, fix.hdop() * settings.gnssHdopFloorM());
+        }
+        if (fix.hasSats()) {
+            if (fix.sats() <= FEW_SATELLITES) {
+                sigma *= FEW_SATELLITES_FACTOR;
+            } else if (fix.sats() <= SOME_SATELLITES) {
+                sigma *= SOME_SATELLITES_FACTOR;
+            }
+        }
         return Math.max(sigma, settings.gnssFloorM());
     }
 

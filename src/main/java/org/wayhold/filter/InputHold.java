@@ -9,11 +9,21 @@ import org.wayhold.filter.FilterState.Slot;
  * interval on average, which adds up while the vehicle accelerates or enters a turn; the line does
  * not, and its noise telescopes over consecutive steps (the weights 1.5 and -0.5 of two readings sum
  * to 1), so the integrated noise is that of holding.
+ *
+ * <p>A stream that stops for longer than {@link #GAP_FACTOR} of its usual interval (and at least
+ * {@link #GAP_MIN_S}) is interrupted: its last reading is held, and {@link ProcessNoise} lets the
+ * uncertainty grow with the reading's age.
  */
 final class InputHold {
 
     /** Inputs are extended along their trend at most this far past the latest reading (s). */
     static final double MAX_EXTRAPOLATION_S = 0.1;
+    /** A stream is interrupted when its newest reading is older than this many usual intervals. */
+    static final double GAP_FACTOR = 3.0;
+    /** ... and older than this (s): jitter of a few tens of milliseconds is no gap. */
+    static final double GAP_MIN_S = 0.3;
+    /** The usual interval assumed from one reading, before a second shows the real one (s). */
+    private static final double FIRST_INTERVAL_S = 0.1;
 
     private InputHold() {
     }
@@ -24,6 +34,7 @@ final class InputHold {
         s.set(Slot.PREVIOUS_WHEEL_SPEED_T_REL, s.get(Slot.WHEEL_SPEED_T_REL));
         s.set(Slot.WHEEL_SPEED_MPS, speedMps);
         s.set(Slot.WHEEL_SPEED_T_REL, s.get(Slot.T_REL));
+        s.set(Slot.HAS_WHEEL_SPEED, true);
     }
 
     /** Records a yaw-rate reading at the state's time (rad/s, counter-clockwise positive). */
@@ -37,18 +48,50 @@ final class InputHold {
 
     /** The wheel speed to use over a step whose midpoint is {@code tMidRel} (m/s). */
     static double wheelSpeedAt(FilterState s, double tMidRel) {
-        double wheel = extended(s.get(Slot.WHEEL_SPEED_MPS), s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_MPS),
+        double newest = s.get(Slot.WHEEL_SPEED_MPS);
+        double wheel = extended(newest, s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_MPS),
                 s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL), tMidRel);
-        if (wheel * s.get(Slot.WHEEL_SPEED_MPS) <= 0.0) {
+        if (wheel * newest <= 0.0) {
             // Never extend through zero: a stop or a change of direction shows in the readings first.
-            wheel = s.get(Slot.WHEEL_SPEED_MPS);
+            wheel = newest;
         }
         return wheel;
     }
 
-    /** The measured yaw rate to use over a step whose midpoint is {@code tMidRel} (rad/s). */
+    /** The yaw-rate reading to use over a step whose midpoint is {@code tMidRel} (rad/s). */
     static double yawRateAt(FilterState s, double tMidRel) {
-        return extended(s.get(Slot.YAW_RATE_RAD_PER_S), s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), tMidRel);
+        return extended(s.get(Slot.YAW_RATE_RAD_PER_S), s.get(Slot.YAW_RATE_T_REL),
+                s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), tMidRel);
+    }
+
+    /** The interval between the last two wheel-speed readings (s), a default before there are two. */
+    static double wheelIntervalS(FilterState s) {
+        return interval(s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL));
+    }
+
+    /** The interval between the last two yaw-rate readings (s), a default before there are two. */
+    static double yawRateIntervalS(FilterState s) {
+        return interval(s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_T_REL));
+    }
+
+    /** How long the wheel-speed stream has been silent past its usual interval (s), 0 when it is not. */
+    static double wheelGapS(FilterState s, double tRel) {
+        return gap(tRel, s.get(Slot.WHEEL_SPEED_T_REL), wheelIntervalS(s));
+    }
+
+    /** How long the yaw-rate stream has been silent past its usual interval (s), 0 when it is not. */
+    static double yawRateGapS(FilterState s, double tRel) {
+        return gap(tRel, s.get(Slot.YAW_RATE_T_REL), yawRateIntervalS(s));
+    }
+
+    private static double interval(double newestT, double previousT) {
+        double dt = newestT - previousT;
+        return dt > 0.0 ? dt : FIRST_INTERVAL_S;
+    }
+
+    private static double gap(double tRel, double newestT, double intervalS) {
+        double age = tRel - newestT;
+        return age > Math.max(GAP_FACTOR * intervalS, GAP_MIN_S) ? age : 0.0;
     }
 
     /**

@@ -1,9 +1,5 @@
 package org.wayhold.filter;
 
-import static org.wayhold.filter.StateIndex.EAST;
-import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
-import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
-import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.YAW;
 
@@ -13,14 +9,15 @@ import org.wayhold.geo.Angles;
 /**
  * The correction mechanics of the filter: gain and Joseph-form covariance update for a measurement of
  * one or two rows. A measurement model fills {@link #h}, {@link #r} and {@link #nu}, calls
- * {@link #prepare} (or {@link #preparePosition} for the position fix's H), reads {@link #nis} to decide,
+ * {@link #prepare}, reads {@link #nis} to decide,
  * and calls {@link #apply} to correct the state.
  *
  * <p>The covariance update is P = (I - K H) P (I - K H)' + K R K', which keeps P symmetric and positive
  * semi-definite for any gain (Bucy and Joseph, <i>Filtering for Stochastic Processes with Applications
  * to Guidance</i>, 1968; Brown and Hwang, <i>Introduction to Random Signals and Applied Kalman
  * Filtering</i>, 4th ed., sec. 4.2). It is applied in factored form with the structural zeros of H
- * skipped, and allocates nothing. Not thread-safe: one per filter.
+ * skipped (the columns where H is zero are found once per measurement), and allocates nothing. Not
+ * thread-safe: one per filter.
  */
 final class JosephUpdate {
 
@@ -36,21 +33,20 @@ final class JosephUpdate {
     private final double[] sInv = new double[4];
     private final double[] hp = new double[2 * SIZE];
     private final double[] tmp = new double[SIZE * SIZE];
+    private final double[] pNew = new double[SIZE * SIZE];
+    private final double[] xNew = new double[SIZE];
     /** Columns where H has a nonzero entry, ascending; filled with S. */
     private final int[] hCols = new int[SIZE];
     private int hColCount;
-    /** True while H, R and S are those of a position fix: the update then takes the written-out routines. */
-    private boolean positionH;
 
     /**
      * S = H P H' + R for the first m rows of H; keeps PH', S^-1 and the columns where H has a nonzero
-     * entry. Zero entries of H are skipped: every H here has at most three nonzeros per row.
+     * entry. Zero entries of H are skipped: the filter's H rows are sparse.
      *
      * @param p P, row-major SIZE x SIZE (not modified)
      * @param m rows of H (1 or 2)
      */
     void prepare(double[] p, int m) {
-        positionH = false;
         hColCount = 0;
         for (int l = 0; l < SIZE; l++) {
             if (h[l] != 0.0 || (m == 2 && h[SIZE + l] != 0.0)) {
@@ -95,32 +91,6 @@ final class JosephUpdate {
         invert(s00, s01, s10, s11);
     }
 
-    /**
-     * {@link #prepare}(p, 2) for the H of a position fix, whose pattern is fixed: row 0 is
-     * e_EAST + a e_YAW + e_GNSS_ERR_EAST, row 1 is e_NORTH + b e_YAW + e_GNSS_ERR_NORTH. It adds the same
-     * nonzero terms in the same order as the general routine (whose skipped terms are products with zero,
-     * which add nothing to a finite sum), so the result is the same bit for bit, but with the indices
-     * known when compiled: this runs at every fix.
-     *
-     * @param p P, row-major SIZE x SIZE (not modified)
-     * @param a H[0][YAW], the east antenna offset's change with yaw (m/rad)
-     * @param b H[1][YAW], the north antenna offset's change with yaw (m/rad)
-     */
-    void preparePosition(double[] p, double a, double b) {
-        positionH = true;
-        for (int i = 0; i < SIZE; i++) {
-            int row = i * SIZE;
-            double pY = p[row + YAW];
-            ph[i * 2] = p[row + EAST] + pY * a + p[row + GNSS_ERR_EAST];
-            ph[i * 2 + 1] = p[row + NORTH] + pY * b + p[row + GNSS_ERR_NORTH];
-        }
-        double s00 = r[0] + ph[EAST * 2] + a * ph[YAW * 2] + ph[GNSS_ERR_EAST * 2];
-        double s01 = r[1] + ph[EAST * 2 + 1] + a * ph[YAW * 2 + 1] + ph[GNSS_ERR_EAST * 2 + 1];
-        double s10 = r[2] + ph[NORTH * 2] + b * ph[YAW * 2] + ph[GNSS_ERR_NORTH * 2];
-        double s11 = r[3] + ph[NORTH * 2 + 1] + b * ph[YAW * 2 + 1] + ph[GNSS_ERR_NORTH * 2 + 1];
-        invert(s00, s01, s10, s11);
-    }
-
     private void invert(double s00, double s01, double s10, double s11) {
         double det = s00 * s11 - s01 * s10;
         sInv[0] = s11 / det;
@@ -141,12 +111,15 @@ final class JosephUpdate {
 
     /**
      * Applies a prepared update to the state, with the gain K = P H' S^-1 and the Joseph-form covariance
-     * update; a variance that rounding leaves non-positive is repaired and counted.
+     * update; a variance that rounding leaves non-positive is repaired and counted. An update that would
+     * leave a state or covariance entry that is not finite is refused: the state stays as it was, and the
+     * refusal is counted.
      *
      * @param s the state (x and P modified)
      * @param m rows of H, as prepared
+     * @return false when the update was refused
      */
-    void apply(FilterState s, int m) {
+    boolean apply(FilterState s, int m) {
         double[] x = s.x;
         // K = P H' S^-1 (SIZE x m)
         for (int i = 0; i < SIZE; i++) {
@@ -159,49 +132,51 @@ final class JosephUpdate {
             }
         }
         // x = x + K nu
+        boolean finite = true;
         for (int i = 0; i < SIZE; i++) {
             double dx = k[i * 2] * nu[0];
             if (m == 2) {
                 dx += k[i * 2 + 1] * nu[1];
             }
-            x[i] += dx;
+            xNew[i] = x[i] + dx;
+            finite &= Double.isFinite(xNew[i]);
         }
-        x[YAW] = Angles.wrapPi(x[YAW]);
+        xNew[YAW] = Angles.wrapPi(xNew[YAW]);
         joseph(s.p, m);
+        for (int i = 0; i < SIZE * SIZE && finite; i++) {
+            finite = Double.isFinite(pNew[i]);
+        }
+        if (!finite) {
+            s.increment(FilterCounter.UPDATES_REFUSED);
+            return false;
+        }
+        System.arraycopy(xNew, 0, x, 0, SIZE);
+        System.arraycopy(pNew, 0, s.p, 0, SIZE * SIZE);
         if (repairDiagonal(s.p)) {
             s.increment(FilterCounter.COVARIANCE_REPAIRS);
         }
+        return true;
     }
 
     /**
-     * P = A P A' + K R K' with A = I - K H, applied in factored form rather than formed: A P = P - K (H P)
-     * and (A P) A' = A P - ((A P) H') K'. H has at most three nonzeros per row and K two columns, so
-     * this costs about 400 multiplications where two dense 7 x 7 products cost 686, and it keeps the
+     * P' = A P A' + K R K' into {@link #pNew}, with A = I - K H, applied in factored form rather than formed: A P = P - K (H P)
+     * and (A P) A' = A P - ((A P) H') K'. It keeps the
      * Joseph form's structure (a congruence of P plus K R K'), which holds P symmetric and positive
      * semi-definite for any gain. Only the upper triangle is computed and mirrored: the result is
-     * symmetric by construction.
+     * symmetric by construction. With H's zero columns skipped it costs O(n^2 (m + k)) for k nonzero
+     * columns where the dense products cost O(n^3).
      */
     private void joseph(double[] p, int m) {
         // HP (m x SIZE) into hp, row by row of P so the inner loop runs along contiguous memory.
-        if (positionH) {
-            double a = h[YAW];
-            double b = h[SIZE + YAW];
-            for (int j = 0; j < SIZE; j++) {
-                double pY = p[YAW * SIZE + j];
-                hp[j] = p[EAST * SIZE + j] + a * pY + p[GNSS_ERR_EAST * SIZE + j];
-                hp[SIZE + j] = p[NORTH * SIZE + j] + b * pY + p[GNSS_ERR_NORTH * SIZE + j];
-            }
-        } else {
-            Arrays.fill(hp, 0.0);
-            for (int rIdx = 0; rIdx < m; rIdx++) {
-                int out = rIdx * SIZE;
-                for (int c = 0; c < hColCount; c++) {
-                    int l = hCols[c];
-                    double hrl = h[out + l];
-                    int row = l * SIZE;
-                    for (int j = 0; j < SIZE; j++) {
-                        hp[out + j] += hrl * p[row + j];
-                    }
+        Arrays.fill(hp, 0.0);
+        for (int rIdx = 0; rIdx < m; rIdx++) {
+            int out = rIdx * SIZE;
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
+                double hrl = h[out + l];
+                int row = l * SIZE;
+                for (int j = 0; j < SIZE; j++) {
+                    hp[out + j] += hrl * p[row + j];
                 }
             }
         }
@@ -214,27 +189,16 @@ final class JosephUpdate {
             }
         }
         // tmp H' (SIZE x 2) into ph: PH' is not needed any more.
-        if (positionH) {
-            double a = h[YAW];
-            double b = h[SIZE + YAW];
-            for (int i = 0; i < SIZE; i++) {
-                int row = i * SIZE;
-                double tY = tmp[row + YAW];
-                ph[i * 2] = tmp[row + EAST] + tY * a + tmp[row + GNSS_ERR_EAST];
-                ph[i * 2 + 1] = tmp[row + NORTH] + tY * b + tmp[row + GNSS_ERR_NORTH];
+        for (int i = 0; i < SIZE; i++) {
+            double a0 = 0.0;
+            double a1 = 0.0;
+            for (int c = 0; c < hColCount; c++) {
+                int l = hCols[c];
+                a0 += tmp[i * SIZE + l] * h[l];
+                a1 += tmp[i * SIZE + l] * h[SIZE + l];
             }
-        } else {
-            for (int i = 0; i < SIZE; i++) {
-                double a0 = 0.0;
-                double a1 = 0.0;
-                for (int c = 0; c < hColCount; c++) {
-                    int l = hCols[c];
-                    a0 += tmp[i * SIZE + l] * h[l];
-                    a1 += tmp[i * SIZE + l] * h[SIZE + l];
-                }
-                ph[i * 2] = a0;
-                ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
-            }
+            ph[i * 2] = a0;
+            ph[i * 2 + 1] = m == 2 ? a1 : 0.0;
         }
         // P = tmp - (tmp H') K' + K R K', upper triangle, mirrored.
         double r00 = r[0];
@@ -253,8 +217,8 @@ final class JosephUpdate {
                 double kj0 = k[j * 2];
                 double kj1 = k[j * 2 + 1];
                 double v = tmp[i * SIZE + j] - (u0 * kj0 + u1 * kj1) + (kr0 * kj0 + kr1 * kj1);
-                p[i * SIZE + j] = v;
-                p[j * SIZE + i] = v;
+                pNew[i * SIZE + j] = v;
+                pNew[j * SIZE + i] = v;
             }
         }
     }

@@ -4,6 +4,7 @@ import static org.wayhold.filter.StateIndex.EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
 import static org.wayhold.filter.StateIndex.GYRO_BIAS;
+import static org.wayhold.filter.StateIndex.GYRO_SCALE;
 import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
@@ -13,7 +14,8 @@ import static org.wayhold.filter.StateIndex.YAW;
  * The vehicle's motion over one step with wheel speed and yaw rate held constant: a planar
  * constant-turn-rate, constant-speed model integrated exactly (not a first-order Euler step).
  *
- * <p>With omega = yaw rate - bias and v = scale * wheel speed held over dt, and theta = omega dt:
+ * <p>With omega = gyro scale * (yaw-rate reading - bias) and v = speed scale * wheel speed held over
+ * dt, and theta = omega dt:
  * <pre>
  *   east'  = east  + v dt (cos(yaw) f1(theta) - sin(yaw) f2(theta))
  *   north' = north + v dt (sin(yaw) f1(theta) + cos(yaw) f2(theta))
@@ -23,7 +25,8 @@ import static org.wayhold.filter.StateIndex.YAW;
  * v (cos, sin)(yaw + omega s) over s in [0, dt]. Their Taylor series serve near theta = 0 so straight
  * driving loses no precision. The GNSS error states decay as a first-order Gauss-Markov process,
  * x' = exp(-dt/tau) x (Brown and Hwang, <i>Introduction to Random Signals and Applied Kalman
- * Filtering</i>, 4th ed., sec. 4.2). Bias and scale are random walks, unchanged by the mean motion.
+ * Filtering</i>, 4th ed., sec. 4.2). Bias and scale factors are random walks, the lever arm and the
+ * latency constants: the mean motion leaves them unchanged.
  *
  * <p>At a standstill the yaw is held (omega = 0) so the bias, observed by the zero-rate update, does not
  * leak into the heading.
@@ -33,6 +36,20 @@ public final class MotionModel {
     /** Below this |theta| (rad) the Taylor series of f1, f2 and their derivatives are used. */
     private static final double SMALL_ANGLE_RAD = 1e-4;
 
+    /**
+     * The off-diagonal entries of F that can be nonzero, as {row, column}: the pattern
+     * {@link CovariancePrediction} exploits. Every other off-diagonal entry is zero, and the diagonal is
+     * one except for {@link #DECAYING}.
+     */
+    static final int[][] COUPLINGS = {
+        {EAST, YAW}, {EAST, GYRO_BIAS}, {EAST, SPEED_SCALE}, {EAST, GYRO_SCALE},
+        {NORTH, YAW}, {NORTH, GYRO_BIAS}, {NORTH, SPEED_SCALE}, {NORTH, GYRO_SCALE},
+        {YAW, GYRO_BIAS}, {YAW, GYRO_SCALE},
+    };
+
+    /** States whose diagonal entry of F is the Gauss-Markov decay exp(-dt/tau) rather than one. */
+    static final int[] DECAYING = {GNSS_ERR_EAST, GNSS_ERR_NORTH};
+
     private MotionModel() {
     }
 
@@ -41,21 +58,23 @@ public final class MotionModel {
      *
      * @param x              state at the start (not modified), layout {@link StateIndex}
      * @param wheelSpeedMps  held wheel speed (m/s, signed)
-     * @param yawRateRadPerS held measured yaw rate (rad/s, counter-clockwise positive)
+     * @param yawRateRadPerS held yaw-rate reading (rad/s, counter-clockwise positive)
      * @param dtS            step length (s, > 0)
      * @param standstill     true when the vehicle is known to stand still: yaw is held
      * @param gnssDecay      exp(-dt / tau) of the GNSS error states (unitless)
      * @param xOut           receives the propagated state (may not alias {@code x})
      * @param fOut           receives F, row-major SIZE x SIZE, or null when not wanted
      * @param inputOut       receives d(east, north, yaw)/d(wheel speed) in [0..2] and
-     *                       d(east, north, yaw)/d(yaw rate) in [3..5], or null when not wanted
+     *                       d(east, north, yaw)/d(yaw-rate reading) in [3..5], or null when not wanted
      */
     public static void step(double[] x, double wheelSpeedMps, double yawRateRadPerS, double dtS,
                             boolean standstill, double gnssDecay, double[] xOut, double[] fOut,
                             double[] inputOut) {
         double yaw = x[YAW];
         double scale = x[SPEED_SCALE];
-        double omega = standstill ? 0.0 : yawRateRadPerS - x[GYRO_BIAS];
+        double gyroScale = x[GYRO_SCALE];
+        double unbiased = yawRateRadPerS - x[GYRO_BIAS];
+        double omega = standstill ? 0.0 : gyroScale * unbiased;
         double theta = omega * dtS;
         double f1;
         double f2;
@@ -90,10 +109,13 @@ public final class MotionModel {
         xOut[GNSS_ERR_EAST] = gnssDecay * x[GNSS_ERR_EAST];
         xOut[GNSS_ERR_NORTH] = gnssDecay * x[GNSS_ERR_NORTH];
 
-        // d(dEast, dNorth)/d(theta): needed for the bias column and the yaw-rate input.
+        // d(dEast, dNorth)/d(theta): needed for the bias and gyro-scale columns and the yaw-rate input.
         double dEastDTheta = dist * (c * df1 - s * df2);
         double dNorthDTheta = dist * (s * df1 + c * df2);
-        double dThetaDRate = standstill ? 0.0 : dtS;
+        // theta = g (r - b) dt: its derivatives by the bias, the gyro scale and the reading.
+        double dThetaDBias = standstill ? 0.0 : -gyroScale * dtS;
+        double dThetaDScale = standstill ? 0.0 : unbiased * dtS;
+        double dThetaDRate = standstill ? 0.0 : gyroScale * dtS;
 
         if (fOut != null) {
             java.util.Arrays.fill(fOut, 0.0);
@@ -102,10 +124,12 @@ public final class MotionModel {
             }
             fOut[EAST * SIZE + YAW] = -dNorth;
             fOut[NORTH * SIZE + YAW] = dEast;
-            // theta = (rate - bias) dt, so d/d(bias) = -dt d/d(theta).
-            fOut[EAST * SIZE + GYRO_BIAS] = -dThetaDRate * dEastDTheta;
-            fOut[NORTH * SIZE + GYRO_BIAS] = -dThetaDRate * dNorthDTheta;
-            fOut[YAW * SIZE + GYRO_BIAS] = -dThetaDRate;
+            fOut[EAST * SIZE + GYRO_BIAS] = dThetaDBias * dEastDTheta;
+            fOut[NORTH * SIZE + GYRO_BIAS] = dThetaDBias * dNorthDTheta;
+            fOut[YAW * SIZE + GYRO_BIAS] = dThetaDBias;
+            fOut[EAST * SIZE + GYRO_SCALE] = dThetaDScale * dEastDTheta;
+            fOut[NORTH * SIZE + GYRO_SCALE] = dThetaDScale * dNorthDTheta;
+            fOut[YAW * SIZE + GYRO_SCALE] = dThetaDScale;
             fOut[EAST * SIZE + SPEED_SCALE] = wheelSpeedMps * dtS * ce;
             fOut[NORTH * SIZE + SPEED_SCALE] = wheelSpeedMps * dtS * cn;
             fOut[GNSS_ERR_EAST * SIZE + GNSS_ERR_EAST] = gnssDecay;

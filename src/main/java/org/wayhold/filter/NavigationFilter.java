@@ -1,11 +1,13 @@
 package org.wayhold.filter;
 
-import org.wayhold.filter.FilterState.Slot;
-
 import static org.wayhold.filter.StateIndex.EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
+import static org.wayhold.filter.StateIndex.GNSS_LATENCY;
 import static org.wayhold.filter.StateIndex.GYRO_BIAS;
+import static org.wayhold.filter.StateIndex.GYRO_SCALE;
+import static org.wayhold.filter.StateIndex.LEVER_FORWARD;
+import static org.wayhold.filter.StateIndex.LEVER_LEFT;
 import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
@@ -14,6 +16,7 @@ import static org.wayhold.filter.StateIndex.YAW;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import org.wayhold.filter.FilterState.Slot;
 import org.wayhold.geo.Angles;
 import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
@@ -32,8 +35,9 @@ import org.wayhold.settings.VehicleProfile;
  *   <li>{@link JosephUpdate}: gain and Joseph-form correction; the measurement models
  *       {@link PositionFix}, {@link CourseSpeed}, {@link ZeroRate} supply h, H and R;
  *       {@link GnssNoise}: how much a fix is believed; {@link HeightChannel}: the height;</li>
- *   <li>the decisions: {@link Standstill}, {@link Alignment} (initial yaw, resets),
- *       {@link Reacquisition} (gating and agreement after gaps).</li>
+ *   <li>the decisions: {@link Standstill} (standstill or creeping), {@link Alignment} (initial yaw,
+ *       resets), {@link Reacquisition} (gating, agreement after gaps, jumps), {@link FixConsistency}
+ *       (fixes against the odometry), {@link InnovationMonitor} (sustained disagreement).</li>
  * </ul>
  *
  * <p>Events must arrive in time order (the {@code ordering} package sees to that). Each event first
@@ -46,6 +50,30 @@ public final class NavigationFilter {
 
     /** Steps longer than this are split, so the linearised covariance stays close (s). */
     private static final double MAX_STEP_S = 0.1;
+    /** Readings beyond these are no vehicle's: refused rather than let into the state (m/s, rad/s). */
+    private static final double MAX_WHEEL_SPEED_MPS = 150.0;
+    private static final double MAX_YAW_RATE_RAD_PER_S = 10.0;
+    /**
+     * Time constant of the speed the wheel-speed scale is taken to be learnt at (s): GNSS fixes bring
+     * the scale to the speeds of about the last minute.
+     */
+    private static final double SCALE_REFERENCE_TIME_S = 60.0;
+    /**
+     * Held fixes that keep disagreeing for this long mean the estimate itself is off (a heading that
+     * went wrong while creeping, say): position and yaw are widened so the fixes can agree (s).
+     */
+    private static final double REACQUIRE_PATIENCE_S = 10.0;
+    private static final double PATIENCE_WIDENING = 4.0;
+    /** A fix whose sigma its geometry raised by more than this factor is reported as weak. */
+    private static final double WEAK_FIX_FACTOR = 1.2;
+    /** Reasons about a widening, an inconsistency or weak fixes are shown this long after it (s). */
+    private static final double REASON_HOLD_S = 30.0;
+    /** Calibration is taken as converged below these 1-sigma values (common practice). */
+    private static final double CALIBRATED_BIAS_RAD_PER_S = Math.toRadians(0.05);
+    private static final double CALIBRATED_SCALE = 0.005;
+    /** Smallest disagreement with the configured lever arm (m) and latency (s) that is reported. */
+    private static final double SUSPECTED_LEVER_M = 0.3;
+    private static final double SUSPECTED_LATENCY_S = 0.03;
 
     private final FilterSettings settings;
     private final GatingSettings gating;
@@ -54,13 +82,13 @@ public final class NavigationFilter {
 
     private final GnssNoise gnssNoise;
     private final ProcessNoise processNoise;
-    private final PositionFix position;
     private final CourseSpeed courseSpeed;
     private final ZeroRate zeroRate;
     private final HeightChannel height;
     private final Standstill standstill;
     private final Alignment alignment;
     private final Reacquisition reacquisition;
+    private final FixConsistency consistency;
     private final JosephUpdate update = new JosephUpdate();
 
     private final FilterState s;
@@ -85,13 +113,13 @@ public final class NavigationFilter {
         this.profile = profile;
         this.gnssNoise = new GnssNoise(settings);
         this.processNoise = new ProcessNoise(settings);
-        this.position = new PositionFix(profile);
-        this.courseSpeed = new CourseSpeed(settings, profile);
+        this.courseSpeed = new CourseSpeed(settings);
         this.zeroRate = new ZeroRate(settings);
         this.height = new HeightChannel(settings, profile);
         this.standstill = new Standstill(settings);
-        this.alignment = new Alignment(settings, gnssNoise, position);
+        this.alignment = new Alignment(settings, profile, gnssNoise);
         this.reacquisition = new Reacquisition(gating, outage, settings.gnssCorrelationTimeS());
+        this.consistency = new FixConsistency(settings.gnssCorrelationTimeS());
         this.s = new FilterState(reacquisition.reacquireFixes());
         s.set(Slot.CORRELATED_VAR_M2, gnssNoise.defaultCorrelatedVarM2());
     }
@@ -169,17 +197,19 @@ public final class NavigationFilter {
      * @param tRelS time (s since epoch), not before the current time
      */
     public void predictTo(double tRelS) {
-        if (Double.isNaN(s.get(Slot.T_REL))) {
+        double now = s.get(Slot.T_REL);
+        if (Double.isNaN(now)) {
             s.set(Slot.T_REL, tRelS);
             return;
         }
-        double dt = tRelS - s.get(Slot.T_REL);
+        double dt = tRelS - now;
         if (dt < 0.0) {
             throw new IllegalStateException("time went back by " + (-dt) + " s: samples must be ordered");
         }
-        double from = s.get(Slot.T_REL);
+        double from = now;
         while (dt > 0.0) {
             double step = Math.min(dt, MAX_STEP_S);
+            s.set(Slot.T_REL, from);
             propagate(step, from + 0.5 * step);
             from += step;
             dt -= step;
@@ -188,10 +218,20 @@ public final class NavigationFilter {
     }
 
     private void propagate(double dt, double tMidRel) {
+        double[] x = s.x;
         double wheel = InputHold.wheelSpeedAt(s, tMidRel);
         double rate = InputHold.yawRateAt(s, tMidRel);
-        s.set(Slot.ODOMETER_M, s.get(Slot.ODOMETER_M) + (Math.abs((s.is(Slot.INITIALIZED) ? s.x[SPEED_SCALE] : Alignment.keptScale(s)) * wheel) * dt));
-        if (!s.is(Slot.INITIALIZED)) {
+        boolean initialized = s.is(Slot.INITIALIZED);
+        double scale = initialized ? x[SPEED_SCALE] : alignment.keptScale(s);
+        double creepSigma = 0.0;
+        if (s.is(Slot.CREEPING) && initialized) {
+            // The wheels read zero but the vehicle turns, so it moves below the sensor's threshold.
+            double omega = x[GYRO_SCALE] * (rate - x[GYRO_BIAS]);
+            wheel = s.get(Slot.LAST_MOVING_SIGN) * standstill.creepSpeedMps(omega) / scale;
+            creepSigma = standstill.creepSpeedSigmaMps(omega);
+        }
+        s.set(Slot.ODOMETER_M, s.get(Slot.ODOMETER_M) + Math.abs(scale * wheel) * dt);
+        if (!initialized) {
             return;
         }
         double decay;
@@ -202,31 +242,53 @@ public final class NavigationFilter {
             decayDtS = dt;
             decayForDt = decay;
         }
-        MotionModel.step(s.x, wheel, rate, dt, s.is(Slot.STANDSTILL), decay, xNext, f, inputJac);
-        System.arraycopy(xNext, 0, s.x, 0, SIZE);
-        s.x[YAW] = Angles.wrapPi(s.x[YAW]);
+        boolean atRest = s.is(Slot.STANDSTILL);
+        MotionModel.step(x, wheel, rate, dt, atRest, decay, xNext, f, inputJac);
+        s.set(Slot.ODOMETRY_EAST_M, s.get(Slot.ODOMETRY_EAST_M) + (xNext[EAST] - x[EAST]));
+        s.set(Slot.ODOMETRY_NORTH_M, s.get(Slot.ODOMETRY_NORTH_M) + (xNext[NORTH] - x[NORTH]));
+        System.arraycopy(xNext, 0, x, 0, SIZE);
+        x[YAW] = Angles.wrapPi(x[YAW]);
         // P = F P F' + Q
         CovariancePrediction.predict(f, s.p, tmp);
-        processNoise.add(s.p, inputJac, dt, s.is(Slot.STANDSTILL), decay, s.get(Slot.CORRELATED_VAR_M2));
+        double omega = atRest ? 0.0 : x[GYRO_SCALE] * (rate - x[GYRO_BIAS]);
+        double speed = x[SPEED_SCALE] * wheel;
+        double ref = s.get(Slot.SCALE_REFERENCE_SPEED_MPS);
+        s.set(Slot.SCALE_REFERENCE_SPEED_MPS, ref + (Math.abs(speed) - ref) * Math.min(dt / SCALE_REFERENCE_TIME_S, 1.0));
+        processNoise.add(s, inputJac, dt, speed, omega, creepSigma, ref, decay);
         height.predict(s, dt);
     }
 
     /** Holds a new wheel speed from now on (m/s, signed). Call after {@link #predictTo}. */
     public void setWheelSpeed(double speedMps) {
+        if (!(Math.abs(speedMps) <= MAX_WHEEL_SPEED_MPS)) {
+            s.increment(FilterCounter.INPUTS_REFUSED);
+            return;
+        }
         InputHold.recordWheelSpeed(s, speedMps);
         standstill.onWheelSpeed(s);
     }
 
     /**
      * Holds a new yaw rate from now on (rad/s, counter-clockwise positive). Call after
-     * {@link #predictTo}. At a standstill the reading observes the gyro bias ({@link ZeroRate}).
+     * {@link #predictTo}. While the wheels read zero, {@link Standstill} decides whether the reading
+     * confirms a standstill (then it observes the gyro bias, {@link ZeroRate}) or shows a creep.
      */
     public void setYawRate(double rateRadPerS) {
-        InputHold.recordYawRate(s, rateRadPerS);
-        standstill.onYawRate(s);
-        if (s.is(Slot.INITIALIZED) && s.is(Slot.STANDSTILL)) {
-            zeroRate.update(s, update, rateRadPerS);
+        if (!(Math.abs(rateRadPerS) <= MAX_YAW_RATE_RAD_PER_S)) {
+            s.increment(FilterCounter.INPUTS_REFUSED);
+            return;
         }
+        InputHold.recordYawRate(s, rateRadPerS);
+        boolean initialized = s.is(Slot.INITIALIZED);
+        double nis = initialized && wheelsAtRest() ? zeroRate.prepare(s, update, rateRadPerS) : Double.NaN;
+        if (standstill.onYawRate(s, nis) && initialized) {
+            update.apply(s, 1);
+        }
+    }
+
+    private boolean wheelsAtRest() {
+        return Math.abs(s.get(Slot.WHEEL_SPEED_MPS)) < Standstill.ZERO_SPEED_MPS
+                && s.get(Slot.T_REL) - s.get(Slot.ZERO_SPEED_SINCE_T_REL) >= settings.standstillAfterS();
     }
 
     /**
@@ -281,34 +343,68 @@ public final class NavigationFilter {
         double sigma = gnssNoise.horizontalSigmaM(fix);
         double var = sigma * sigma;
         if (!s.is(Slot.INITIALIZED)) {
-            height.update(s, fix, upM, Math.sqrt(var));
+            height.update(s, fix, upM, sigma);
+            s.set(Slot.ANCHOR_VAR_M2, var);
             return alignment.align(s, fix, eastM, northM, var);
         }
+        double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var));
+        s.set(Slot.FIX_WEAK, extra > 0.0 || sigma > WEAK_FIX_FACTOR * reportedSigmaM(fix));
+        var += extra;
         s.set(Slot.CORRELATED_VAR_M2, gnssNoise.correlatedVarM2(var));
         double whiteVar = gnssNoise.whiteVarM2(var);
         height.update(s, fix, upM, sigma);
-        double nis = position.innovation(s, update, eastM, northM, whiteVar);
+        double t = s.get(Slot.T_REL);
+        if (Reacquisition.inProbation(s) && t - s.get(Slot.PROBATION_SINCE_T_REL) > REACQUIRE_PATIENCE_S
+                && !(t - s.get(Slot.WIDENED_T_REL) <= REACQUIRE_PATIENCE_S)) {
+            InnovationMonitor.widen(s, PATIENCE_WIDENING);
+        }
+        double wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        double nis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
         s.set(Slot.LAST_NIS, nis);
-        Reacquisition.Verdict verdict = reacquisition.decide(s, update.nu[0], update.nu[1], nis, whiteVar,
+        double nuEast = update.nu[0];
+        double nuNorth = update.nu[1];
+        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, whiteVar,
                 Alignment.calibrationPlausible(s));
-        return switch (verdict) {
+        switch (verdict) {
             case ACCEPT -> {
-                update.apply(s, 2);
-                courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
-                yield GnssOutcome.Kind.ACCEPTED;
+                if (!update.apply(s, 2)) {
+                    return GnssOutcome.Kind.GATED;
+                }
+                InnovationMonitor.record(s, nis);
             }
             case REACQUIRE -> {
-                update.apply(s, 2);
-                courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
-                yield GnssOutcome.Kind.REACQUIRED;
+                if (nis > reacquisition.gateThreshold()) {
+                    Reacquisition.widenForJump(s, nuEast, nuNorth,
+                            s.get(Slot.ODOMETER_M) - s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M));
+                    PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
+                }
+                if (!update.apply(s, 2)) {
+                    return GnssOutcome.Kind.GATED;
+                }
+                InnovationMonitor.clear(s);
             }
             case RESET -> {
                 alignment.reset(s, eastM, northM);
-                yield GnssOutcome.Kind.INITIALIZING;
+                InnovationMonitor.clear(s);
+                FixConsistency.clear(s);
+                return GnssOutcome.Kind.INITIALIZING;
             }
-            case PENDING -> GnssOutcome.Kind.PENDING;
-            case GATED -> GnssOutcome.Kind.GATED;
-        };
+            case PENDING -> {
+                return GnssOutcome.Kind.PENDING;
+            }
+            case GATED -> {
+                return GnssOutcome.Kind.GATED;
+            }
+            default -> throw new IllegalStateException("unhandled verdict " + verdict);
+        }
+        courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
+        consistency.record(s, eastM, northM, whiteVar);
+        return verdict == Reacquisition.Verdict.ACCEPT ? GnssOutcome.Kind.ACCEPTED : GnssOutcome.Kind.REACQUIRED;
+    }
+
+    /** The sigma a fix reports for itself, scaled by its type (m), before any floor. */
+    private double reportedSigmaM(GnssFix fix) {
+        return fix.hasSigmaH() ? fix.sigmaHM() * settings.fixScale(fix.fix()) : 0.0;
     }
 
     /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
@@ -344,20 +440,98 @@ public final class NavigationFilter {
         return reacquisition.gateThreshold();
     }
 
+    /** The filter's cautions now, a set of {@link Reason} bits. */
+    private int reasons() {
+        int r = 0;
+        double t = s.get(Slot.T_REL);
+        boolean hasWheel = s.is(Slot.HAS_WHEEL_SPEED);
+        boolean hasRate = s.is(Slot.HAS_YAW_RATE);
+        if (!hasWheel || !hasRate) {
+            r |= Reason.ODOMETRY_MISSING.bit();
+        }
+        if ((hasWheel && InputHold.wheelGapS(s, t) > 0.0) || (hasRate && InputHold.yawRateGapS(s, t) > 0.0)) {
+            r |= Reason.ODOMETRY_INTERRUPTED.bit();
+        }
+        if (s.is(Slot.CREEPING)) {
+            r |= Reason.CREEPING.bit();
+        }
+        if (!s.is(Slot.INITIALIZED)) {
+            return r | Reason.HEADING_UNKNOWN.bit();
+        }
+        if (t - s.get(Slot.INCONSISTENT_T_REL) <= REASON_HOLD_S
+                && s.get(Slot.INCONSISTENCY_VAR_M2) > FixConsistency.REPORTED_VAR_M2) {
+            r |= Reason.FIXES_INCONSISTENT.bit();
+        }
+        if (s.is(Slot.FIX_WEAK) && t - s.get(Slot.LAST_FIX_T_REL) <= outage.gapS()) {
+            r |= Reason.FIX_QUALITY_POOR.bit();
+        }
+        if (t - s.get(Slot.WIDENED_T_REL) <= REASON_HOLD_S) {
+            r |= Reason.COVARIANCE_WIDENED.bit();
+        }
+        double[] x = s.x;
+        double[] p = s.p;
+        if (variance(p, GYRO_BIAS) > CALIBRATED_BIAS_RAD_PER_S * CALIBRATED_BIAS_RAD_PER_S
+                || variance(p, SPEED_SCALE) > CALIBRATED_SCALE * CALIBRATED_SCALE
+                || variance(p, GYRO_SCALE) > CALIBRATED_SCALE * CALIBRATED_SCALE) {
+            r |= Reason.CALIBRATING.bit();
+        }
+        if (suspect(x, p, LEVER_FORWARD, SUSPECTED_LEVER_M) || suspect(x, p, LEVER_LEFT, SUSPECTED_LEVER_M)) {
+            r |= Reason.ANTENNA_OFFSET_SUSPECTED.bit();
+        }
+        if (suspect(x, p, GNSS_LATENCY, SUSPECTED_LATENCY_S)) {
+            r |= Reason.LATENCY_SUSPECTED.bit();
+        }
+        return r;
+    }
+
+    private static double variance(double[] p, int i) {
+        return Math.max(p[i * SIZE + i], 0.0);
+    }
+
+    /** True when a state has moved from its configured value by more than 3 sigma and {@code least}. */
+    private boolean suspect(double[] x, double[] p, int i, double least) {
+        double off = Math.abs(x[i] - alignment.prior(i));
+        return off > least && off > 3.0 * Math.sqrt(variance(p, i));
+    }
+
     /** An immutable copy of the current estimate. */
     public FilterSnapshot snapshot() {
         double[] x = s.x;
         double[] p = s.p;
-        double speed = x[SPEED_SCALE] * s.get(Slot.WHEEL_SPEED_MPS);
-        double rate = s.is(Slot.STANDSTILL) || !s.is(Slot.HAS_YAW_RATE) ? 0.0 : s.get(Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
+        boolean initialized = s.is(Slot.INITIALIZED);
+        boolean atRest = s.is(Slot.STANDSTILL);
+        double wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        double rate = atRest || !s.is(Slot.HAS_YAW_RATE) ? 0.0
+                : x[GYRO_SCALE] * (s.get(Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS]);
+        double east = x[EAST];
+        double north = x[NORTH];
+        double ee = p[EAST * SIZE + EAST];
+        double en = p[EAST * SIZE + NORTH];
+        double nn = p[NORTH * SIZE + NORTH];
+        if (!initialized) {
+            // No state yet: the newest fix and its accuracy, or nothing.
+            east = s.get(Slot.ANCHOR_EAST_M);
+            north = s.get(Slot.ANCHOR_NORTH_M);
+            double v = Double.isNaN(east) ? Double.NaN : s.get(Slot.ANCHOR_VAR_M2);
+            ee = v;
+            en = Double.isNaN(v) ? Double.NaN : 0.0;
+            nn = v;
+        }
         GnssOutcome.Kind lastKind = s.lastKind();
-        return new FilterSnapshot(s.get(Slot.T_REL), s.is(Slot.INITIALIZED), x[EAST], x[NORTH],
-                Double.isFinite(s.get(Slot.VAR_UP_M2)) ? s.get(Slot.UP_M) : 0.0, x[YAW], x[GYRO_BIAS], s.is(Slot.INITIALIZED) ? x[SPEED_SCALE] : 1.0,
-                x[GNSS_ERR_EAST], x[GNSS_ERR_NORTH], p[EAST * SIZE + EAST], p[EAST * SIZE + NORTH],
-                p[NORTH * SIZE + NORTH], p[YAW * SIZE + YAW], p[GYRO_BIAS * SIZE + GYRO_BIAS],
-                p[SPEED_SCALE * SIZE + SPEED_SCALE], Double.isFinite(s.get(Slot.VAR_UP_M2)) ? s.get(Slot.VAR_UP_M2) : Double.NaN,
-                s.is(Slot.INITIALIZED) ? speed : s.get(Slot.WHEEL_SPEED_MPS), rate, s.is(Slot.STANDSTILL), s.get(Slot.ODOMETER_M), s.get(Slot.LAST_USED_FIX_T_REL),
-                s.get(Slot.LAST_FIX_T_REL), lastKind == null ? null : outcome(lastKind, s.get(Slot.LAST_NIS)), s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M),
-                s.counts());
+        double varUp = s.get(Slot.VAR_UP_M2);
+        return new FilterSnapshot(s.get(Slot.T_REL), initialized, east, north,
+                Double.isFinite(varUp) ? s.get(Slot.UP_M) : 0.0, x[YAW], x[GYRO_BIAS],
+                initialized ? x[SPEED_SCALE] : alignment.prior(SPEED_SCALE),
+                initialized ? x[GYRO_SCALE] : alignment.prior(GYRO_SCALE), x[GNSS_ERR_EAST], x[GNSS_ERR_NORTH],
+                initialized ? x[LEVER_FORWARD] : alignment.prior(LEVER_FORWARD),
+                initialized ? x[LEVER_LEFT] : alignment.prior(LEVER_LEFT),
+                initialized ? x[GNSS_LATENCY] : alignment.prior(GNSS_LATENCY), ee, en, nn,
+                initialized ? p[YAW * SIZE + YAW] : Double.NaN, p[GYRO_BIAS * SIZE + GYRO_BIAS],
+                p[SPEED_SCALE * SIZE + SPEED_SCALE], p[GYRO_SCALE * SIZE + GYRO_SCALE],
+                Double.isFinite(varUp) ? varUp : Double.NaN,
+                initialized ? x[SPEED_SCALE] * wheel : wheel, rate, atRest, s.get(Slot.ODOMETER_M),
+                s.get(Slot.LAST_USED_FIX_T_REL), s.get(Slot.LAST_FIX_T_REL),
+                lastKind == null ? null : outcome(lastKind, s.get(Slot.LAST_NIS)),
+                s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M), reasons(), s.counts());
     }
 }

@@ -2,6 +2,8 @@ package org.wayhold.filter;
 
 import org.wayhold.filter.FilterState.Slot;
 
+import static org.wayhold.filter.StateIndex.EAST;
+import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
 import static org.wayhold.filter.StateIndex.YAW;
@@ -15,9 +17,10 @@ import org.wayhold.settings.OutageSettings;
  * <p>A fix inside the chi-square gate corrects the state. After a gap (no used fix for longer than
  * {@code outage.gap_s}) or after a gated fix, fixes are held until {@code gating.reacquire_fixes}
  * consecutive ones agree with each other, so a single outlier or erratic multipath cannot yank the
- * pose; then the newest is applied whatever the gate says, so a filter that drifted further than its
- * covariance admits is pulled back. Agreeing fixes further than {@link #RESET_NIS} outside the
- * covariance (or with an implausible calibration) restart position and yaw instead.
+ * pose; then the newest is applied, after {@link #widenForJump} has moved the covariance to cover the
+ * jump when it lies outside the gate, so a filter that drifted further than its covariance admits is
+ * pulled back and says so. Agreeing fixes further than {@link #RESET_NIS} outside the covariance (or
+ * with an implausible calibration) restart position and yaw instead.
  */
 final class Reacquisition {
 
@@ -82,8 +85,7 @@ final class Reacquisition {
     Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
                    boolean calibrationPlausible) {
         if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
-            s.set(Slot.PROBATION, Probation.AFTER_GAP.ordinal());
-            s.set(Slot.PENDING_COUNT, 0);
+            begin(s, Probation.AFTER_GAP);
         }
         boolean passes = nis <= gateThreshold;
         Probation probation = PROBATIONS[s.whole(Slot.PROBATION)];
@@ -92,8 +94,7 @@ final class Reacquisition {
                 end(s);
                 return Verdict.ACCEPT;
             }
-            s.set(Slot.PROBATION, Probation.AFTER_GATE.ordinal());
-            s.set(Slot.PENDING_COUNT, 0);
+            begin(s, Probation.AFTER_GATE);
             hold(s, nuEastM, nuNorthM, whiteVar);
             return Verdict.GATED;
         }
@@ -108,6 +109,47 @@ final class Reacquisition {
         }
         return passes || probation == Probation.AFTER_GAP ? Verdict.PENDING : Verdict.GATED;
     }
+
+    private static void begin(FilterState s, Probation why) {
+        s.set(Slot.PROBATION, why.ordinal());
+        s.set(Slot.PENDING_COUNT, 0);
+        s.set(Slot.PROBATION_SINCE_T_REL, s.get(Slot.T_REL));
+    }
+
+    /** True while fixes are held back. */
+    static boolean inProbation(FilterState s) {
+        return s.whole(Slot.PROBATION) != Probation.NONE.ordinal();
+    }
+
+    /**
+     * Moves the covariance to a jump before a reacquisition applies it: the innovation nu is added to
+     * the position block as nu nu' (rank one, so P stays positive semi-definite), and its cross-track
+     * part over the distance driven since the last used fix, the heading error that would explain it,
+     * to the yaw's variance. The update that follows then moves the position to the fixes instead of
+     * parking the jump in the correlated GNSS error states, whose prior is a metre or so, and the
+     * covariance after it says how little the filter knew.
+     *
+     * @param drivenM distance driven since the last used fix (m)
+     */
+    static void widenForJump(FilterState s, double nuEastM, double nuNorthM, double drivenM) {
+        double[] p = s.p;
+        p[EAST * SIZE + EAST] += nuEastM * nuEastM;
+        p[EAST * SIZE + NORTH] += nuEastM * nuNorthM;
+        p[NORTH * SIZE + EAST] += nuEastM * nuNorthM;
+        p[NORTH * SIZE + NORTH] += nuNorthM * nuNorthM;
+        if (drivenM > MIN_HEADING_BASE_M) {
+            double cross = -nuEastM * Math.sin(s.x[YAW]) + nuNorthM * Math.cos(s.x[YAW]);
+            double dPsi = Math.min(Math.abs(cross) / drivenM, MAX_HEADING_JUMP_RAD);
+            p[YAW * SIZE + YAW] += dPsi * dPsi;
+        }
+        s.increment(FilterCounter.COVARIANCE_WIDENINGS);
+        s.set(Slot.WIDENED_T_REL, s.get(Slot.T_REL));
+    }
+
+    /** Shortest drive over which a jump's cross-track part is read as a heading error (m). */
+    private static final double MIN_HEADING_BASE_M = 10.0;
+    /** Largest heading error a jump may add (rad): 30 degrees; a larger one needs a reset. */
+    private static final double MAX_HEADING_JUMP_RAD = Math.toRadians(30.0);
 
     /** Ends any probation and forgets the held fixes. */
     static void end(FilterState s) {

@@ -20,13 +20,16 @@ final class ZeroRate {
         this.varRad2PerS2 = Math.max(sigma * sigma, 1e-12);
     }
 
-    /** Corrects the bias with one reading taken at a standstill (rad/s). */
-    void update(FilterState s, JosephUpdate u, double rateRadPerS) {
+    /**
+     * Prepares a reading (rad/s) as a measurement of the bias and returns its normalised innovation
+     * squared; {@link JosephUpdate#apply}(s, 1) then applies it.
+     */
+    double prepare(FilterState s, JosephUpdate u, double rateRadPerS) {
         Arrays.fill(u.h, 0, SIZE, 0.0);
         u.h[GYRO_BIAS] = 1.0;
         u.r[0] = varRad2PerS2;
         u.nu[0] = rateRadPerS - s.x[GYRO_BIAS];
         u.prepare(s.p, 1);
-        u.apply(s, 1);
+        return u.nis1();
     }
 }

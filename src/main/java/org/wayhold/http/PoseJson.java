@@ -20,8 +20,9 @@ import org.wayhold.pose.Pose;
  * from true north, [0, 180)), {@code state} (wire name), {@code outage} {@code active, since (s or
  * null), seconds, meters}, {@code gyro_bias} (rad/s), {@code speed_scale} (unitless), {@code origin}
  * {@code lat, lon, alt} (null before the first fix). Additions beyond the contract's list:
- * {@code radius95} (m, the 95% horizontal radius the alert limit is checked against, equal to the
- * ellipse's semi-major axis), {@code heading_sigma_deg} (degrees, 1-sigma of the heading),
+ * {@code radius95} (m, the radius of the circle holding the position with 95% probability, computed from
+ * {@code cov}; the alert limit is checked against it), {@code reasons} (codes of
+ * {@link org.wayhold.filter.Reason}, empty when there is nothing to say), {@code heading_sigma_deg} (degrees, 1-sigma of the heading),
  * {@code last_fix_t} (s, vehicle clock, the last fix that corrected the estimate; null before one) and
  * {@code alert_limit} (m, the radius beyond which the state turns unreliable without a fix). In a
  * track requested with {@code crs}, {@code x} and {@code y} give the position in that CRS's units.
@@ -99,6 +100,11 @@ final class PoseJson {
         g.writeEndObject();
         number(g, "radius95", p.radius95M());
         g.writeStringField("state", p.state().wireName());
+        g.writeArrayFieldStart("reasons");
+        for (org.wayhold.filter.Reason r : p.reasonList()) {
+            g.writeString(r.wireName());
+        }
+        g.writeEndArray();
         g.writeObjectFieldStart("outage");
         g.writeBooleanField("active", p.outage().active());
         number(g, "since", p.outage().active() ? p.outage().sinceT() : Double.NaN);

@@ -20,8 +20,12 @@ public record Ellipse95(double semiMajorM, double semiMinorM, double orientation
     /** Chi-square quantile for 95% with 2 degrees of freedom. */
     public static final double SCALE_2DOF_95 = ChiSquare.quantile2Dof(0.95);
 
+    /** The ellipse of a position not known yet: every field NaN (null in JSON). */
+    public static final Ellipse95 UNKNOWN = new Ellipse95(Double.NaN, Double.NaN, Double.NaN);
+
     public Ellipse95 {
-        if (!(semiMajorM >= semiMinorM && semiMinorM >= 0.0)) {
+        boolean unknown = Double.isNaN(semiMajorM) && Double.isNaN(semiMinorM) && Double.isNaN(orientationDeg);
+        if (!unknown && !(semiMajorM >= semiMinorM && semiMinorM >= 0.0)) {
             throw new IllegalArgumentException("semi axes: need semi_major >= semi_minor >= 0 m, were "
                     + semiMajorM + " and " + semiMinorM);
         }
@@ -33,8 +37,12 @@ public record Ellipse95(double semiMajorM, double semiMinorM, double orientation
      * @param covEastEastM2   variance of east (m^2)
      * @param covEastNorthM2  covariance of east and north (m^2)
      * @param covNorthNorthM2 variance of north (m^2)
+     * @return the ellipse, {@link #UNKNOWN} when the covariance is not finite
      */
     public static Ellipse95 of(double covEastEastM2, double covEastNorthM2, double covNorthNorthM2) {
+        if (!(Double.isFinite(covEastEastM2) && Double.isFinite(covEastNorthM2) && Double.isFinite(covNorthNorthM2))) {
+            return UNKNOWN;
+        }
         double mean = 0.5 * (covEastEastM2 + covNorthNorthM2);
         double half = 0.5 * (covEastEastM2 - covNorthNorthM2);
         double root = Math.hypot(half, covEastNorthM2);

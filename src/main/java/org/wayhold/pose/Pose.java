@@ -27,15 +27,24 @@ import org.wayhold.geo.Geodetic;
  * @param origin            origin of the session's ENU frame, null before the first fix
  * @param lastFixT          time of the last fix that corrected the estimate (s, vehicle clock), NaN if none
  * @param alertLimitM       95% radius beyond which the pose is {@code unreliable} without a fix (m)
+ * @param radius95M         radius of the circle holding the position with 95% probability (m, {@link Radius95}),
+ *                          NaN when the position is not known
+ * @param reasons           why the pose deserves caution, a set of {@link org.wayhold.filter.Reason} bits
  */
 public record Pose(double t, double latDeg, double lonDeg, double altM, double eastM, double northM, double upM,
                    double headingDeg, double speedMps, double yawRateRadPerS, double covEastEastM2,
                    double covEastNorthM2, double covNorthNorthM2, double headingSigmaDeg, Ellipse95 ellipse95,
                    NavState state, Outage outage, double gyroBiasRadPerS, double speedScale, Geodetic origin,
-                   double lastFixT, double alertLimitM) {
+                   double lastFixT, double alertLimitM, double radius95M, int reasons) {
 
-    /** The 95% horizontal radius the alert limit is checked against: the ellipse's semi-major axis (m). */
-    public double radius95M() {
-        return ellipse95.semiMajorM();
+    /** The reasons, in the vocabulary's order. */
+    public java.util.List<org.wayhold.filter.Reason> reasonList() {
+        java.util.List<org.wayhold.filter.Reason> out = new java.util.ArrayList<>();
+        for (org.wayhold.filter.Reason r : org.wayhold.filter.Reason.values()) {
+            if (r.in(reasons)) {
+                out.add(r);
+            }
+        }
+        return out;
     }
 }

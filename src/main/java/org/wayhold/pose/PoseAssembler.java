@@ -2,19 +2,22 @@ package org.wayhold.pose;
 
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.GnssOutcome;
+import org.wayhold.filter.Reason;
 import org.wayhold.geo.Angles;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
 import org.wayhold.settings.OutageSettings;
 
 /**
- * Turns a filter snapshot into a pose: navigation state, outage, ellipse, geodetic position.
+ * Turns a filter snapshot into a pose: navigation state, outage, ellipse, 95% radius, reasons,
+ * geodetic position.
  *
  * <p>The state follows the contract: {@code initializing} until a position and a yaw exist;
- * {@code aided} while the last usable fix is at most the gap old and the last fix was not rejected;
- * {@code degraded} while fixes arrive but are rejected or unusable; {@code bridging} while no usable
- * fix has come for longer than the gap and the 95% radius is within the alert limit; {@code unreliable}
- * once that radius passes the alert limit with no usable fix.
+ * {@code aided} while the last usable fix is at most the gap old, the last fix was not rejected and
+ * the fixes agree with the odometry; {@code degraded} while fixes arrive but are rejected, unusable or
+ * inconsistent with the odometry; {@code bridging} while no usable fix has come for longer than the
+ * gap and the 95% radius ({@link Radius95}) is within the alert limit; {@code unreliable} once that
+ * radius passes the alert limit with no usable fix.
  */
 public final class PoseAssembler {
 
@@ -24,8 +27,8 @@ public final class PoseAssembler {
         this.outage = outage;
     }
 
-    /** The navigation state of a snapshot with its ellipse. */
-    public NavState classify(FilterSnapshot s, Ellipse95 ellipse) {
+    /** The navigation state of a snapshot with its 95% radius (m). */
+    public NavState classify(FilterSnapshot s, double radius95M) {
         if (!s.initialized()) {
             return NavState.INITIALIZING;
         }
@@ -35,12 +38,36 @@ public final class PoseAssembler {
                 || s.lastOutcome().kind() == GnssOutcome.Kind.UNUSABLE);
         boolean fixesArriving = s.tRel() - s.lastFixTRel() <= outage.gapS();
         if (sinceUsed <= outage.gapS()) {
-            return lastRejected ? NavState.DEGRADED : NavState.AIDED;
+            return lastRejected || Reason.FIXES_INCONSISTENT.in(s.reasons()) ? NavState.DEGRADED : NavState.AIDED;
         }
-        if (ellipse.semiMajorM() > outage.alertLimitM()) {
+        if (!(radius95M <= outage.alertLimitM())) {
             return NavState.UNRELIABLE;
         }
         return lastRejected && fixesArriving ? NavState.DEGRADED : NavState.BRIDGING;
+    }
+
+    /** The navigation state of a snapshot. */
+    public NavState classify(FilterSnapshot s) {
+        return classify(s, Radius95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2()));
+    }
+
+    /** The reasons of a snapshot: the filter's, and those of the fixes' arrival. */
+    public int reasons(FilterSnapshot s) {
+        int r = s.reasons();
+        if (!s.initialized()) {
+            return r;
+        }
+        double sinceUsed = s.tRel() - s.lastUsedFixTRel();
+        if (sinceUsed > outage.gapS()) {
+            r |= Reason.NO_FIX.bit();
+        }
+        GnssOutcome last = s.lastOutcome();
+        if (last != null && s.tRel() - s.lastFixTRel() <= outage.gapS()
+                && (last.kind() == GnssOutcome.Kind.GATED || last.kind() == GnssOutcome.Kind.PENDING
+                || last.kind() == GnssOutcome.Kind.UNUSABLE)) {
+            r |= Reason.FIXES_REJECTED.bit();
+        }
+        return r;
     }
 
     /**
@@ -52,7 +79,8 @@ public final class PoseAssembler {
      */
     public Pose assemble(FilterSnapshot s, double epochT, LocalFrame frame) {
         Ellipse95 ellipse = Ellipse95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2());
-        NavState state = classify(s, ellipse);
+        double radius = Radius95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2());
+        NavState state = classify(s, radius);
         Outage out = Outage.NONE;
         if (s.initialized() && s.tRel() - s.lastUsedFixTRel() > outage.gapS()) {
             out = new Outage(true, epochT + s.lastUsedFixTRel(), s.tRel() - s.lastUsedFixTRel(),
@@ -62,17 +90,20 @@ public final class PoseAssembler {
         double lon = Double.NaN;
         double alt = Double.NaN;
         Geodetic origin = null;
-        if (frame != null) {
+        if (frame != null && Double.isFinite(s.eastM()) && Double.isFinite(s.northM())) {
             Geodetic g = frame.toGeodetic(s.eastM(), s.northM(), s.upM());
             lat = g.latDeg();
             lon = g.lonDeg();
             alt = g.altM();
+        }
+        if (frame != null) {
             origin = frame.origin();
         }
         double headingSigmaDeg = Math.toDegrees(Math.sqrt(Math.max(s.varYawRad2(), 0.0)));
-        return new Pose(epochT + s.tRel(), lat, lon, alt, s.eastM(), s.northM(), s.upM(),
-                Angles.yawRadToHeadingDeg(s.yawRad()), s.speedMps(), s.yawRateRadPerS(), s.covEastEastM2(),
-                s.covEastNorthM2(), s.covNorthNorthM2(), headingSigmaDeg, ellipse, state, out,
-                s.gyroBiasRadPerS(), s.speedScale(), origin, epochT + s.lastUsedFixTRel(), outage.alertLimitM());
+        double headingDeg = s.initialized() ? Angles.yawRadToHeadingDeg(s.yawRad()) : Double.NaN;
+        return new Pose(epochT + s.tRel(), lat, lon, alt, s.eastM(), s.northM(), s.upM(), headingDeg,
+                s.speedMps(), s.yawRateRadPerS(), s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2(),
+                s.initialized() ? headingSigmaDeg : Double.NaN, ellipse, state, out, s.gyroBiasRadPerS(),
+                s.speedScale(), origin, epochT + s.lastUsedFixTRel(), outage.alertLimitM(), radius, reasons(s));
     }
 }

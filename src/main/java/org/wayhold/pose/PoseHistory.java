@@ -14,7 +14,7 @@ import org.wayhold.geo.Geodetic;
  * that owns it serialises access.
  *
  * <p>Poses are held as columns of primitives, not as objects: a {@link Pose} with its ellipse and
- * outage records takes about 220 bytes of heap on a 64-bit JVM with compressed references, its 24
+ * outage records takes about 220 bytes of heap on a 64-bit JVM with compressed references, its 26
  * doubles, flags and origin reference here about 197, and the session's poses dominate its memory.
  * Reads build the records again from the same bits, so a pose reads back equal to the one added (NaN
  * payloads included). The columns grow with the content up to the capacity, so a new session does
@@ -23,7 +23,7 @@ import org.wayhold.geo.Geodetic;
 public final class PoseHistory {
 
     /** Doubles stored per pose, in the order of {@link #put} and {@link #get}. */
-    private static final int STRIDE = 24;
+    private static final int STRIDE = 26;
     /** Poses the columns hold before the first growth. */
     private static final int INITIAL_SLOTS = 64;
     private static final int ACTIVE_BIT = 0x80;
@@ -94,6 +94,8 @@ public final class PoseHistory {
         v[o + 21] = p.speedScale();
         v[o + 22] = p.lastFixT();
         v[o + 23] = p.alertLimitM();
+        v[o + 24] = p.radius95M();
+        v[o + 25] = p.reasons();
         flags[slot] = (byte) (p.state().ordinal() | (p.outage().active() ? ACTIVE_BIT : 0));
         origins[slot] = p.origin();
     }
@@ -107,7 +109,8 @@ public final class PoseHistory {
         Outage outage = new Outage((f & ACTIVE_BIT) != 0, v[o + 17], v[o + 18], v[o + 19]);
         return new Pose(v[o], v[o + 1], v[o + 2], v[o + 3], v[o + 4], v[o + 5], v[o + 6], v[o + 7], v[o + 8],
                 v[o + 9], v[o + 10], v[o + 11], v[o + 12], v[o + 13], new Ellipse95(v[o + 14], v[o + 15], v[o + 16]),
-                STATES[f & ~ACTIVE_BIT], outage, v[o + 20], v[o + 21], origins[slot], v[o + 22], v[o + 23]);
+                STATES[f & ~ACTIVE_BIT], outage, v[o + 20], v[o + 21], origins[slot], v[o + 22], v[o + 23], v[o + 24],
+                (int) v[o + 25]);
     }
 
     private int slotOf(int i) {

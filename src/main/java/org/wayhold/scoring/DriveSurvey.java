@@ -6,7 +6,6 @@ import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.pipeline.TrackOutput;
 import org.wayhold.pipeline.VehicleTrack;
-import org.wayhold.pose.Ellipse95;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.PoseAssembler;
 import org.wayhold.sample.GnssFix;
@@ -167,8 +166,7 @@ public final class DriveSurvey {
         }
 
         void observe(double t, FilterSnapshot s) {
-            NavState state = assembler.classify(s,
-                    Ellipse95.of(s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2()));
+            NavState state = assembler.classify(s);
             if (state == NavState.AIDED) {
                 if (Double.isNaN(since)) {
                     since = t;

@@ -10,6 +10,7 @@ import org.wayhold.pipeline.VehicleTrack;
 import org.wayhold.pose.Ellipse95;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.PoseAssembler;
+import org.wayhold.pose.Radius95;
 import org.wayhold.sample.Sample;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
@@ -70,7 +71,7 @@ public final class OutageReplay {
      * @param refEastM   reference east (m)
      * @param refNorthM  reference north (m)
      * @param errorM     horizontal error (m)
-     * @param radius95M  95% radius (semi-major axis of the ellipse, m)
+     * @param radius95M  95% horizontal radius (m, {@link Radius95})
      */
     public record TracePoint(double t, double eastM, double northM, double refEastM, double refNorthM,
                              double errorM, double radius95M) {
@@ -272,12 +273,12 @@ public final class OutageReplay {
                 inside++;
             }
             maxError = Math.max(maxError, err);
-            Ellipse95 ellipse = Ellipse95.of(a, b, c);
+            double radius = Radius95.of(a, b, c);
             double elapsed = t - window.startT();
             if (Double.isNaN(timeToAlert) && err > settings.outage().alertLimitM()) {
                 timeToAlert = elapsed;
             }
-            if (Double.isNaN(timeToUnreliable) && assembler.classify(s, ellipse) == NavState.UNRELIABLE) {
+            if (Double.isNaN(timeToUnreliable) && assembler.classify(s, radius) == NavState.UNRELIABLE) {
                 timeToUnreliable = elapsed;
             }
             lastErrEast = de;
@@ -289,7 +290,7 @@ public final class OutageReplay {
             lastRefEastFinal = refEast;
             lastRefNorthFinal = refNorth;
             if (trace != null) {
-                trace.add(new TracePoint(t, estEast, estNorth, refEast, refNorth, err, ellipse.semiMajorM()));
+                trace.add(new TracePoint(t, estEast, estNorth, refEast, refNorth, err, radius));
             }
         }
 

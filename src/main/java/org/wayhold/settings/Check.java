@@ -81,6 +81,15 @@ public final class Check {
         }
     }
 
+    /** A finite value within [min, max] of unit. */
+    public static double within(String key, double value, double min, double max, String unit) {
+        if (!(value >= min && value <= max)) {
+            throw new IllegalArgumentException(key + ": must lie in [" + min + ", " + max + "]"
+                    + (unit == null || unit.isEmpty() ? "" : " " + unit) + ", was " + value);
+        }
+        return value;
+    }
+
     private static String of(String unit) {
         return unit == null ? "" : " of " + unit;
     }

@@ -27,6 +27,17 @@ import org.wayhold.sample.FixType;
  * @param gnssCourseSigmaDeg            1-sigma of a GNSS course at gnssVelocityMinSpeedMps, shrinking with 1/speed (deg)
  * @param standstillAfterS              wheel speed must stay zero this long before a standstill update (s)
  * @param headingInitMinDistanceM       displacement between fixes needed to take an initial yaw from them (m)
+ * @param initialGyroScaleSigma         1-sigma of the gyro scale factor before calibration (unitless)
+ * @param gyroScaleRandomWalkPerSqrtS   random walk of the gyro scale factor (1 per sqrt(s))
+ * @param gyroRateProportionalNoise     1-sigma of yaw-rate errors proportional to the rate that no state
+ *                                      models: mounting misalignment, body roll and pitch, timing (unitless)
+ * @param sideslipRadPerMps2            sideslip angle of the reference point per lateral acceleration, as
+ *                                      1-sigma of the unmodelled drift of the velocity off the yaw (rad per m/s^2)
+ * @param wheelSpeedZeroBelowMps        wheel-speed sensors read zero below this speed (m/s): the speed of a
+ *                                      vehicle creeping while its wheels read zero
+ * @param minTurnRadiusM                smallest turn radius of the reference point (m): a vehicle turning at
+ *                                      omega moves at least omega times this
+ * @param gnssHdopFloorM                a fix's 1-sigma is at least its HDOP times this (m)
  */
 public record FilterSettings(
         double wheelSpeedNoiseMps,
@@ -48,7 +59,14 @@ public record FilterSettings(
         double gnssSpeedSigmaMps,
         double gnssCourseSigmaDeg,
         double standstillAfterS,
-        double headingInitMinDistanceM) {
+        double headingInitMinDistanceM,
+        double initialGyroScaleSigma,
+        double gyroScaleRandomWalkPerSqrtS,
+        double gyroRateProportionalNoise,
+        double sideslipRadPerMps2,
+        double wheelSpeedZeroBelowMps,
+        double minTurnRadiusM,
+        double gnssHdopFloorM) {
 
     public FilterSettings {
         Check.nonNegative("filter.wheel_speed_noise_mps", wheelSpeedNoiseMps);
@@ -73,6 +91,13 @@ public record FilterSettings(
         Check.positive("filter.gnss_course_sigma_deg", gnssCourseSigmaDeg);
         Check.positive("filter.standstill_after_s", standstillAfterS);
         Check.positive("filter.heading_init_min_distance_m", headingInitMinDistanceM);
+        Check.nonNegative("filter.initial_gyro_scale_sigma", initialGyroScaleSigma);
+        Check.nonNegative("filter.gyro_scale_random_walk_per_sqrt_s", gyroScaleRandomWalkPerSqrtS);
+        Check.nonNegative("filter.gyro_rate_proportional_noise", gyroRateProportionalNoise);
+        Check.nonNegative("filter.sideslip_rad_per_mps2", sideslipRadPerMps2);
+        Check.positive("filter.wheel_speed_zero_below_mps", wheelSpeedZeroBelowMps);
+        Check.positive("filter.min_turn_radius_m", minTurnRadiusM);
+        Check.nonNegative("filter.gnss_hdop_floor_m", gnssHdopFloorM);
         EnumMap<FixType, Double> scales = new EnumMap<>(FixType.class);
         scales.putAll(defaultFixScale());
         if (gnssFixScale != null) {
@@ -106,7 +131,12 @@ public record FilterSettings(
 
     /**
      * Built-in defaults, sized for production-grade wheel-speed and yaw-rate sensors of a passenger car
-     * and a standalone GNSS receiver (values from common practice).
+     * and a standalone GNSS receiver (values from common practice): a yaw-rate sensor's scale factor
+     * within about 2 %; 1 % of the rate for misalignment and body motion; a sideslip of about 0.01 rad
+     * per m/s^2 at the rear axle (a 1500 kg car with about 80 kN/rad of rear cornering stiffness, from
+     * memory of the single-track model); wheel-speed sensors silent below about 0.3 m/s; a rear-axle
+     * turn radius of at least about 4.5 m; and a standalone receiver's error at least about half its HDOP
+     * in metres (a user range error of 0.5 m is about the best a standalone receiver reaches).
      */
     public static FilterSettings defaults() {
         return new FilterSettings(
@@ -117,6 +147,8 @@ public record FilterSettings(
                 0.3, 4.0, 3.0, defaultFixScale(),
                 0.6, 40.0,
                 3.0, 0.15, 3.0,
-                0.5, 5.0);
+                0.5, 5.0,
+                0.02, 1.0e-5, 0.01,
+                0.01, 0.3, 4.5, 0.5);
     }
 }

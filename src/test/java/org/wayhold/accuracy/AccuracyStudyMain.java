@@ -13,7 +13,7 @@ public final class AccuracyStudyMain {
         double minutes = args.length > 1 ? Double.parseDouble(args[1]) : 20;
         long seed = args.length > 2 ? Long.parseLong(args[2]) : 1000;
         long t0 = System.nanoTime();
-        AccuracyStudy.Figures f = AccuracyStudy.run(Settings.defaults(), drives, minutes, seed);
+        AccuracyStudy.Figures f = AccuracyStudy.run(args.length > 3 ? org.wayhold.config.ConfigLoader.load(java.nio.file.Path.of(args[3])) : Settings.defaults(), drives, minutes, seed);
         System.out.printf(Locale.ROOT, "open-sky RMS %.3f m, raw fixes RMS %.3f m, ratio %.2f%n", f.openSkyRmsM(),
                 f.rawFixRmsM(), f.openSkyRmsM() / f.rawFixRmsM());
         System.out.printf(Locale.ROOT, "open-sky NEES %.2f%n", f.openSkyNees());

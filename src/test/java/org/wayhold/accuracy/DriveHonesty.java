@@ -54,10 +54,14 @@ public final class DriveHonesty {
      * @param fusedRmsM           RMS error of aided poses at used fixes (m)
      * @param rawRmsM             RMS error of the raw fixes at the same times (m)
      * @param maxErrorM           largest error (m)
+     * @param aidedInside95       share of the aided time inside the 95% ellipse
+     * @param zoneS               time inside the given zones (s)
+     * @param zoneAidedFarS       time inside the zones while aided and more than the alert limit off (s)
      */
     public record Figures(double seconds, double falseConfidenceS, double aidedFarS, double aidedS,
                           double longestOverS, double inside95, double headingInside95, double fusedRmsM,
-                          double rawRmsM, double maxErrorM) {
+                          double rawRmsM, double maxErrorM, double aidedInside95, double zoneS,
+                          double zoneAidedFarS) {
     }
 
     private DriveHonesty() {
@@ -71,6 +75,15 @@ public final class DriveHonesty {
      * @param vehicle   the vehicle profile's name
      */
     public static Figures evaluate(List<Sample> fileOrder, Settings settings, String vehicle) {
+        return evaluate(fileOrder, settings, vehicle, List.of());
+    }
+
+    /**
+     * As {@link #evaluate(List, Settings, String)}, with time in given zones counted apart.
+     *
+     * @param zones {start, end} times (s, vehicle clock) of stretches to count apart (canyons, say)
+     */
+    public static Figures evaluate(List<Sample> fileOrder, Settings settings, String vehicle, List<double[]> zones) {
         OrderedLog ordered = OrderedLog.order(fileOrder, settings.ordering());
         List<ReferencePoint> refs = new ArrayList<>();
         GnssFix first = null;
@@ -120,6 +133,9 @@ public final class DriveHonesty {
         double longest = 0;
         double run = 0;
         double maxErr = 0;
+        double aidedInside = 0;
+        double zone = 0;
+        double zoneFar = 0;
         for (int i = 0; i + 1 < poses.size(); i++) {
             Pose p = poses.get(i);
             double dt = poses.get(i + 1).t() - p.t();
@@ -148,6 +164,15 @@ public final class DriveHonesty {
             double nees = (c * de * de - 2 * b * de * dn + a * dn * dn) / (a * c - b * b);
             if (nees <= CHI2_2DOF_95) {
                 inside += dt;
+                if (p.state() == NavState.AIDED) {
+                    aidedInside += dt;
+                }
+            }
+            if (inZone(zones, p.t())) {
+                zone += dt;
+                if (p.state() == NavState.AIDED && err > limit) {
+                    zoneFar += dt;
+                }
             }
             double refYaw = ref.yawAt(p.t());
             if (!Double.isNaN(refYaw) && Math.abs(p.speedMps()) > 1.0) {
@@ -188,7 +213,17 @@ public final class DriveHonesty {
         }
         return new Figures(seconds, falseConf, aidedFar, aided, longest, inside / seconds,
                 headingTime == 0 ? Double.NaN : headingInside / headingTime, Math.sqrt(sqFused / Math.max(n, 1)),
-                Math.sqrt(sqRaw / Math.max(n, 1)), maxErr);
+                Math.sqrt(sqRaw / Math.max(n, 1)), maxErr, aided == 0 ? Double.NaN : aidedInside / aided, zone,
+                zoneFar);
+    }
+
+    private static boolean inZone(List<double[]> zones, double t) {
+        for (double[] z : zones) {
+            if (t >= z[0] && t <= z[1]) {
+                return true;
+            }
+        }
+        return false;
     }
 
     private static double sq(double v) {

@@ -28,7 +28,8 @@ public final class HonestyStudyMain {
             System.out.println(RealDrives.absentMessage());
             return;
         }
-        Settings settings = Settings.defaults();
+        Settings settings = args.length > 0 ? org.wayhold.config.ConfigLoader.load(java.nio.file.Path.of(args[0]))
+                : Settings.defaults();
         Map<String, List<Sample>> drives = new LinkedHashMap<>();
         for (String d : new String[] {"0027", "0034"}) {
             drives.put(d + "_real", RealDrives.read("kitti_10_03_drive_" + d + "_real"));

@@ -20,7 +20,7 @@ class PoseHistoryTest {
     /** A pose at t whose east coordinate tags it, so replaced and dropped poses can be told apart. */
     static Pose pose(double t, double tagEastM) {
         return new Pose(t, 50.0, 8.0, 100.0, tagEastM, 0.0, 0.0, 90.0, 10.0, 0.0, 1.0, 0.0, 1.0, 1.0,
-                Ellipse95.of(1.0, 0.0, 1.0), NavState.AIDED, Outage.NONE, 0.0, 1.0, null, t, 10.0);
+                Ellipse95.of(1.0, 0.0, 1.0), NavState.AIDED, Outage.NONE, 0.0, 1.0, null, t, 10.0, 2.4477, 0);
     }
 
     private static List<Double> times(List<Pose> poses) {
@@ -104,7 +104,7 @@ class PoseHistoryTest {
      * active and inactive outages, two origins), so a column mixed up or a bit lost shows.
      */
     private static Pose varied(int i, SplittableRandom rnd, Geodetic originA, Geodetic originB) {
-        double[] v = new double[24];
+        double[] v = new double[25];
         for (int k = 0; k < v.length; k++) {
             v[k] = rnd.nextDouble(-1e3, 1e3);
         }
@@ -115,7 +115,7 @@ class PoseHistoryTest {
                 v[8], v[9], v[10], v[11], v[12], v[13], new Ellipse95(semiMinor + Math.abs(v[14]), semiMinor, v[16]),
                 NavState.values()[i % NavState.values().length],
                 active ? new Outage(true, v[17], v[18], v[19]) : Outage.NONE, v[20], v[21], origin,
-                i % 4 == 0 ? Double.NaN : v[22], v[23]);
+                i % 4 == 0 ? Double.NaN : v[22], v[23], v[24], i % 4096);
     }
 
     @Test
