@@ -160,7 +160,7 @@ public class ReplayBenchmark {
         private ReferencePoint lastReference;
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             samples++;
             sumT += s.t();
             if (s instanceof ReferencePoint r) {
@@ -189,7 +189,7 @@ public class ReplayBenchmark {
         }
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             if (Double.isNaN(epochT)) {
                 epochT = Math.floor(s.t());
             }
@@ -219,7 +219,7 @@ public class ReplayBenchmark {
         }
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             batch.add(s);
             if (batch.size() == BATCH) {
                 flush();

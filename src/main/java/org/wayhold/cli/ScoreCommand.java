@@ -187,7 +187,7 @@ final class ScoreCommand implements Callable<Integer> {
             boolean replaceFixes = nmea != null;
             NdjsonReader.readFile(log, new SampleSink() {
                 @Override
-                public void accept(Sample s) {
+                public void accept(long line, Sample s) {
                     if (!(replaceFixes && s instanceof GnssFix)) {
                         samples.add(s);
                     }
@@ -204,7 +204,7 @@ final class ScoreCommand implements Callable<Integer> {
             List<String> notes = new ArrayList<>();
             if (rejectedCount.get() > 0) {
                 StringBuilder b = new StringBuilder(rejectedCount.get() + " NDJSON lines rejected");
-                rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.reason()));
+                rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.detail()));
                 notes.add(b.toString());
             }
             if (nmea != null) {

@@ -23,10 +23,12 @@ import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.GatingSettings;
 import org.wayhold.settings.HistorySettings;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.OrderingSettings;
 import org.wayhold.settings.OutageSettings;
 import org.wayhold.settings.ServerSettings;
+import org.wayhold.settings.SettingsException;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
 
@@ -47,7 +49,8 @@ import org.wayhold.settings.VehicleProfile;
  * <p>Bearer tokens may also come from the environment: {@value #WRITE_TOKENS_ENV} and
  * {@value #READ_TOKENS_ENV}, comma-separated, replace {@code server.write_tokens} and
  * {@code server.read_tokens} when set and not blank, so secrets need not live in the file. A blank
- * variable is ignored rather than read as "no tokens", so it cannot switch authentication off.
+ * variable is ignored rather than read as "no tokens", and one that holds no token ({@code ","}) stops
+ * start-up, so neither can switch authentication off.
  */
 public final class ConfigLoader {
 
@@ -76,7 +79,8 @@ public final class ConfigLoader {
                 root.section("ordering", ConfigLoader::ordering),
                 root.section("history", ConfigLoader::history),
                 root.vehicles("vehicles", ConfigLoader::vehicle),
-                root.section("journal", ConfigLoader::journal));
+                root.section("journal", ConfigLoader::journal),
+                root.section("ingest", ConfigLoader::ingest));
     }
 
     private static ServerSettings server(Section s, Function<String, String> env) {
@@ -84,8 +88,8 @@ public final class ConfigLoader {
         return new ServerSettings(
                 s.integer("port", d.port()),
                 s.text("bind", d.bind()),
-                tokens(env, WRITE_TOKENS_ENV, s.texts("write_tokens", d.writeTokens())),
-                tokens(env, READ_TOKENS_ENV, s.texts("read_tokens", d.readTokens())),
+                s.tokens("write_tokens", env, WRITE_TOKENS_ENV, d.writeTokens()),
+                s.tokens("read_tokens", env, READ_TOKENS_ENV, d.readTokens()),
                 s.longInteger("max_body_bytes", d.maxBodyBytes()),
                 s.integer("max_line_bytes", d.maxLineBytes()),
                 s.integer("max_samples_per_request", d.maxSamplesPerRequest()),
@@ -94,7 +98,30 @@ public final class ConfigLoader {
                 s.number("max_samples_per_second_per_vehicle", d.maxSamplesPerSecondPerVehicle()),
                 s.number("rate_burst_s", d.rateBurstS()),
                 s.texts("cors_origins", d.corsOrigins()),
-                s.number("sse_keep_alive_s", d.sseKeepAliveS()));
+                s.number("sse_keep_alive_s", d.sseKeepAliveS()),
+                s.number("idle_timeout_s", d.idleTimeoutS()),
+                s.longInteger("min_body_bytes_per_s", d.minBodyBytesPerS()),
+                s.number("drain_timeout_s", d.drainTimeoutS()),
+                s.integer("max_concurrent_uploads", d.maxConcurrentUploads()),
+                s.integer("max_streams", d.maxStreams()));
+    }
+
+    private static IngestSettings ingest(Section s) {
+        IngestSettings d = IngestSettings.defaults();
+        return new IngestSettings(
+                s.number("max_t_s", d.maxTS()),
+                s.number("max_wheel_speed_mps", d.maxWheelSpeedMps()),
+                s.number("max_yaw_rate_rad_per_s", d.maxYawRateRadPerS()),
+                s.number("min_alt_m", d.minAltM()),
+                s.number("max_alt_m", d.maxAltM()),
+                s.number("max_sigma_m", d.maxSigmaM()),
+                s.number("max_hdop", d.maxHdop()),
+                s.integer("max_sats", d.maxSats()),
+                s.number("max_gnss_speed_mps", d.maxGnssSpeedMps()),
+                s.integer("max_listed_rejections", d.maxListedRejections()),
+                s.integer("idempotency_keys_per_vehicle", d.idempotencyKeysPerVehicle()),
+                s.number("idempotency_ttl_s", d.idempotencyTtlS()),
+                s.longInteger("idempotency_max_bytes", d.idempotencyMaxBytes()));
     }
 
     private static FilterSettings filter(Section s) {
@@ -234,20 +261,6 @@ public final class ConfigLoader {
         return List.copyOf(new LinkedHashSet<>(leaves));
     }
 
-    private static List<String> tokens(Function<String, String> env, String variable, List<String> fromFile) {
-        String value = env.apply(variable);
-        if (value == null || value.isBlank()) {
-            return fromFile;
-        }
-        List<String> tokens = new ArrayList<>();
-        for (String token : value.split(",")) {
-            if (!token.isBlank()) {
-                tokens.add(token.trim());
-            }
-        }
-        return tokens;
-    }
-
     private static String where(JsonLocation location) {
         return location == null || location.getLineNr() < 1 ? ""
                 : " at line " + location.getLineNr() + ", column " + location.getColumnNr();
@@ -277,7 +290,7 @@ public final class ConfigLoader {
 
         /**
          * Builds this section's record: first rejects keys the table does not know, then runs the table;
-         * a record's own validation message (which starts with the key path) becomes a ConfigException.
+         * a record's own refusal ({@link SettingsException}, which carries the key) becomes a ConfigException.
          */
         <T> T read(Function<Section, T> build) {
             Section dry = new Section(path, MissingNode.getInstance(), source, new ArrayList<>());
@@ -291,22 +304,21 @@ public final class ConfigLoader {
             }
             try {
                 return build.apply(this);
+            } catch (SettingsException e) {
+                throw ConfigException.atKey(keyOf(e), e.problem(), source);
             } catch (IllegalArgumentException e) {
-                throw fromRecord(e.getMessage());
+                // A refusal that names no key of its own is put on this section.
+                throw ConfigException.atKey(path, e.getMessage(), source);
             }
         }
 
-        private ConfigException fromRecord(String message) {
-            int colon = message.indexOf(": ");
-            if (colon < 0) {
-                return ConfigException.atKey(path, message, source);
-            }
-            String key = message.substring(0, colon);
-            // VehicleProfile names its keys vehicles.*.KEY since it does not know its own name.
+        /** The full key a record refused; a vehicle profile names its keys vehicles.*.KEY. */
+        private String keyOf(SettingsException e) {
+            String key = e.key();
             if (key.startsWith("vehicles.*.") && path.startsWith("vehicles.")) {
-                key = path + key.substring("vehicles.*".length());
+                return path + key.substring("vehicles.*".length());
             }
-            return ConfigException.atKey(key, message.substring(colon + 2), source);
+            return key;
         }
 
         <T> T section(String key, Function<Section, T> build) {
@@ -396,6 +408,31 @@ public final class ConfigLoader {
                 result.add(item.textValue());
             }
             return result;
+        }
+
+        /**
+         * A token list: from the environment variable when it is set and not blank, else the file's list.
+         * A variable that is set but holds no token (only commas and spaces, {@code ","}) is refused: it
+         * was meant to configure tokens, and reading it as "no tokens" would silently open the service.
+         */
+        List<String> tokens(String key, Function<String, String> env, String variable, List<String> fallback) {
+            List<String> fromFile = texts(key, fallback);
+            String value = env.apply(variable);
+            if (value == null || value.isBlank()) {
+                return fromFile;
+            }
+            List<String> tokens = new ArrayList<>();
+            for (String token : value.split(",")) {
+                if (!token.isBlank()) {
+                    tokens.add(token.trim());
+                }
+            }
+            if (tokens.isEmpty()) {
+                throw ConfigException.atKey(pathOf(key), "the environment variable " + variable
+                        + " is set but holds no token (only commas and spaces); start-up is refused rather than"
+                        + " run without tokens: set it to the tokens, or unset it", source);
+            }
+            return tokens;
         }
 
         /** A mapping from fix-type wire names to numbers; fix types left out keep their default. */

@@ -24,8 +24,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
-import org.wayhold.sample.WheelSpeed;
-import org.wayhold.sample.YawRate;
+import org.wayhold.sample.SampleType;
 import org.wayhold.settings.Settings;
 
 /**
@@ -55,7 +54,8 @@ public final class VehicleSession {
     private Pose lastEmitted;
     private volatile Pose latest;
     private volatile long version;
-    private final long[] appliedByType = new long[4];
+    /** Samples applied, by {@link SampleType} ordinal. */
+    private final long[] appliedByType = new long[SampleType.values().length];
 
     /**
      * @param vehicleId        the vehicle's id
@@ -170,7 +170,9 @@ public final class VehicleSession {
     /** A consistent set of counters for metrics and the vehicle list. */
     public synchronized SessionStats stats() {
         FilterSnapshot s = pipeline.filter.snapshot();
-        return new SessionStats(appliedByType[0], appliedByType[1], appliedByType[2], appliedByType[3],
+        return new SessionStats(appliedByType[SampleType.WHEEL_SPEED.ordinal()],
+                appliedByType[SampleType.YAW_RATE.ordinal()], appliedByType[SampleType.GNSS.ordinal()],
+                appliedByType[SampleType.REFERENCE.ordinal()],
                 ordering.duplicates(), ordering.rejected(), ordering.rewinds(), s.counts(), history.size());
     }
 
@@ -254,17 +256,6 @@ public final class VehicleSession {
         return new Checkpoint(f, frame, lastHistoryTRel, applied);
     }
 
-    /** Index into the applied counters: wheel speed, yaw rate, GNSS, reference, as in {@link SessionStats}. */
-    private static int countIndex(Sample s) {
-        if (s instanceof WheelSpeed) {
-            return 0;
-        }
-        if (s instanceof YawRate) {
-            return 1;
-        }
-        return s instanceof GnssFix ? 2 : 3;
-    }
-
     /** Everything a checkpoint must bring back. */
     private record Checkpoint(NavigationFilter filter, LocalFrame frame, double lastHistoryTRel,
                               long[] appliedByType) {
@@ -298,7 +289,7 @@ public final class VehicleSession {
                 fixes.add(new FixRecord(g.t(), g.latDeg(), g.lonDeg(), enu.eastM(), enu.northM(),
                         filter.horizontalSigmaM(g), outcome.kind(), outcome.nis()));
             }
-            appliedByType[countIndex(sample)]++;
+            appliedByType[sample.type().ordinal()]++;
             if (sample instanceof ReferencePoint) {
                 // Reference points are for scoring only: they reach the filter only as time.
                 return;
@@ -323,6 +314,12 @@ public final class VehicleSession {
             double t = Double.isNaN(c.filter.tRel()) ? Double.NEGATIVE_INFINITY : epochT + c.filter.tRel();
             history.truncateAfter(t);
             fixes.truncateAfter(t);
+        }
+
+        @Override
+        public boolean alreadyApplied(Sample sample) {
+            // The fix log remembers the recent fixes; the inputs (wheel speed, yaw rate) leave no trace.
+            return sample instanceof GnssFix g && fixes.contains(g.t(), g.latDeg(), g.lonDeg());
         }
 
         void restoreWithoutHistory(Checkpoint c) {

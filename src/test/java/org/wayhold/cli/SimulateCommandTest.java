@@ -46,7 +46,7 @@ class SimulateCommandTest {
         List<LineError> rejected = new ArrayList<>();
         NdjsonReader.readFile(file, new SampleSink() {
             @Override
-            public void accept(Sample s) {
+            public void accept(long line, Sample s) {
                 read.add(s);
             }
 

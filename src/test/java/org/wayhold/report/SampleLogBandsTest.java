@@ -46,7 +46,7 @@ class SampleLogBandsTest {
             public ScoringRun.LoadedLog load() throws java.io.IOException {
                 NdjsonReader.readFile(p, new SampleSink() {
                     @Override
-                    public void accept(Sample s) {
+                    public void accept(long line, Sample s) {
                         samples.add(s);
                     }
 
