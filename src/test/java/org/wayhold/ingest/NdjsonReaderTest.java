@@ -376,4 +376,48 @@ class NdjsonReaderTest {
         assertThat(r.samples()).isUnmodifiable();
         assertThat(r.rejected()).isUnmodifiable();
     }
+
+    /**
+     * Rule: a finite value beyond the physical bounds of the ingest settings is rejected as implausible,
+     * with a detail that starts with the field's name and names the key that sets the bound. Each row
+     * is a value just past its default bound (IngestSettings.defaults(); fixed bounds from definitions:
+     * t >= 0, course and heading within [0, 360] degrees).
+     */
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {
+        "{\"type\":\"wheel_speed\",\"t\":1,\"speed\":1e300}|speed: must be within [-150.0, 150.0] m/s (ingest.max_wheel_speed_mps), was 1.0E300",
+        "{\"type\":\"wheel_speed\",\"t\":1,\"speed\":-150.00000000000003}|speed: must be within [-150.0, 150.0]",
+        "{\"type\":\"yaw_rate\",\"t\":1,\"rate\":10.000000000000002}|rate: must be within [-10.0, 10.0] rad/s (ingest.max_yaw_rate_rad_per_s)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":1e300}|alt: must be within [-1000.0, 100000.0] m",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":-1000.0000000000001}|alt: must be within",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sigma_h\":1e200}|sigma_h: must be within [0.0, 10000.0] m (ingest.max_sigma_m)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sigma_v\":10000.000000000002}|sigma_v: must be within",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"hdop\":1e200}|hdop: must be within [0.0, 100.0] (ingest.max_hdop)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sats\":1001}|sats: must be at most 1000 (ingest.max_sats)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"speed\":150.00000000000003}|speed: must be within [0.0, 150.0] m/s (ingest.max_gnss_speed_mps)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"course\":360.00000000000006}|course: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"course\":-1e-300}|course: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":1e7}|alt: must be within",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":1,\"lon\":2,\"heading\":720}|heading: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"yaw_rate\",\"t\":-0.5,\"rate\":0}|t: must be within [0.0, 1.0E10] s (ingest.max_t_s)",
+        "{\"type\":\"yaw_rate\",\"t\":1e300,\"rate\":0}|t: must be within [0.0, 1.0E10] s"})
+    void aValueBeyondItsPhysicalBoundIsRejectedAsImplausible(String line, String detail) {
+        LineError e = rejectionOf(line);
+        assertThat(e.reason()).isEqualTo(RejectionReason.IMPLAUSIBLE);
+        assertThat(e.detail()).startsWith(detail);
+    }
+
+    /** The bounds themselves are accepted: each is the largest (or smallest) plausible value. */
+    @ParameterizedTest
+    @ValueSource(strings = {
+        "{\"type\":\"wheel_speed\",\"t\":0,\"speed\":-150}",
+        "{\"type\":\"yaw_rate\",\"t\":1e10,\"rate\":10}",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":90,\"lon\":-180,\"alt\":-1000,\"sigma_h\":0,\"sigma_v\":10000,"
+                + "\"hdop\":100,\"sats\":1000,\"speed\":150,\"course\":360}",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":-90,\"lon\":180,\"alt\":100000,\"heading\":0}"})
+    void valuesAtTheBoundsAreAccepted(String line) {
+        ReadResult r = new NdjsonReader().readAll(new ByteArrayInputStream(line.getBytes(StandardCharsets.UTF_8)));
+        assertThat(r.rejected()).isEmpty();
+        assertThat(r.samples()).hasSize(1);
+    }
 }
