@@ -34,6 +34,11 @@ import org.wayhold.session.SessionLimitException;
  * among them, then saw no reply at all instead of the 401 or 413. A body beyond that bound is not read:
  * the reply closes the connection and says so ({@code Connection: close}); a client that wants to
  * learn of a refusal before sending the body sends {@code Expect: 100-continue} (RFC 9110 sec. 10.1.1).
+ * The drain is bounded in time too ({@code server.drain_timeout_s}) and takes one of the upload slots
+ * ({@link UploadSlots}); without a free slot, or past the deadline, the rest is not read and the
+ * connection closes: refusals of slow bodies cannot hold the server's threads.
+ *
+ * <p>Errors that Jetty answers itself, before any route, are problem JSON too ({@link ProblemErrorHandler}).
  */
 final class ErrorMapping {
 

@@ -152,6 +152,20 @@ public final class NdjsonReader {
         }
     }
 
+    /** Reads a whole NDJSON file into memory with a default reader, decompressing as {@link #readFile} does. */
+    public static ReadResult readFileAll(Path p) throws IOException {
+        Collector c = new Collector();
+        readFile(p, c);
+        return new ReadResult(c.samples, c.rejected);
+    }
+
+    /** Reads a whole {@code application/json} body into memory ({@link #readJson}). */
+    public ReadResult readAllJson(InputStream in) throws IOException {
+        Collector c = new Collector();
+        readJson(in, c);
+        return new ReadResult(c.samples, c.rejected);
+    }
+
     /** Reads all of {@code in} into memory; I/O failures are rethrown unchecked. */
     public ReadResult readAll(InputStream in) {
         Collector c = new Collector();

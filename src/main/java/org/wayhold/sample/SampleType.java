@@ -74,20 +74,6 @@ public enum SampleType {
     }
 
     /**
-     * The type of a wire name.
-     *
-     * @throws IllegalArgumentException naming the allowed values when {@code name} is unknown
-     */
-    public static SampleType fromWireName(String name) {
-        for (SampleType t : values()) {
-            if (t.wireName.equals(name)) {
-                return t;
-            }
-        }
-        throw new IllegalArgumentException("type: unknown sample type '" + name + "', expected one of " + LISTED);
-    }
-
-    /**
      * The type of a codec byte.
      *
      * @throws IOException when the byte names no type (the bytes are not a sample)

@@ -6,7 +6,6 @@ import com.fasterxml.jackson.databind.JsonNode;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.UncheckedIOException;
 import java.net.InetAddress;
 import java.net.Socket;
 import java.net.http.HttpRequest;
@@ -19,7 +18,6 @@ import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.Future;
 import java.util.concurrent.TimeUnit;
-import java.util.zip.GZIPOutputStream;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
@@ -125,12 +123,12 @@ class EdgeFaultsTest {
         server.delete("/v1/vehicles/edge-car");
         List<Sample> samples = Drives.openSky(64L, 2.0);
         byte[] plain = Drives.ndjson(samples);
-        HttpResponse<String> r = post("edge-car", gzip(plain), "Content-Encoding", "gzip");
+        HttpResponse<String> r = post("edge-car", HostileInputPropertyTest.gzip(plain), "Content-Encoding", "gzip");
         assertThat(r.statusCode()).as(r.body()).isEqualTo(200);
         assertThat(LiveServer.json(r).path("accepted").asLong()).isEqualTo(samples.size());
         assertThat(LiveServer.json(r).path("rejected_count").asLong()).isZero();
 
-        byte[] bomb = gzip(new byte[8 * BODY_LIMIT]);
+        byte[] bomb = HostileInputPropertyTest.gzip(new byte[8 * BODY_LIMIT]);
         assertThat(bomb.length).as("compressed far below the limit").isLessThan(BODY_LIMIT / 50);
         HttpResponse<String> big = post("edge-car", bomb, "Content-Encoding", "gzip");
         assertThat(big.statusCode()).isEqualTo(413);
@@ -208,15 +206,5 @@ class EdgeFaultsTest {
         }
         String text = line.toString(StandardCharsets.ISO_8859_1);
         return Integer.parseInt(text.substring(9, 12));
-    }
-
-    static byte[] gzip(byte[] body) {
-        ByteArrayOutputStream out = new ByteArrayOutputStream();
-        try (GZIPOutputStream z = new GZIPOutputStream(out)) {
-            z.write(body);
-        } catch (IOException e) {
-            throw new UncheckedIOException(e);
-        }
-        return out.toByteArray();
     }
 }

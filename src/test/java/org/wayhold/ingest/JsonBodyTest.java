@@ -5,12 +5,9 @@ import static org.assertj.core.api.Assertions.assertThat;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
-import java.util.ArrayList;
-import java.util.List;
 import org.junit.jupiter.api.Test;
 import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.GnssFix;
-import org.wayhold.sample.Sample;
 import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
@@ -21,21 +18,7 @@ import org.wayhold.sample.YawRate;
 class JsonBodyTest {
 
     private static ReadResult readJson(String body) throws IOException {
-        List<Sample> samples = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        new NdjsonReader().readJson(new ByteArrayInputStream(body.getBytes(StandardCharsets.UTF_8)),
-                new SampleSink() {
-                    @Override
-                    public void accept(long line, Sample s) {
-                        samples.add(s);
-                    }
-
-                    @Override
-                    public void reject(LineError e) {
-                        rejected.add(e);
-                    }
-                });
-        return new ReadResult(samples, rejected);
+        return new NdjsonReader().readAllJson(new ByteArrayInputStream(body.getBytes(StandardCharsets.UTF_8)));
     }
 
     @Test

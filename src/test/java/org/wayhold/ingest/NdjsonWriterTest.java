@@ -144,19 +144,6 @@ class NdjsonWriterTest {
     }
 
     private static ReadResult readFile(Path p) throws IOException {
-        List<Sample> samples = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        NdjsonReader.readFile(p, new SampleSink() {
-            @Override
-            public void accept(long line, Sample s) {
-                samples.add(s);
-            }
-
-            @Override
-            public void reject(LineError e) {
-                rejected.add(e);
-            }
-        });
-        return new ReadResult(samples, rejected);
+        return NdjsonReader.readFileAll(p);
     }
 }
