@@ -159,6 +159,8 @@ public final class HttpService implements AutoCloseable {
                     }
                 }
                 rule.exposeHeader("ETag");
+                rule.exposeHeader(VehicleRoutes.IDEMPOTENCY_REPLAYED);
+                rule.exposeHeader("Retry-After");
             }));
         }
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),

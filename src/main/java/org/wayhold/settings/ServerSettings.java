@@ -75,6 +75,11 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
         Check.positive("server.rate_burst_s", rateBurstS);
         Check.positive("server.sse_keep_alive_s", sseKeepAliveS);
         Check.positive("server.idle_timeout_s", idleTimeoutS);
+        if (sseKeepAliveS >= idleTimeoutS) {
+            // An idle stream is kept open by its keep-alive comments: they must come before the timeout.
+            throw new SettingsException("server.sse_keep_alive_s", "must be shorter than server.idle_timeout_s ("
+                    + idleTimeoutS + " s), was " + sseKeepAliveS + " s");
+        }
         if (minBodyBytesPerS < 0) {
             throw new SettingsException("server.min_body_bytes_per_s", "must be at least 0, was " + minBodyBytesPerS);
         }
