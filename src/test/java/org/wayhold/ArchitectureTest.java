@@ -23,7 +23,8 @@ class ArchitectureTest {
     private static final Path MAIN_SOURCES = Path.of("src", "main", "java", "org", "wayhold");
 
     private static final List<String> CORE_PACKAGES = List.of(
-            "sample", "geo", "settings", "ordering", "filter", "pipeline", "pose", "session", "scoring", "simulate", "journal", "nmea");
+            "sample", "geo", "settings", "ordering", "filter", "pipeline", "columns", "pose", "session", "scoring",
+            "simulate", "journal", "nmea");
 
     private static final List<String> FORBIDDEN_PREFIXES = List.of(
             "io.javalin", "com.fasterxml.jackson", "org.yaml", "jakarta.servlet");

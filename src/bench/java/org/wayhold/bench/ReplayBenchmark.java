@@ -160,7 +160,7 @@ public class ReplayBenchmark {
         private ReferencePoint lastReference;
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             samples++;
             sumT += s.t();
             if (s instanceof ReferencePoint r) {
@@ -184,7 +184,7 @@ public class ReplayBenchmark {
         }
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             track.apply(s);
             fed++;
         }
@@ -208,7 +208,7 @@ public class ReplayBenchmark {
         }
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             batch.add(s);
             if (batch.size() == BATCH) {
                 flush();

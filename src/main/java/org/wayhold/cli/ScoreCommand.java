@@ -202,7 +202,7 @@ final class ScoreCommand implements Callable<Integer> {
             List<UnknownFields> unknown = new ArrayList<>(1);
             NdjsonReader.readFile(log, new SampleSink() {
                 @Override
-                public void accept(Sample s) {
+                public void accept(long line, Sample s) {
                     if (!(replaceFixes && s instanceof GnssFix)) {
                         samples.add(s);
                     }
@@ -225,7 +225,7 @@ final class ScoreCommand implements Callable<Integer> {
             List<String> notes = new ArrayList<>();
             if (rejectedCount.get() > 0) {
                 StringBuilder b = new StringBuilder(rejectedCount.get() + " NDJSON lines rejected");
-                rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.reason()));
+                rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.detail()));
                 notes.add(b.toString());
             }
             unknown.forEach(u -> notes.add("NDJSON: " + u.describe()));

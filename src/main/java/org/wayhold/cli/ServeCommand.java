@@ -104,7 +104,7 @@ final class ServeCommand implements Callable<Integer> {
             err.println(w);
         }
         err.flush();
-        List<Sample> log = replay == null ? List.of() : readLog(replay, out);
+        List<Sample> log = replay == null ? List.of() : readLog(replay, settings, out);
 
         // Every session is restored before the connector opens: no request sees a half-recovered state.
         long recoveryStart = System.nanoTime();
@@ -184,23 +184,22 @@ final class ServeCommand implements Callable<Integer> {
         }
         ServerSettings v = s.server();
         ServerSettings server = v.withAddress(port != null ? port : v.port(), bind != null ? bind : v.bind());
-        return new Settings(server, s.filter(), s.gating(), s.outage(), s.ordering(), s.history(), s.vehicles(),
-                s.journal());
+        return s.withServer(server);
     }
 
-    private static List<Sample> readLog(Path file, PrintWriter out) throws IOException {
+    private static List<Sample> readLog(Path file, Settings settings, PrintWriter out) throws IOException {
         List<Sample> samples = new ArrayList<>();
         long[] rejected = new long[1];
-        NdjsonReader.readFile(file, new SampleSink() {
+        new NdjsonReader(settings.server().maxLineBytes(), settings.ingest()).readPath(file, new SampleSink() {
             @Override
-            public void accept(Sample s) {
+            public void accept(long line, Sample s) {
                 samples.add(s);
             }
 
             @Override
             public void reject(LineError e) {
                 if (rejected[0]++ < 5) {
-                    out.println("replay: " + file + " line " + e.line() + " skipped: " + e.reason());
+                    out.println("replay: " + file + " line " + e.line() + " skipped: " + e.detail());
                 }
             }
 

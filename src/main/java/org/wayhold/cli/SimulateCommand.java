@@ -270,7 +270,7 @@ final class SimulateCommand implements Callable<Integer> {
         try (NdjsonWriter w = NdjsonWriter.open(out)) {
             for (Sample sample : drive.samples()) {
                 w.write(sample);
-                counts.merge(sample.typeName(), 1, Integer::sum);
+                counts.merge(sample.type().wireName(), 1, Integer::sum);
             }
         }
         report(drive, counts);

@@ -16,6 +16,7 @@ import java.util.function.ToDoubleFunction;
 import java.util.function.ToIntFunction;
 import java.util.function.ToLongFunction;
 import org.wayhold.sample.FixType;
+import org.wayhold.settings.SettingsException;
 import org.wayhold.settings.Settings;
 
 /**
@@ -63,7 +64,7 @@ final class KeyReader<R> implements KeyTable.Keys<R> {
 
     /**
      * Builds this mapping's record: first rejects keys the table does not know, then runs the table; a
-     * record's own validation message (which starts with the key path) becomes a ConfigException.
+     * record's own refusal ({@link SettingsException}, which carries the key) becomes a ConfigException.
      */
     private R read(Function<KeyTable.Keys<R>, R> table) {
         KeyReader<R> dry = new KeyReader<>(path, MissingNode.getInstance(), source, new ArrayList<>(), defaults, env);
@@ -77,22 +78,21 @@ final class KeyReader<R> implements KeyTable.Keys<R> {
         }
         try {
             return table.apply(this);
+        } catch (SettingsException e) {
+            throw ConfigException.atKey(keyOf(e), e.problem(), source);
         } catch (IllegalArgumentException e) {
-            throw fromRecord(e.getMessage());
+            // A refusal that names no key of its own is put on this mapping.
+            throw ConfigException.atKey(path, e.getMessage(), source);
         }
     }
 
-    private ConfigException fromRecord(String message) {
-        int colon = message.indexOf(": ");
-        if (colon < 0) {
-            return ConfigException.atKey(path, message, source);
-        }
-        String key = message.substring(0, colon);
-        // VehicleProfile names its keys vehicles.*.KEY since it does not know its own name.
+    /** The full key a record refused; a vehicle profile names its keys vehicles.*.KEY. */
+    private String keyOf(SettingsException e) {
+        String key = e.key();
         if (key.startsWith("vehicles.*.") && path.startsWith("vehicles.")) {
-            key = path + key.substring("vehicles.*".length());
+            return path + key.substring("vehicles.*".length());
         }
-        return ConfigException.atKey(key, message.substring(colon + 2), source);
+        return key;
     }
 
     @Override
@@ -203,7 +203,8 @@ final class KeyReader<R> implements KeyTable.Keys<R> {
 
     /**
      * The file's list unless the environment variable is set and not blank. A blank variable is ignored
-     * rather than read as "none", so it cannot switch authentication off.
+     * rather than read as "none", and one that holds no token ({@code ","}) is refused: it was meant to
+     * configure tokens, and reading it as "no tokens" would silently open the service.
      */
     @Override
     public List<String> secrets(String key, String environmentVariable, Function<R, List<String>> component) {
@@ -217,6 +218,10 @@ final class KeyReader<R> implements KeyTable.Keys<R> {
             if (!item.isBlank()) {
                 fromEnv.add(item.trim());
             }
+        }
+        if (fromEnv.isEmpty()) {
+            throw ConfigException.atKey(pathOf(key), "the environment variable " + environmentVariable
+                    + " is set but holds no token; unset it to use the file's list, or give tokens", source);
         }
         return fromEnv;
     }

@@ -11,6 +11,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.GatingSettings;
 import org.wayhold.settings.HistorySettings;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.OrderingSettings;
 import org.wayhold.settings.OutageSettings;
@@ -79,7 +80,8 @@ final class KeyTable {
                 s.section("ordering", Settings::ordering, KeyTable::ordering),
                 s.section("history", Settings::history, KeyTable::history),
                 s.named("vehicles", Settings::vehicles, VehicleProfile.defaults(), KeyTable::vehicle),
-                s.section("journal", Settings::journal, KeyTable::journal));
+                s.section("journal", Settings::journal, KeyTable::journal),
+                s.section("ingest", Settings::ingest, KeyTable::ingest));
     }
 
     static ServerSettings server(Keys<ServerSettings> s) {
@@ -96,7 +98,29 @@ final class KeyTable {
                 s.number("max_samples_per_second_per_vehicle", ServerSettings::maxSamplesPerSecondPerVehicle),
                 s.number("rate_burst_s", ServerSettings::rateBurstS),
                 s.texts("cors_origins", ServerSettings::corsOrigins),
-                s.number("sse_keep_alive_s", ServerSettings::sseKeepAliveS));
+                s.number("sse_keep_alive_s", ServerSettings::sseKeepAliveS),
+                s.number("idle_timeout_s", ServerSettings::idleTimeoutS),
+                s.longInteger("min_body_bytes_per_s", ServerSettings::minBodyBytesPerS),
+                s.number("drain_timeout_s", ServerSettings::drainTimeoutS),
+                s.integer("max_concurrent_uploads", ServerSettings::maxConcurrentUploads),
+                s.integer("max_streams", ServerSettings::maxStreams));
+    }
+
+    static IngestSettings ingest(Keys<IngestSettings> s) {
+        return new IngestSettings(
+                s.number("max_t_s", IngestSettings::maxTS),
+                s.number("max_wheel_speed_mps", IngestSettings::maxWheelSpeedMps),
+                s.number("max_yaw_rate_rad_per_s", IngestSettings::maxYawRateRadPerS),
+                s.number("min_alt_m", IngestSettings::minAltM),
+                s.number("max_alt_m", IngestSettings::maxAltM),
+                s.number("max_sigma_m", IngestSettings::maxSigmaM),
+                s.number("max_hdop", IngestSettings::maxHdop),
+                s.integer("max_sats", IngestSettings::maxSats),
+                s.number("max_gnss_speed_mps", IngestSettings::maxGnssSpeedMps),
+                s.integer("max_listed_rejections", IngestSettings::maxListedRejections),
+                s.integer("idempotency_keys_per_vehicle", IngestSettings::idempotencyKeysPerVehicle),
+                s.number("idempotency_ttl_s", IngestSettings::idempotencyTtlS),
+                s.longInteger("idempotency_max_bytes", IngestSettings::idempotencyMaxBytes));
     }
 
     static FilterSettings filter(Keys<FilterSettings> s) {

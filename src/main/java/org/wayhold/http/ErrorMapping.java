@@ -6,6 +6,8 @@ import io.javalin.http.HandlerType;
 import io.javalin.http.HttpResponseException;
 import java.io.IOException;
 import java.io.InputStream;
+import org.eclipse.jetty.ee10.servlet.ServletContextRequest;
+import org.eclipse.jetty.io.EndPoint;
 import java.util.function.BiConsumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -32,6 +34,11 @@ import org.wayhold.session.SessionLimitException;
  * among them, then saw no reply at all instead of the 401 or 413. A body beyond that bound is not read:
  * the reply closes the connection and says so ({@code Connection: close}); a client that wants to
  * learn of a refusal before sending the body sends {@code Expect: 100-continue} (RFC 9110 sec. 10.1.1).
+ * The drain is bounded in time too ({@code server.drain_timeout_s}) and takes one of the upload slots
+ * ({@link UploadSlots}); without a free slot, or past the deadline, the rest is not read and the
+ * connection closes: refusals of slow bodies cannot hold the server's threads.
+ *
+ * <p>Errors that Jetty answers itself, before any route, are problem JSON too ({@link ProblemErrorHandler}).
  */
 final class ErrorMapping {
 
@@ -48,11 +55,16 @@ final class ErrorMapping {
     private ErrorMapping() {
     }
 
-    /** @param maxBodyBytes the body size limit (bytes); a refusal reads up to DRAIN_FACTOR times it */
-    static void install(RoutesConfig routes, long maxBodyBytes) {
+    /**
+     * @param maxBodyBytes  the body size limit (bytes); a refusal reads up to DRAIN_FACTOR times it
+     * @param drainTimeoutS longest time a refusal spends reading the rest of a body (s)
+     * @param slots         the upload slots; a drain takes one, and none is read without it
+     */
+    static void install(RoutesConfig routes, long maxBodyBytes, double drainTimeoutS, UploadSlots slots) {
+        long drainNanos = Math.round(drainTimeoutS * 1e9);
         // Every problem reply first drops what is left of the request body (see the class comment).
         BiConsumer<Context, HttpProblem> reply = (ctx, p) -> {
-            discardUnreadBody(ctx, maxBodyBytes);
+            discardUnreadBody(ctx, maxBodyBytes, drainNanos, slots);
             write(ctx, p);
         };
         routes.exception(HttpProblem.class, (e, ctx) -> reply.accept(ctx, e));
@@ -114,6 +126,11 @@ final class ErrorMapping {
             case 405 -> "Method not allowed";
             case 413 -> "Request body too large";
             case 406 -> "Not acceptable";
+            case 408 -> "Request timeout";
+            case 409 -> "Conflict";
+            case 414 -> "URI too long";
+            case 422 -> "Unprocessable content";
+            case 431 -> "Request header fields too large";
             case 415 -> "Unsupported media type";
             case 429 -> "Too many requests";
             case 503 -> "Service unavailable";
@@ -127,23 +144,36 @@ final class ErrorMapping {
 
     /**
      * Reads and drops the rest of the request body, unless it is declared larger than
-     * {@link #DRAIN_FACTOR} times {@code maxBodyBytes}; stops after that many bytes in any case. A body
-     * already read to its end costs one call that returns at once. Read errors are ignored: the
-     * connection is then closed anyway, and the refusal is still written.
+     * {@link #DRAIN_FACTOR} times {@code maxBodyBytes}; stops after that many bytes in any case, and
+     * once {@code drainNanos} have passed: each blocking read waits no longer than what is left of that
+     * time (the connection's idle timeout is lowered for the drain and put back after), so a client that
+     * trickles its body cannot hold the thread. A drain needs an upload slot ({@link UploadSlots}): when
+     * none is free nothing is read. Read errors and time-outs are ignored: the connection is then closed,
+     * and the refusal is still written.
      */
-    static void discardUnreadBody(Context ctx, long maxBodyBytes) {
+    static void discardUnreadBody(Context ctx, long maxBodyBytes, long drainNanos, UploadSlots slots) {
         long declared = ctx.req().getContentLengthLong();
         boolean chunked = ctx.header("Transfer-Encoding") != null;
         if (declared == 0 || (declared < 0 && !chunked)) {
             return;
         }
         long drainBytes = maxBodyBytes > Long.MAX_VALUE / DRAIN_FACTOR ? Long.MAX_VALUE : DRAIN_FACTOR * maxBodyBytes;
-        if (declared <= drainBytes) {
+        if (declared <= drainBytes && slots.tryAcquire()) {
+            EndPoint endPoint = endPointOf(ctx);
+            long idleMillis = endPoint == null ? 0 : endPoint.getIdleTimeout();
             try {
                 InputStream in = ctx.req().getInputStream();
                 byte[] buf = new byte[8192];
                 long total = 0;
+                long deadline = System.nanoTime() + drainNanos;
                 while (total <= drainBytes) {
+                    long leftMillis = (deadline - System.nanoTime()) / 1_000_000L;
+                    if (leftMillis <= 0) {
+                        break;
+                    }
+                    if (endPoint != null) {
+                        endPoint.setIdleTimeout(Math.min(idleMillis, leftMillis));
+                    }
                     int n = in.read(buf);
                     if (n < 0) {
                         return;
@@ -153,12 +183,27 @@ final class ErrorMapping {
             } catch (IOException | RuntimeException e) {
                 LOG.debug("{} {}: the rest of a refused body could not be read: {}", ctx.method(), ctx.path(),
                         e.toString());
+            } finally {
+                if (endPoint != null) {
+                    endPoint.setIdleTimeout(idleMillis);
+                }
+                slots.release();
             }
         }
         // Bytes are left unread: the connection ends after this reply, and the reply says so, so that no
         // client sends its next request on it (a client that sent "Expect: 100-continue" has not sent
         // the body at all, and the server would otherwise take its next request for that body).
         ctx.header("Connection", "close");
+    }
+
+    /** The connection's end point, to bound a blocking read; null when Jetty does not say. */
+    private static EndPoint endPointOf(Context ctx) {
+        try {
+            ServletContextRequest r = ServletContextRequest.getServletContextRequest(ctx.req());
+            return r == null ? null : r.getConnectionMetaData().getConnection().getEndPoint();
+        } catch (RuntimeException e) {
+            return null;
+        }
     }
 
     private static boolean written(Context ctx) {

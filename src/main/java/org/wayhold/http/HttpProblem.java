@@ -69,6 +69,35 @@ final class HttpProblem extends RuntimeException {
     }
 
     /**
+     * 503 for a request that may succeed a moment later (too many uploads at once), with a
+     * {@code Retry-After} of one second (RFC 9110 sec. 10.2.3 and 15.6.4).
+     */
+    static HttpProblem busy(String field, String detail) {
+        return new HttpProblem(503, "busy", "Service unavailable", field, detail, java.util.Map.of("Retry-After", "1"));
+    }
+
+    /** 408: the body arrived too slowly (RFC 9110 sec. 15.5.9); the connection is closed after it. */
+    static HttpProblem bodyTooSlow(String detail) {
+        return new HttpProblem(408, "body-too-slow", "Request timeout", "body", "body: " + detail,
+                java.util.Map.of("Connection", "close"));
+    }
+
+    /** 409: the request conflicts with one being served (RFC 9110 sec. 15.5.10). */
+    static HttpProblem conflict(String field, String detail) {
+        return new HttpProblem(409, "conflict", "Conflict", field, detail);
+    }
+
+    /**
+     * 415 for a content coding the service cannot decode; {@code Accept-Encoding} says which it can
+     * (RFC 9110 sec. 12.5.3: a server may send it in a 415 for that reason).
+     */
+    static HttpProblem unsupportedEncoding(String contentEncoding) {
+        return new HttpProblem(415, "unsupported-content-encoding", "Unsupported media type", "Content-Encoding",
+                "Content-Encoding: must be gzip or identity (or absent), was '" + VehicleRoutes.clip(contentEncoding)
+                        + "'", java.util.Map.of("Accept-Encoding", "gzip"));
+    }
+
+    /**
      * 401: no usable credentials. RFC 6750 sec. 3: the challenge names the scheme, and {@code error} says
      * whether a token was sent and not recognised ({@code invalid_token}) or none was sent (no error code).
      */

@@ -12,10 +12,13 @@ import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
 import java.util.Optional;
+import org.eclipse.jetty.server.HttpConnectionFactory;
+import org.eclipse.jetty.server.ServerConnector;
 import org.eclipse.jetty.server.handler.GracefulHandler;
 import org.wayhold.journal.Journal;
 import org.wayhold.journal.SessionJournal;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -38,6 +41,9 @@ public final class HttpService implements AutoCloseable {
     private final ServiceMetrics metrics;
     private final byte[] openApiYaml;
     private final BearerTokens tokens;
+    private final IngestRate rate;
+    private final IdempotentReplies replies;
+    private final UploadSlots uploads;
     private final List<String> routes = Collections.synchronizedList(new ArrayList<>());
     private final Javalin app;
     private final long startedNanos = System.nanoTime();
@@ -61,16 +67,54 @@ public final class HttpService implements AutoCloseable {
         this.server = sessions.settings().server();
         this.sessions = sessions;
         this.journal = journal;
-        this.streams = new PoseStreams(server.sseKeepAliveS());
+        this.streams = new PoseStreams(server.sseKeepAliveS(), server.maxStreams());
         this.metrics = new ServiceMetrics(sessions, streams, journal);
         this.openApiYaml = readOpenApi();
         sessions.addRemovalListener(streams::closeVehicle);
-        IngestRate rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
+        this.rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
         sessions.addRemovalListener(rate::forget);
         this.tokens = new BearerTokens(server);
-        SampleIngest ingest = new SampleIngest(sessions, server, metrics, rate);
+        IngestSettings ingestSettings = sessions.settings().ingest();
+        this.replies = new IdempotentReplies(ingestSettings.idempotencyKeysPerVehicle(),
+                ingestSettings.idempotencyTtlS(), ingestSettings.idempotencyMaxBytes(), System::currentTimeMillis);
+        sessions.addRemovalListener(replies::forgetVehicle);
+        SampleIngest.ReplyLog replyLog = SampleIngest.ReplyLog.NONE;
+        if (journal.isPresent()) {
+            SessionJournal j = journal.get();
+            restoreReplies(j.recoveredReplies());
+            replyLog = j::recordReply;
+        }
+        this.uploads = new UploadSlots(server.maxConcurrentUploads());
+        SampleIngest ingest = new SampleIngest(sessions, metrics, rate, uploads, replies, replyLog, System::nanoTime,
+                System::currentTimeMillis);
         VehicleRoutes vehicles = new VehicleRoutes(sessions, ingest, streams);
         this.app = Javalin.create(config -> configure(config, vehicles));
+    }
+
+    /** Puts the replies the journal kept back in the store; one that cannot be read is left out. */
+    private void restoreReplies(List<SessionJournal.RecoveredReply> recovered) {
+        for (SessionJournal.RecoveredReply r : recovered) {
+            try {
+                IdempotentReplies.Stored s = IdempotentReplies.Stored.decode(r.reply());
+                if (s.vehicleId().equals(r.vehicleId())) {
+                    replies.put(s);
+                }
+            } catch (IOException e) {
+                // Written by another version: a retry with its key is then served like a new request.
+                org.slf4j.LoggerFactory.getLogger(HttpService.class).warn("journal: a kept reply of {} is"
+                        + " unreadable and left out: {}", r.vehicleId(), e.getMessage());
+            }
+        }
+    }
+
+    /** Rate-limit buckets held (count): one per vehicle with a session. */
+    int rateBuckets() {
+        return rate.size();
+    }
+
+    /** Replies kept for retries (count). */
+    int keptReplies() {
+        return replies.size();
     }
 
     private void configure(JavalinConfig config, VehicleRoutes vehicles) {
@@ -80,10 +124,23 @@ public final class HttpService implements AutoCloseable {
         config.jetty.port = server.port();
         config.http.prefer405over404 = true;
         config.http.maxRequestSize = server.maxBodyBytes();
+        long idleMillis = Math.max(1L, Math.round(server.idleTimeoutS() * 1000.0));
         config.jetty.modifyServer(s -> {
             // Jetty 12 waits for requests in flight on stop only with a GracefulHandler in the chain.
             s.insertHandler(new GracefulHandler());
             s.setStopTimeout(STOP_TIMEOUT_MS);
+            // Errors Jetty answers before any route (bad request line, 414, 431, 503 while stopping).
+            s.setErrorHandler(new ProblemErrorHandler());
+        });
+        // The idle timeout bounds each blocked read or write of a request (HttpConfiguration) and each
+        // silent connection (the connector): a client that stops sending or reading is let go.
+        config.jetty.modifyHttpConfiguration(http -> http.setIdleTimeout(idleMillis));
+        config.jetty.addConnector((jetty, http) -> {
+            ServerConnector c = new ServerConnector(jetty, new HttpConnectionFactory(http));
+            c.setHost(server.bind());
+            c.setPort(server.port());
+            c.setIdleTimeout(idleMillis);
+            return c;
         });
         config.events.serverStopping(streams::closeAll);
         config.events.handlerAdded(h -> {
@@ -101,13 +158,20 @@ public final class HttpService implements AutoCloseable {
                     }
                 }
                 rule.exposeHeader("ETag");
+                rule.exposeHeader(VehicleRoutes.IDEMPOTENCY_REPLAYED);
+                rule.exposeHeader("Retry-After");
             }));
         }
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
                 ctx.statusCode(), ms));
 
         LiveView.serve(config);
-        ErrorMapping.install(config.routes, server.maxBodyBytes());
+        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads);
+        if (!server.corsOrigins().isEmpty()) {
+            // Before anything else runs: a write from a page of a disallowed origin is refused unapplied.
+            OriginRule origins = new OriginRule(server.corsOrigins());
+            config.routes.before(origins::check);
+        }
         config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);

@@ -29,6 +29,12 @@ import org.wayhold.session.VehicleSession;
  * whenever nothing was sent for {@code server.sse_keep_alive_s}, which keeps proxies from timing the
  * stream out and reveals clients that have gone away.
  *
+ * <p>At most {@code server.max_streams} streams are open: a slot is reserved before the stream is
+ * started (the stream itself is attached later, on another thread, so counting attached streams would
+ * let a burst of requests past the bound) and freed exactly once when the stream ends. A client that
+ * stops reading is dropped once its queue is full, or, when its writer is blocked in a write, once the
+ * write has made no progress for {@code server.idle_timeout_s} (the connection's idle timeout).
+ *
  * <p>{@link #closeAll()} ends every stream cleanly (the response is completed, not cut), for shutdown and
  * for a deleted vehicle.
  */
@@ -39,13 +45,14 @@ final class PoseStreams {
     /** Poses queued per client before it counts as too slow (count): about 50 s of history at 5 Hz. */
     static final int QUEUE_CAPACITY = 256;
 
-    /** Most open streams (count); each holds a thread, so the number is bounded. */
-    static final int MAX_STREAMS = 256;
-
     /** Queued to wake a writer so that it sees a close request without waiting for its poll to time out. */
     private static final Object WAKE_UP = new Object();
 
     private final long keepAliveMillis;
+    /** Most open streams (count); each holds a thread, so the number is bounded. */
+    private final int maxStreams;
+    /** Slots taken: streams open or being started. */
+    private final AtomicInteger reserved = new AtomicInteger();
     private final Set<Stream> open = ConcurrentHashMap.newKeySet();
     private final AtomicInteger threadNumber = new AtomicInteger();
     private final ExecutorService writers = Executors.newCachedThreadPool(r -> {
@@ -55,9 +62,13 @@ final class PoseStreams {
     });
     private volatile boolean closing;
 
-    /** @param keepAliveS interval of keep-alive comments (s, > 0) */
-    PoseStreams(double keepAliveS) {
+    /**
+     * @param keepAliveS interval of keep-alive comments (s, > 0)
+     * @param maxStreams most open streams (count)
+     */
+    PoseStreams(double keepAliveS, int maxStreams) {
         this.keepAliveMillis = Math.max(1L, Math.round(keepAliveS * 1000.0));
+        this.maxStreams = maxStreams;
     }
 
     int openCount() {
@@ -79,15 +90,34 @@ final class PoseStreams {
         if (closing) {
             throw HttpProblem.unavailable("stream", "stream: the service is shutting down");
         }
-        if (open.size() >= MAX_STREAMS) {
-            throw HttpProblem.unavailable("stream", "stream: all " + MAX_STREAMS + " pose streams are in use");
+        if (reserved.incrementAndGet() > maxStreams) {
+            reserved.decrementAndGet();
+            throw HttpProblem.unavailable("stream", "stream: all " + maxStreams
+                    + " pose streams are in use (server.max_streams)");
         }
-        // A timeout of 0 keeps the asynchronous response open until the stream closes it.
-        new SseHandler(0L, client -> attach(client, vehicleId, session)).handle(ctx);
+        Slot slot = new Slot();
+        try {
+            // A timeout of 0 keeps the asynchronous response open until the stream closes it.
+            new SseHandler(0L, client -> attach(client, vehicleId, session, slot)).handle(ctx);
+        } catch (RuntimeException e) {
+            slot.free();
+            throw e;
+        }
     }
 
-    private void attach(SseClient client, String vehicleId, VehicleSession session) {
-        Stream s = new Stream(client, vehicleId, session);
+    /** One reserved stream slot, freed once. */
+    private final class Slot {
+        private final java.util.concurrent.atomic.AtomicBoolean freed = new java.util.concurrent.atomic.AtomicBoolean();
+
+        void free() {
+            if (freed.compareAndSet(false, true)) {
+                reserved.decrementAndGet();
+            }
+        }
+    }
+
+    private void attach(SseClient client, String vehicleId, VehicleSession session, Slot slot) {
+        Stream s = new Stream(client, vehicleId, session, slot);
         client.keepAlive();
         client.onClose(s::detach);
         open.add(s);
@@ -131,16 +161,18 @@ final class PoseStreams {
         private final SseClient client;
         private final String vehicleId;
         private final VehicleSession session;
+        private final Slot slot;
         /** Poses, and {@link #WAKE_UP} to make the writer look at its flags at once. */
         private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY + 1);
         private volatile boolean closeRequested;
         private volatile boolean overflowed;
         private long eventId;
 
-        Stream(SseClient client, String vehicleId, VehicleSession session) {
+        Stream(SseClient client, String vehicleId, VehicleSession session, Slot slot) {
             this.client = client;
             this.vehicleId = vehicleId;
             this.session = session;
+            this.slot = slot;
         }
 
         /** Called on the feeding thread: never blocks. */
@@ -165,6 +197,7 @@ final class PoseStreams {
         void detach() {
             session.removeListener(this);
             open.remove(this);
+            slot.free();
         }
 
         void write() {

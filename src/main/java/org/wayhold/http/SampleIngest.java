@@ -2,16 +2,28 @@ package org.wayhold.http;
 
 import java.io.IOException;
 import java.io.InputStream;
+import java.security.DigestInputStream;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
+import java.util.Locale;
+import java.util.Optional;
+import java.util.concurrent.CompletableFuture;
+import java.util.function.LongSupplier;
+import java.util.zip.GZIPInputStream;
+import java.util.zip.ZipException;
 import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
 import org.wayhold.ingest.SampleSink;
 import org.wayhold.ingest.UnknownFields;
 import org.wayhold.ordering.Admission;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleType;
+import org.wayhold.session.SessionLog;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -20,14 +32,26 @@ import org.wayhold.settings.ServerSettings;
  * <p>The body is read as a stream and never held whole: lines are parsed one at a time, and valid
  * samples go to the session in chunks of {@link #CHUNK_SAMPLES}, so memory stays bounded whatever the
  * body's size and a dashboard sees a long upload progress. The session is created by the first valid
- * sample, so a body with none leaves no empty session behind.
+ * sample, so a body with none leaves no empty session behind. Rejections are kept with their line
+ * numbers up to {@code ingest.max_listed_rejections} (the first ones in line order) and only counted
+ * beyond that, so a body of nothing but bad lines costs no more memory than a good one.
  *
  * <p>Limits: more than {@code server.max_body_bytes} bytes or {@code server.max_samples_per_request}
  * samples end the request with 413. A body with a {@code Content-Length} over the limit is refused before
  * anything is read; a chunked body is cut where it passes the limit, and the chunks submitted before
- * that point stay applied (the problem says how many samples that was). Resending the whole body is
- * safe: exact duplicates are recognised and ignored by the session. A vehicle that has sent more than
- * its rate allows gets 429 before its body is read ({@link IngestRate}).
+ * that point stay applied (the problem says how many samples that was). A vehicle that has sent more
+ * than its rate allows gets 429 before its body is read ({@link IngestRate}). At most
+ * {@code server.max_concurrent_uploads} bodies are read at once (503 with {@code Retry-After} beyond),
+ * and a body that arrives slower than {@code server.min_body_bytes_per_s} is cut with 408: slow
+ * uploads cannot hold every server thread.
+ *
+ * <p>Encoding: {@code Content-Encoding: gzip} bodies are inflated as they are read, and the size limit
+ * applies to the inflated bytes too, so a small compressed body cannot expand without bound. Other
+ * encodings get 415.
+ *
+ * <p>Retries: a post with an {@code Idempotency-Key} whose reply is kept ({@link IdempotentReplies})
+ * gets that reply again, marked {@code Idempotency-Replayed: true}, and nothing is applied. The reply
+ * is recorded in the session log (the journal) before it is sent, so the key survives a restart.
  *
  * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
  * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
@@ -38,24 +62,65 @@ final class SampleIngest {
     /** Samples per submission to the session (count): large enough to amortise its lock and sort. */
     static final int CHUNK_SAMPLES = 4096;
 
-    /** Most rejections listed in a reply (count); {@code rejected_count} always gives the total. */
-    static final int MAX_LISTED_REJECTIONS = 1000;
-
     /** The body's media type. */
     enum Format { NDJSON, JSON }
 
+    /** The body's content coding (RFC 9110 sec. 8.4.1). */
+    enum Encoding { IDENTITY, GZIP }
+
+    /** Where kept replies are made durable; completes once the record is written. */
+    @FunctionalInterface
+    interface ReplyLog {
+        CompletableFuture<?> record(String vehicleId, byte[] storedReply);
+
+        /** Keeps replies in memory only. */
+        ReplyLog NONE = (vehicleId, reply) -> CompletableFuture.completedFuture(null);
+    }
+
+    /**
+     * One post of samples.
+     *
+     * @param contentLength  the declared body length (bytes), or -1 when not declared
+     * @param idempotencyKey the client's key for retries, or null
+     */
+    record Post(String vehicleId, Format format, Encoding encoding, long contentLength, InputStream body,
+                String idempotencyKey) {
+    }
+
+    /**
+     * The reply to a post.
+     *
+     * @param json     the reply document (UTF-8 JSON)
+     * @param replayed true when it is the kept reply of an earlier post with the same key
+     */
+    record Outcome(byte[] json, boolean replayed) {
+    }
+
     private final SessionRegistry sessions;
     private final ServerSettings limits;
+    private final IngestSettings ingestLimits;
     private final ServiceMetrics metrics;
     private final NdjsonReader reader;
     private final IngestRate rate;
+    private final UploadSlots uploads;
+    private final IdempotentReplies replies;
+    private final ReplyLog replyLog;
+    private final LongSupplier nanoClock;
+    private final LongSupplier wallMillis;
 
-    SampleIngest(SessionRegistry sessions, ServerSettings limits, ServiceMetrics metrics, IngestRate rate) {
+    SampleIngest(SessionRegistry sessions, ServiceMetrics metrics, IngestRate rate, UploadSlots uploads,
+                 IdempotentReplies replies, ReplyLog replyLog, LongSupplier nanoClock, LongSupplier wallMillis) {
         this.sessions = sessions;
-        this.limits = limits;
+        this.limits = sessions.settings().server();
+        this.ingestLimits = sessions.settings().ingest();
         this.metrics = metrics;
-        this.reader = new NdjsonReader(limits.maxLineBytes());
+        this.reader = new NdjsonReader(limits.maxLineBytes(), ingestLimits);
         this.rate = rate;
+        this.uploads = uploads;
+        this.replies = replies;
+        this.replyLog = replyLog;
+        this.nanoClock = nanoClock;
+        this.wallMillis = wallMillis;
     }
 
     /** The format named by a Content-Type header; 415 for anything else. */
@@ -63,7 +128,7 @@ final class SampleIngest {
         if (contentType != null) {
             int semicolon = contentType.indexOf(';');
             String type = (semicolon < 0 ? contentType : contentType.substring(0, semicolon)).strip()
-                    .toLowerCase(java.util.Locale.ROOT);
+                    .toLowerCase(Locale.ROOT);
             switch (type) {
                 case "application/x-ndjson", "application/ndjson", "application/jsonl" -> {
                     return Format.NDJSON;
@@ -79,36 +144,148 @@ final class SampleIngest {
     }
 
     /**
-     * Reads the body and submits its samples.
-     *
-     * @param contentLength the declared body length (bytes), or -1 when not declared
-     * @return the reply document (UTF-8 JSON)
+     * The coding named by a Content-Encoding header: none or {@code identity}, or {@code gzip} (also
+     * as {@code x-gzip}, RFC 9110 sec. 8.4.1.3); 415 for anything else, including a list of codings.
      */
-    byte[] ingest(String vehicleId, Format format, long contentLength, InputStream body) {
-        rate.admit(vehicleId);
-        if (contentLength > limits.maxBodyBytes()) {
-            throw HttpProblem.bodyTooLarge("Content-Length " + contentLength + " is over the limit of "
+    static Encoding encodingOf(String contentEncoding) {
+        if (contentEncoding == null) {
+            return Encoding.IDENTITY;
+        }
+        switch (contentEncoding.strip().toLowerCase(Locale.ROOT)) {
+            case "", "identity" -> {
+                return Encoding.IDENTITY;
+            }
+            case "gzip", "x-gzip" -> {
+                return Encoding.GZIP;
+            }
+            default -> throw HttpProblem.unsupportedEncoding(contentEncoding);
+        }
+    }
+
+    /**
+     * Reads the body and submits its samples; with an idempotency key, first looks for the reply of an
+     * earlier post with that key.
+     */
+    Outcome ingest(Post post) {
+        String id = post.vehicleId();
+        rate.admit(id);
+        if (post.contentLength() > limits.maxBodyBytes()) {
+            throw HttpProblem.bodyTooLarge("Content-Length " + post.contentLength() + " is over the limit of "
                     + limits.maxBodyBytes() + " bytes (server.max_body_bytes)");
         }
-        BlankLines blanks = format == Format.NDJSON ? new BlankLines(body) : null;
-        Batch batch = new Batch(vehicleId, blanks);
+        if (!uploads.tryAcquire()) {
+            throw HttpProblem.busy("body", "body: " + limits.maxConcurrentUploads() + " uploads are being read"
+                    + " (server.max_concurrent_uploads); retry in a second");
+        }
         try {
-            if (format == Format.NDJSON) {
-                reader.read(new BoundedBody(blanks, limits.maxBodyBytes()), batch);
+            return post.idempotencyKey() == null ? new Outcome(read(post, null), false) : keyed(post);
+        } finally {
+            uploads.release();
+        }
+    }
+
+    private Outcome keyed(Post post) {
+        String id = post.vehicleId();
+        String key = post.idempotencyKey();
+        Optional<IdempotentReplies.Stored> kept = replies.find(id, key);
+        if (kept.isEmpty()) {
+            if (!replies.claim(id, key)) {
+                throw HttpProblem.conflict("Idempotency-Key", "Idempotency-Key: a request with this key for '" + id
+                        + "' is still being served; retry once it has been answered");
+            }
+            try {
+                // The original may have finished between the look-up and the claim.
+                kept = replies.find(id, key);
+                if (kept.isEmpty()) {
+                    MessageDigest digest = sha256();
+                    byte[] reply = read(post, digest);
+                    IdempotentReplies.Stored stored = new IdempotentReplies.Stored(id, key, digest.digest(), reply,
+                            wallMillis.getAsLong());
+                    try {
+                        SessionLog.await(replyLog.record(id, stored.encode()));
+                    } catch (IOException e) {
+                        throw HttpProblem.journalUnavailable();
+                    }
+                    replies.put(stored);
+                    return new Outcome(reply, false);
+                }
+            } finally {
+                replies.release(id, key);
+            }
+        }
+        byte[] digest = digestOf(post);
+        if (!MessageDigest.isEqual(digest, kept.get().bodyDigest())) {
+            throw new HttpProblem(422, "idempotency-key-reused", "Idempotency key reused", "Idempotency-Key",
+                    "Idempotency-Key: was used for another body of '" + id + "'; a retry must send the same body,"
+                            + " and a new batch needs a new key");
+        }
+        return new Outcome(kept.get().reply(), true);
+    }
+
+    /** The SHA-256 of a body as received, read to its end (for comparing a retry with its original). */
+    private byte[] digestOf(Post post) {
+        MessageDigest digest = sha256();
+        try (InputStream in = new DigestInputStream(received(post), digest)) {
+            byte[] buf = new byte[16384];
+            while (in.read(buf) >= 0) {
+                // Only the digest is wanted.
+            }
+        } catch (BoundedBody.TooLarge e) {
+            throw HttpProblem.bodyTooLarge("over the limit of " + limits.maxBodyBytes()
+                    + " bytes (server.max_body_bytes)");
+        } catch (BoundedBody.TooSlow e) {
+            throw HttpProblem.bodyTooSlow(slowDetail(0));
+        } catch (IOException e) {
+            throw HttpProblem.invalidParameter("body", "could not be read to its end (the connection ended early"
+                    + " or the transfer coding was broken)");
+        }
+        return digest.digest();
+    }
+
+    /** The body as received, bounded in size and paced by the minimum rate. */
+    private BoundedBody received(Post post) {
+        return new BoundedBody(post.body(), limits.maxBodyBytes(), limits.minBodyBytesPerS(),
+                ServerSettings.BODY_GRACE_S, nanoClock);
+    }
+
+    /**
+     * Reads the body and submits its samples.
+     *
+     * @param digest fed with the body's bytes as received, or null
+     * @return the reply document (UTF-8 JSON)
+     */
+    private byte[] read(Post post, MessageDigest digest) {
+        Batch batch = new Batch(post.vehicleId());
+        try {
+            InputStream in = received(post);
+            if (digest != null) {
+                in = new DigestInputStream(in, digest);
+            }
+            if (post.encoding() == Encoding.GZIP) {
+                // The limit applies to the inflated bytes too: a small body cannot expand without bound.
+                in = new BoundedBody(new GZIPInputStream(in, 16384), limits.maxBodyBytes());
+            }
+            if (post.format() == Format.NDJSON) {
+                reader.read(in, batch);
             } else {
-                reader.readJson(new BoundedBody(body, limits.maxBodyBytes()), batch);
+                reader.readJson(in, batch);
             }
             batch.flush();
         } catch (BoundedBody.TooLarge e) {
-            batch.flush();
-            batch.awaitRecorded();
+            batch.finishEarly();
             throw HttpProblem.bodyTooLarge("over the limit of " + limits.maxBodyBytes()
                     + " bytes (server.max_body_bytes); the " + batch.accepted
                     + " samples read before the limit were accepted");
+        } catch (BoundedBody.TooSlow e) {
+            batch.finishEarly();
+            throw HttpProblem.bodyTooSlow(slowDetail(batch.accepted));
+        } catch (ZipException e) {
+            batch.finishEarly();
+            throw HttpProblem.invalidParameter("body", "is not valid gzip data (Content-Encoding: gzip); the "
+                    + batch.accepted + " samples read before the damage were accepted");
         } catch (IOException e) {
             // The client went away or sent a broken transfer encoding; what arrived whole is kept.
-            batch.flush();
-            batch.awaitRecorded();
+            batch.finishEarly();
             // The detail names no Java class: problem details are for clients (RFC 9457 sec. 3.1.4).
             throw HttpProblem.invalidParameter("body", "could not be read to its end (the connection ended early"
                     + " or the transfer coding was broken); the " + batch.accepted + " samples read before were accepted");
@@ -117,36 +294,50 @@ final class SampleIngest {
         return batch.reply();
     }
 
+    private String slowDetail(long accepted) {
+        return "arrived slower than " + limits.minBodyBytesPerS() + " bytes per second after the first "
+                + ServerSettings.BODY_GRACE_S + " s (server.min_body_bytes_per_s); the " + accepted
+                + " samples read before were accepted";
+    }
+
+    private static MessageDigest sha256() {
+        try {
+            return MessageDigest.getInstance("SHA-256");
+        } catch (NoSuchAlgorithmException e) {
+            // Every Java platform must provide SHA-256 (java.security.MessageDigest, "Standard Algorithms").
+            throw new IllegalStateException("SHA-256 is missing from this Java runtime", e);
+        }
+    }
+
     /** Collects lines, submits full chunks and keeps the tallies of one request. */
     private final class Batch implements SampleSink {
         private final String vehicleId;
-        private final BlankLines blanks;
+        private final int maxListed = ingestLimits.maxListedRejections();
         private final List<SessionRegistry.Submission> submitted = new ArrayList<>();
         private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
-        private long[] chunkLines = new long[CHUNK_SAMPLES];
+        private final long[] chunkLines = new long[CHUNK_SAMPLES];
+        /**
+         * Rejections since the last flush that may still be listed. The reader reports lines in order,
+         * so once this holds as many as there is room left in the listing, a later line can never be
+         * among the first listed; those are only counted.
+         */
         private final List<LineError> pending = new ArrayList<>();
         private final List<LineError> listed = new ArrayList<>();
-        private long line;
         private long samplesRead;
         long accepted;
         long duplicates;
         long rejectedCount;
         UnknownFields unknown = UnknownFields.NONE;
 
-        Batch(String vehicleId, BlankLines blanks) {
+        Batch(String vehicleId) {
             this.vehicleId = vehicleId;
-            this.blanks = blanks;
         }
 
         @Override
-        public void accept(Sample s) {
-            // The reader reports lines in order but gives numbers only to rejected ones: count on from
-            // the last number, stepping over blank lines (NDJSON) that the reader skips silently.
-            line = blanks == null ? line + 1 : blanks.nextNonBlank(line);
+        public void accept(long line, Sample s) {
             samplesRead++;
             if (samplesRead > limits.maxSamplesPerRequest()) {
-                flush();
-                awaitRecorded();
+                finishEarly();
                 throw HttpProblem.bodyTooLarge("more than " + limits.maxSamplesPerRequest()
                         + " samples in one request (server.max_samples_per_request); the " + accepted
                         + " samples read before the limit were accepted");
@@ -165,27 +356,39 @@ final class SampleIngest {
 
         @Override
         public void reject(LineError e) {
-            line = e.line();
-            pending.add(e);
             rejectedCount++;
-            metrics.rejected(ServiceMetrics.UNKNOWN_TYPE, ServiceMetrics.reasonClass(e.reason()));
+            metrics.rejected(null, e.reason());
+            if (pending.size() < maxListed - listed.size()) {
+                pending.add(e);
+            }
         }
 
         void flush() {
             if (!chunk.isEmpty()) {
-                rate.charge(vehicleId, chunk.size());
                 SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
                 submitted.add(s);
+                // Charged once the session exists: a vehicle refused at server.max_sessions gets no bucket.
+                rate.charge(vehicleId, chunk.size());
+                if (sessions.find(vehicleId).isEmpty()) {
+                    // Deleted meanwhile: its bucket must not outlive it.
+                    rate.forget(vehicleId);
+                }
                 tally(s.admissions());
                 chunk.clear();
             }
             pending.sort(Comparator.comparingLong(LineError::line));
             for (LineError e : pending) {
-                if (listed.size() < MAX_LISTED_REJECTIONS) {
+                if (listed.size() < maxListed) {
                     listed.add(e);
                 }
             }
             pending.clear();
+        }
+
+        /** Submits what was read and waits until it is durable: before a problem reply. */
+        void finishEarly() {
+            flush();
+            awaitRecorded();
         }
 
         /**
@@ -205,36 +408,37 @@ final class SampleIngest {
         }
 
         private void tally(List<Admission> admissions) {
-            long[] byTypeAccepted = new long[TYPES.length];
-            long[] byTypeDuplicate = new long[TYPES.length];
+            SampleType[] types = SampleType.values();
+            long[] byTypeAccepted = new long[types.length];
+            long[] byTypeDuplicate = new long[types.length];
             for (int i = 0; i < admissions.size(); i++) {
                 Admission a = admissions.get(i);
-                int type = typeIndex(chunk.get(i));
+                SampleType type = chunk.get(i).type();
                 switch (a.kind()) {
                     case APPLIED -> {
                         accepted++;
-                        byTypeAccepted[type]++;
+                        byTypeAccepted[type.ordinal()]++;
                     }
                     case DUPLICATE -> {
                         accepted++;
                         duplicates++;
-                        byTypeDuplicate[type]++;
+                        byTypeDuplicate[type.ordinal()]++;
                     }
                     case REJECTED -> {
                         rejectedCount++;
-                        pending.add(new LineError(chunkLines[i], a.reason()));
-                        metrics.rejected(TYPES[type], ServiceMetrics.reasonClass(a.reason()));
+                        pending.add(new LineError(chunkLines[i], a.reason(), a.detail()));
+                        metrics.rejected(type, a.reason());
                     }
                 }
             }
-            for (int k = 0; k < TYPES.length; k++) {
-                metrics.accepted(TYPES[k], byTypeAccepted[k]);
-                metrics.duplicates(TYPES[k], byTypeDuplicate[k]);
+            for (SampleType t : types) {
+                metrics.accepted(t, byTypeAccepted[t.ordinal()]);
+                metrics.duplicates(t, byTypeDuplicate[t.ordinal()]);
             }
         }
 
         byte[] reply() {
-            return PoseJson.document(128 + 96 * listed.size(), g -> {
+            return PoseJson.document(128 + 112 * listed.size(), g -> {
                 g.writeStartObject();
                 g.writeNumberField("accepted", accepted);
                 g.writeNumberField("duplicates", duplicates);
@@ -242,7 +446,8 @@ final class SampleIngest {
                 for (LineError e : listed) {
                     g.writeStartObject();
                     g.writeNumberField("line", e.line());
-                    g.writeStringField("error", e.reason());
+                    g.writeStringField("error", e.detail());
+                    g.writeStringField("code", e.reason().code());
                     g.writeEndObject();
                 }
                 g.writeEndArray();
@@ -260,16 +465,5 @@ final class SampleIngest {
                 g.writeEndObject();
             });
         }
-    }
-
-    private static final String[] TYPES = {"gnss", "wheel_speed", "yaw_rate", "reference"};
-
-    private static int typeIndex(Sample s) {
-        return switch (s.typeName()) {
-            case "gnss" -> 0;
-            case "wheel_speed" -> 1;
-            case "yaw_rate" -> 2;
-            default -> 3;
-        };
     }
 }

@@ -20,6 +20,8 @@ import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
 import org.wayhold.BuildInfo;
 import org.wayhold.journal.SessionJournal;
+import org.wayhold.sample.RejectionReason;
+import org.wayhold.sample.SampleType;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.VehicleSession;
 
@@ -30,11 +32,13 @@ import org.wayhold.session.VehicleSession;
  * <ul>
  *   <li>{@code wayhold_samples_accepted_total{type}}: samples applied to a session, by sample type;</li>
  *   <li>{@code wayhold_samples_duplicate_total{type}}: exact duplicates, accepted but ignored;</li>
- *   <li>{@code wayhold_samples_rejected_total{type, reason}}: rejected lines; {@code reason} is the class
- *       {@code malformed} (not a JSON object, bad syntax, line too long), {@code invalid} (a field is
- *       missing or out of range; {@code type} is then {@code unknown} because the line never became a
- *       sample), {@code late} or {@code ahead} (outside the session's time-ordering window), or
- *       {@code off_timeline} (far from the other times of a vehicle's first batch);</li>
+ *   <li>{@code wayhold_samples_rejected_total{type, reason}}: rejected lines; {@code reason} is the code
+ *       of the {@link RejectionReason}: {@code malformed} (not a JSON object, bad syntax, line too long),
+ *       {@code invalid} (a field is missing or out of range), {@code implausible} (a value beyond the
+ *       physical bounds of the {@code ingest} settings) - for these three {@code type} is
+ *       {@code unknown} because the line never became a sample - {@code late} or {@code ahead} (outside
+ *       the session's time-ordering window), or {@code off_timeline} (far from the other times of a
+ *       vehicle's first batch);</li>
  *   <li>{@code wayhold_sessions}: vehicle sessions held;</li>
  *   <li>{@code wayhold_outages_active}: sessions whose latest pose is in a GNSS outage;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
@@ -120,23 +124,28 @@ final class ServiceMetrics implements AutoCloseable {
         return n;
     }
 
-    void accepted(String type, long n) {
+    void accepted(SampleType type, long n) {
         if (n > 0) {
-            counter("wayhold.samples.accepted", "samples applied to a session", "type", type, null, null)
-                    .increment(n);
+            counter("wayhold.samples.accepted", "samples applied to a session", "type", type.metricLabel(), null,
+                    null).increment(n);
         }
     }
 
-    void duplicates(String type, long n) {
+    void duplicates(SampleType type, long n) {
         if (n > 0) {
-            counter("wayhold.samples.duplicate", "exact duplicate samples, accepted and ignored", "type", type,
-                    null, null).increment(n);
+            counter("wayhold.samples.duplicate", "exact duplicate samples, accepted and ignored", "type",
+                    type.metricLabel(), null, null).increment(n);
         }
     }
 
-    void rejected(String type, String reasonClass) {
-        counter("wayhold.samples.rejected", "rejected sample lines", "type", type, "reason", reasonClass)
-                .increment();
+    /**
+     * Counts one rejected line.
+     *
+     * @param type the sample's type, or null for a line that never became a sample ({@link #UNKNOWN_TYPE})
+     */
+    void rejected(SampleType type, RejectionReason reason) {
+        counter("wayhold.samples.rejected", "rejected sample lines", "type",
+                type == null ? UNKNOWN_TYPE : type.metricLabel(), "reason", reason.code()).increment();
     }
 
     /** Records one request's latency; {@code route} is the route template, never the raw path. */
@@ -148,24 +157,6 @@ final class ServiceMetrics implements AutoCloseable {
                 .publishPercentileHistogram()
                 .register(registry));
         t.record((long) (millis * 1e6), TimeUnit.NANOSECONDS);
-    }
-
-    /** The class of a rejection reason for the {@code reason} label (a small, fixed set of values). */
-    static String reasonClass(String reason) {
-        String r = reason.toLowerCase(Locale.ROOT);
-        if (r.startsWith("malformed") || r.startsWith("not a json object") || r.startsWith("line longer")) {
-            return "malformed";
-        }
-        if (r.contains("late by")) {
-            return "late";
-        }
-        if (r.contains("ahead")) {
-            return "ahead";
-        }
-        if (r.contains("median time of the vehicle's first samples")) {
-            return "off_timeline";
-        }
-        return "invalid";
     }
 
     /** The Prometheus text exposition (format 0.0.4). */

@@ -2,6 +2,7 @@ package org.wayhold.http;
 
 import com.fasterxml.jackson.core.JsonGenerator;
 import java.io.IOException;
+import java.util.ArrayList;
 import java.util.List;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
@@ -13,7 +14,8 @@ import org.wayhold.pose.Pose;
  * carries {@code x} and {@code y} in that CRS.
  *
  * <p>GeoJSON: a FeatureCollection whose first feature is a LineString of the whole track (when it has
- * two or more positions) and then one Point feature per pose, its properties the pose JSON. RFC 7946
+ * two or more positions; a MultiLineString cut at the antimeridian when the track crosses it, RFC 7946
+ * sec. 3.1.9) and then one Point feature per pose, its properties the pose JSON. RFC 7946
  * sec. 3.1.1 and 4: positions are [longitude, latitude] in WGS-84 and there is no {@code crs} member,
  * so projected {@code x}, {@code y} appear only among the properties. A pose without a position yet
  * (before the first fix) has {@code "geometry": null}, which sec. 3.2 allows.
@@ -50,14 +52,19 @@ final class TrackJson {
                 g.writeStartObject();
                 g.writeStringField("type", "Feature");
                 g.writeObjectFieldStart("geometry");
-                g.writeStringField("type", "LineString");
-                g.writeArrayFieldStart("coordinates");
-                for (Pose p : poses) {
-                    if (PoseJson.hasPosition(p)) {
-                        position(g, p);
+                List<List<double[]>> parts = cutAtAntimeridian(poses);
+                if (parts.size() == 1) {
+                    g.writeStringField("type", "LineString");
+                    g.writeFieldName("coordinates");
+                    line(g, parts.get(0));
+                } else {
+                    g.writeStringField("type", "MultiLineString");
+                    g.writeArrayFieldStart("coordinates");
+                    for (List<double[]> part : parts) {
+                        line(g, part);
                     }
+                    g.writeEndArray();
                 }
-                g.writeEndArray();
                 g.writeEndObject();
                 g.writeObjectFieldStart("properties");
                 g.writeStringField("vehicle", vehicleId);
@@ -86,6 +93,53 @@ final class TrackJson {
             g.writeEndArray();
             g.writeEndObject();
         });
+    }
+
+    /**
+     * The track's positions as [longitude, latitude] pairs (degrees), cut where it crosses the
+     * antimeridian, as RFC 7946 sec. 3.1.9 asks: "any geometry that crosses the antimeridian SHOULD be
+     * represented by cutting it in two such that neither part's representation crosses the
+     * antimeridian". Two consecutive positions whose longitudes differ by more than 180 degrees are
+     * taken to cross it (a vehicle's track moves far less than half the globe between poses); the cut
+     * ends one part at longitude 180 (or -180) and starts the next at the opposite one, both at the
+     * latitude interpolated linearly in longitude, as the RFC's example does.
+     */
+    static List<List<double[]>> cutAtAntimeridian(List<Pose> poses) {
+        List<List<double[]>> parts = new ArrayList<>();
+        List<double[]> part = new ArrayList<>();
+        double[] previous = null;
+        for (Pose p : poses) {
+            if (!PoseJson.hasPosition(p)) {
+                continue;
+            }
+            double[] here = {p.lonDeg(), p.latDeg()};
+            if (previous != null && Math.abs(here[0] - previous[0]) > 180.0) {
+                // Going east over 180 (here lies west of -180 + ...) or west over -180.
+                double side = previous[0] > 0.0 ? 180.0 : -180.0;
+                double unwrappedLon = here[0] + 2.0 * side;
+                double f = (side - previous[0]) / (unwrappedLon - previous[0]);
+                double crossingLat = previous[1] + f * (here[1] - previous[1]);
+                part.add(new double[] {side, crossingLat});
+                parts.add(part);
+                part = new ArrayList<>();
+                part.add(new double[] {-side, crossingLat});
+            }
+            part.add(here);
+            previous = here;
+        }
+        parts.add(part);
+        return parts;
+    }
+
+    private static void line(JsonGenerator g, List<double[]> positions) throws IOException {
+        g.writeStartArray();
+        for (double[] lonLat : positions) {
+            g.writeStartArray();
+            g.writeNumber(lonLat[0]);
+            g.writeNumber(lonLat[1]);
+            g.writeEndArray();
+        }
+        g.writeEndArray();
     }
 
     /** RFC 7946 sec. 3.1.1: longitude first, then latitude (degrees). */

@@ -57,9 +57,42 @@ final class VehicleRoutes {
     void postSamples(Context ctx) {
         String id = vehicleId(ctx);
         SampleIngest.Format format = SampleIngest.formatOf(ctx.header("Content-Type"));
+        SampleIngest.Encoding encoding = SampleIngest.encodingOf(ctx.header("Content-Encoding"));
+        String key = idempotencyKey(ctx.header(IDEMPOTENCY_KEY));
         long length = ctx.req().getContentLengthLong();
-        byte[] reply = ingest.ingest(id, format, length, ctx.bodyInputStream());
-        ctx.contentType("application/json").result(reply);
+        SampleIngest.Outcome outcome = ingest.ingest(new SampleIngest.Post(id, format, encoding, length,
+                ctx.bodyInputStream(), key));
+        if (outcome.replayed()) {
+            ctx.header(IDEMPOTENCY_REPLAYED, "true");
+        }
+        ctx.contentType("application/json").result(outcome.json());
+    }
+
+    static final String IDEMPOTENCY_KEY = "Idempotency-Key";
+    static final String IDEMPOTENCY_REPLAYED = "Idempotency-Replayed";
+    /** Longest idempotency key (characters): a UUID is 36, so 255 leaves room for any scheme. */
+    static final int MAX_IDEMPOTENCY_KEY_CHARS = 255;
+
+    /**
+     * The key of an {@code Idempotency-Key} header, or null when there is none: 1 to 255 visible ASCII
+     * characters, optionally in double quotes (the header is a Structured Field string in the IETF
+     * httpapi draft; many clients send the bare value).
+     */
+    static String idempotencyKey(String header) {
+        if (header == null) {
+            return null;
+        }
+        String key = header.strip();
+        if (key.length() >= 2 && key.startsWith("\"") && key.endsWith("\"")) {
+            key = key.substring(1, key.length() - 1);
+        }
+        boolean visible = !key.isEmpty() && key.length() <= MAX_IDEMPOTENCY_KEY_CHARS
+                && key.chars().allMatch(c -> c > 0x20 && c < 0x7f && c != '"');
+        if (!visible) {
+            throw HttpProblem.invalidParameter(IDEMPOTENCY_KEY, "must be 1 to " + MAX_IDEMPOTENCY_KEY_CHARS
+                    + " visible ASCII characters (a UUID, say), was '" + clip(header) + "'");
+        }
+        return key;
     }
 
     void getPose(Context ctx) {

@@ -19,8 +19,11 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Optional;
 import java.util.zip.GZIPInputStream;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.Sample;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -42,6 +45,9 @@ import org.wayhold.settings.ServerSettings;
  *   <li>a known field with the wrong JSON type, a missing required field, an unknown {@code type} or
  *       {@code fix}, a field given twice, and any value the sample records refuse are rejected with a
  *       reason that starts with the field name;</li>
+ *   <li>a valid sample with a magnitude beyond the physical bounds of {@link IngestSettings} (a wheel
+ *       speed of 1e300 m/s, a sigma of 1e200 m) is rejected as implausible, the field named, so that it
+ *       never reaches a filter;</li>
  *   <li>unknown fields are ignored whatever their value (forward compatibility: a newer sender may add
  *       fields), and so are known fields that the line's {@code type} does not use; the unknown ones are
  *       counted and reported to the sink once at the end ({@link SampleSink#unknownFields}), so that a
@@ -76,28 +82,39 @@ public final class NdjsonReader {
             .build();
 
     private final int maxLineBytes;
+    private final Plausibility plausibility;
     /** Whether common lines go through {@link SampleDecoder#decodeFlat} before any JSON parser. */
     private final boolean flatLines;
 
-    /** A reader with the service's default line limit ({@link ServerSettings#defaults()}). */
+    /** A reader with the service's default line limit and bounds ({@link ServerSettings#defaults()}, {@link IngestSettings#defaults()}). */
     public NdjsonReader() {
         this(ServerSettings.defaults().maxLineBytes());
     }
 
     /** @param maxLineBytes longest accepted line, without its line terminator (bytes, >= 1) */
     public NdjsonReader(int maxLineBytes) {
-        this(maxLineBytes, true);
+        this(maxLineBytes, IngestSettings.defaults());
     }
 
     /**
      * @param maxLineBytes longest accepted line, without its line terminator (bytes, >= 1)
+     * @param limits       the physical bounds a sample must keep to
+     */
+    public NdjsonReader(int maxLineBytes, IngestSettings limits) {
+        this(maxLineBytes, limits, true);
+    }
+
+    /**
+     * @param maxLineBytes longest accepted line, without its line terminator (bytes, >= 1)
+     * @param limits       the physical bounds a sample must keep to
      * @param flatLines    false sends every line through the JSON parser: tests compare both roads
      */
-    NdjsonReader(int maxLineBytes, boolean flatLines) {
+    NdjsonReader(int maxLineBytes, IngestSettings limits, boolean flatLines) {
         if (maxLineBytes < 1) {
             throw new IllegalArgumentException("maxLineBytes: must be at least 1 byte, was " + maxLineBytes);
         }
         this.maxLineBytes = maxLineBytes;
+        this.plausibility = new Plausibility(limits);
         this.flatLines = flatLines;
     }
 
@@ -135,10 +152,28 @@ public final class NdjsonReader {
      * with the gzip magic bytes is decompressed on the fly.
      */
     public static void readFile(Path p, SampleSink sink) throws IOException {
-        NdjsonReader reader = new NdjsonReader();
+        new NdjsonReader().readPath(p, sink);
+    }
+
+    /** Reads an NDJSON file with this reader, decompressing it as {@link #readFile} does. */
+    public void readPath(Path p, SampleSink sink) throws IOException {
         try (InputStream in = openMaybeGzip(p)) {
-            reader.read(in, sink);
+            read(in, sink);
         }
+    }
+
+    /** Reads a whole NDJSON file into memory with a default reader, decompressing as {@link #readFile} does. */
+    public static ReadResult readFileAll(Path p) throws IOException {
+        Collector c = new Collector();
+        readFile(p, c);
+        return new ReadResult(c.samples, c.rejected, c.unknown);
+    }
+
+    /** Reads a whole {@code application/json} body into memory ({@link #readJson}). */
+    public ReadResult readAllJson(InputStream in) throws IOException {
+        Collector c = new Collector();
+        readJson(in, c);
+        return new ReadResult(c.samples, c.rejected, c.unknown);
     }
 
     /** Reads all of {@code in} into memory; I/O failures are rethrown unchecked. */
@@ -167,7 +202,7 @@ public final class NdjsonReader {
             p.disable(JsonParser.Feature.AUTO_CLOSE_SOURCE);
             JsonToken first = p.nextToken();
             if (first == null) {
-                sink.reject(new LineError(1, "malformed JSON: the body is empty"));
+                sink.reject(new LineError(1, RejectionReason.MALFORMED, "malformed JSON: the body is empty"));
                 return;
             }
             if (first == JsonToken.START_ARRAY) {
@@ -183,31 +218,45 @@ public final class NdjsonReader {
                 index++;
             }
             if (p.nextToken() != null) {
-                sink.reject(new LineError(index, "malformed JSON: more content after the end of the body"));
+                sink.reject(new LineError(index, RejectionReason.MALFORMED,
+                        "malformed JSON: more content after the end of the body"));
             }
         } catch (JsonProcessingException e) {
             // Inside an array the index is 0 until the first element starts: a syntax error there (such
             // as "[}") belongs to element 1, and line numbers are 1-based.
-            sink.reject(new LineError(Math.max(1, index), malformed(e)));
+            sink.reject(new LineError(Math.max(1, index), RejectionReason.MALFORMED, malformed(e)));
         }
         reportUnknown(decoder, sink);
     }
 
-    private static void readElement(JsonParser p, JsonToken first, SampleDecoder decoder, long index,
-                                    SampleSink sink) throws IOException {
+    private void readElement(JsonParser p, JsonToken first, SampleDecoder decoder, long index, SampleSink sink)
+            throws IOException {
         if (first != JsonToken.START_OBJECT) {
             p.skipChildren();
-            sink.reject(new LineError(index, SampleDecoder.notAnObject(first)));
+            sink.reject(new LineError(index, RejectionReason.MALFORMED, SampleDecoder.notAnObject(first)));
             return;
         }
         Sample s;
         try {
             s = decoder.decode(p);
         } catch (IllegalArgumentException e) {
-            sink.reject(new LineError(index, e.getMessage()));
+            sink.reject(new LineError(index, RejectionReason.INVALID, e.getMessage()));
             return;
         }
-        sink.accept(s);
+        deliver(index, s, sink);
+    }
+
+    /**
+     * Hands a decoded sample to the sink, or rejects it when a value lies beyond the physical bounds:
+     * the one place where both roads of a line, and JSON bodies, meet.
+     */
+    private void deliver(long line, Sample s, SampleSink sink) {
+        Optional<String> implausible = plausibility.violation(s);
+        if (implausible.isPresent()) {
+            sink.reject(new LineError(line, RejectionReason.IMPLAUSIBLE, implausible.get()));
+        } else {
+            sink.accept(line, s);
+        }
     }
 
     private static InputStream openMaybeGzip(Path p) throws IOException {
@@ -240,30 +289,28 @@ public final class NdjsonReader {
     }
 
     /** Decodes a common line from its bytes; returns false when the JSON parser must read it. */
-    private static boolean decodeFlat(byte[] buf, int from, int to, long line, SampleDecoder decoder,
-                                      SampleSink sink) {
+    private boolean decodeFlat(byte[] buf, int from, int to, long line, SampleDecoder decoder, SampleSink sink) {
         Sample s;
         try {
             s = decoder.decodeFlat(buf, from, to);
         } catch (IllegalArgumentException e) {
-            sink.reject(new LineError(line, e.getMessage()));
+            sink.reject(new LineError(line, RejectionReason.INVALID, e.getMessage()));
             return true;
         }
         if (s == null) {
             return false;
         }
-        sink.accept(s);
+        deliver(line, s, sink);
         return true;
     }
 
     /** Parses one line that has passed the length and blank checks. */
-    private static void parseLine(byte[] buf, int from, int to, long line, SampleDecoder decoder,
-                                  SampleSink sink) {
+    private void parseLine(byte[] buf, int from, int to, long line, SampleDecoder decoder, SampleSink sink) {
         Sample s;
         try (JsonParser p = FACTORY.createParser(buf, from, to - from)) {
             JsonToken first = p.nextToken();
             if (first != JsonToken.START_OBJECT) {
-                sink.reject(new LineError(line, SampleDecoder.notAnObject(first)));
+                sink.reject(new LineError(line, RejectionReason.MALFORMED, SampleDecoder.notAnObject(first)));
                 return;
             }
             String semanticError = null;
@@ -275,23 +322,24 @@ public final class NdjsonReader {
             }
             // Only one object per line: anything after it makes the whole line malformed.
             if (p.nextToken() != null) {
-                sink.reject(new LineError(line, "malformed JSON: more content after the object"));
+                sink.reject(new LineError(line, RejectionReason.MALFORMED,
+                        "malformed JSON: more content after the object"));
                 return;
             }
             if (semanticError != null) {
-                sink.reject(new LineError(line, semanticError));
+                sink.reject(new LineError(line, RejectionReason.INVALID, semanticError));
                 return;
             }
             s = decoded;
         } catch (JsonProcessingException e) {
-            sink.reject(new LineError(line, malformed(e)));
+            sink.reject(new LineError(line, RejectionReason.MALFORMED, malformed(e)));
             return;
         } catch (IOException e) {
             // A parser over a byte array does no I/O; anything else it throws is a malformed line.
-            sink.reject(new LineError(line, "malformed JSON: " + e.getMessage()));
+            sink.reject(new LineError(line, RejectionReason.MALFORMED, "malformed JSON: " + e.getMessage()));
             return;
         }
-        sink.accept(s);
+        deliver(line, s, sink);
     }
 
     private static boolean isBlank(byte[] buf, int from, int to) {
@@ -375,7 +423,8 @@ public final class NdjsonReader {
                 from += UTF8_BOM.length;
             }
             if (tooLong || to - from > maxLineBytes) {
-                sink.reject(new LineError(number, "line longer than " + maxLineBytes + " bytes"));
+                sink.reject(new LineError(number, RejectionReason.MALFORMED, "line longer than " + maxLineBytes
+                        + " bytes"));
                 return;
             }
             if (isBlank(buf, from, to)) {
@@ -422,7 +471,7 @@ public final class NdjsonReader {
         private UnknownFields unknown = UnknownFields.NONE;
 
         @Override
-        public void accept(Sample s) {
+        public void accept(long line, Sample s) {
             samples.add(s);
         }
 

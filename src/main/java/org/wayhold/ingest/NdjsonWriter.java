@@ -60,7 +60,7 @@ public final class NdjsonWriter implements Closeable, Flushable {
     /** Writes one sample as one line. */
     public void write(Sample s) throws IOException {
         out.writeStartObject();
-        out.writeStringField("type", s.typeName());
+        out.writeStringField("type", s.type().wireName());
         out.writeNumberField("t", s.t());
         if (s instanceof GnssFix g) {
             out.writeNumberField("lat", g.latDeg());

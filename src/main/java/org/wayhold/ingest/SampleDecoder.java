@@ -10,6 +10,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleType;
 import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
@@ -55,24 +56,16 @@ final class SampleDecoder {
         " of seconds", null, " of degrees", " of degrees", " of metres", " of metres", " of metres", null, null,
         "", " of m/s", " of degrees", " of rad/s", " of degrees"};
 
-    private static final String TYPES = "gnss, wheel_speed, yaw_rate, reference";
+    private static final String TYPES = SampleType.listed();
 
     /** Longest piece of a bad string value quoted back in a message (characters). */
     private static final int QUOTE_LIMIT = 40;
 
     /** Wire names as ASCII bytes, indexed like {@link #NAMES}, for {@link #decodeFlat}. */
     private static final byte[][] NAME_BYTES = new byte[NAMES.length][];
-    private static final String GNSS = "gnss";
-    private static final String WHEEL_SPEED = "wheel_speed";
-    private static final String YAW_RATE = "yaw_rate";
-    private static final String REFERENCE = "reference";
-    /** The sample types, indexed by the KIND_ constants below. */
-    private static final String[] TYPE_NAMES = {GNSS, WHEEL_SPEED, YAW_RATE, REFERENCE};
-    private static final int KIND_GNSS = 0;
-    private static final int KIND_WHEEL_SPEED = 1;
-    private static final int KIND_YAW_RATE = 2;
-    private static final int KIND_REFERENCE = 3;
-    private static final byte[][] TYPE_BYTES = new byte[TYPE_NAMES.length][];
+    private static final SampleType[] TYPES_KNOWN = SampleType.values();
+    /** Wire names of the sample types as ASCII bytes, indexed like {@link #TYPES_KNOWN}. */
+    private static final byte[][] TYPE_BYTES = new byte[TYPES_KNOWN.length][];
     private static final FixType[] FIX_TYPES = FixType.values();
     private static final byte[][] FIX_BYTES = new byte[FIX_TYPES.length][];
     private static final byte[] NULL_BYTES = ascii("null");
@@ -100,8 +93,8 @@ final class SampleDecoder {
             NAMES_BY_FIRST_BYTE[c] = java.util.stream.IntStream.range(0, NAMES.length)
                     .filter(f -> NAMES[f].charAt(0) == first).toArray();
         }
-        for (int i = 0; i < TYPE_NAMES.length; i++) {
-            TYPE_BYTES[i] = ascii(TYPE_NAMES[i]);
+        for (int i = 0; i < TYPES_KNOWN.length; i++) {
+            TYPE_BYTES[i] = ascii(TYPES_KNOWN[i].wireName());
         }
         for (int i = 0; i < FIX_TYPES.length; i++) {
             FIX_BYTES[i] = ascii(FIX_TYPES[i].wireName());
@@ -116,8 +109,8 @@ final class SampleDecoder {
     private FixType fixType;
     private int sats;
     private String error;
-    /** Index into {@link #TYPE_NAMES} when {@link #decodeFlat} read the type, else -1. */
-    private int typeIndex;
+    /** The type when {@link #decodeFlat} read it, else null. */
+    private SampleType flatType;
     /** Lines so far that carried a field of no sample type, and the first such names. */
     private long unknownLines;
     private final java.util.LinkedHashSet<String> unknownNames = new java.util.LinkedHashSet<>();
@@ -182,7 +175,7 @@ final class SampleDecoder {
         type = null;
         fix = null;
         fixType = null;
-        typeIndex = -1;
+        flatType = null;
         sats = -1;
         error = null;
         Arrays.fill(numbers, Double.NaN);
@@ -279,8 +272,8 @@ final class SampleDecoder {
         if (field == TYPE) {
             for (int k = 0; k < TYPE_BYTES.length; k++) {
                 if (equalsAt(b, i + 1, end, TYPE_BYTES[k])) {
-                    type = TYPE_NAMES[k];
-                    typeIndex = k;
+                    flatType = TYPES_KNOWN[k];
+                    type = flatType.wireName();
                     return end + 1;
                 }
             }
@@ -484,29 +477,37 @@ final class SampleDecoder {
         if (type == null) {
             throw new IllegalArgumentException("type: missing, every sample needs one of " + TYPES);
         }
-        int kind = typeIndex >= 0 ? typeIndex : Arrays.asList(TYPE_NAMES).indexOf(type);
+        SampleType kind = flatType != null ? flatType : knownType(type);
         switch (kind) {
-            case KIND_GNSS -> {
+            case GNSS -> {
                 require(T, LAT, LON);
                 FixType f = fixType != null ? fixType : fix == null ? FixType.THREE_D : FixType.fromWireName(fix);
                 return new GnssFix(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[SIGMA_H],
                         numbers[SIGMA_V], f, sats, numbers[HDOP], numbers[SPEED], numbers[COURSE]);
             }
-            case KIND_WHEEL_SPEED -> {
+            case WHEEL_SPEED -> {
                 require(T, SPEED);
                 return new WheelSpeed(numbers[T], numbers[SPEED]);
             }
-            case KIND_YAW_RATE -> {
+            case YAW_RATE -> {
                 require(T, RATE);
                 return new YawRate(numbers[T], numbers[RATE]);
             }
-            case KIND_REFERENCE -> {
+            case REFERENCE -> {
                 require(T, LAT, LON);
                 return new ReferencePoint(numbers[T], numbers[LAT], numbers[LON], numbers[ALT], numbers[HEADING]);
             }
-            default -> throw new IllegalArgumentException("type: unknown sample type " + quote(type)
-                    + ", expected one of " + TYPES);
+            default -> throw new IllegalStateException("type: no decoding for " + kind);
         }
+    }
+
+    private static SampleType knownType(String name) {
+        for (SampleType t : TYPES_KNOWN) {
+            if (t.wireName().equals(name)) {
+                return t;
+            }
+        }
+        throw new IllegalArgumentException("type: unknown sample type " + quote(name) + ", expected one of " + TYPES);
     }
 
     private void require(int... fields) {

@@ -5,8 +5,13 @@ import org.wayhold.sample.Sample;
 /** Receives the outcome of every non-blank input line, in input order. */
 public interface SampleSink {
 
-    /** A line that parsed into a valid sample. */
-    void accept(Sample s);
+    /**
+     * A line that parsed into a valid sample.
+     *
+     * @param line 1-based line number in an NDJSON input (blank lines count), or 1-based index of the
+     *             element in a JSON array
+     */
+    void accept(long line, Sample s);
 
     /** A line that was rejected; reading goes on with the next line. */
     void reject(LineError e);

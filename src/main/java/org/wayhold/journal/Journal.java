@@ -44,6 +44,8 @@ public final class Journal implements Closeable {
     private static final int SNAPSHOT_MAGIC = 0x57485331; // "WHS1"
     private static final byte KIND_BATCH = 1;
     private static final byte KIND_DELETE = 2;
+    /** A reply kept for retries: no session state, it rides along so that it survives a restart. */
+    private static final byte KIND_REPLY = 3;
     /** Largest record accepted when reading (bytes): anything longer is a corrupt length field. */
     private static final int MAX_RECORD_BYTES = 256 * 1024 * 1024;
     private static final int HEADER_BYTES = 8;
@@ -81,6 +83,21 @@ public final class Journal implements Closeable {
 
         /** Re-applies a journaled deletion of a session. */
         void delete(String vehicleId, long seq);
+
+        /**
+         * Hands over a journaled reply ({@link #appendReply}). Replies are no session state, so every
+         * reply record still in the journal comes here, in journal order, whether or not a snapshot
+         * covers its position.
+         */
+        default void reply(String vehicleId, byte[] reply) {
+        }
+
+        /**
+         * Says that a vehicle's session was deleted at this point of the journal, whether or not a
+         * snapshot covers the deletion: the replies handed over for it before are void.
+         */
+        default void repliesVoided(String vehicleId) {
+        }
     }
 
     /** One session's part of a snapshot. */
@@ -160,7 +177,19 @@ public final class Journal implements Closeable {
                 String vehicle = in.readUTF();
                 Long vehicleCovered = covered.get(vehicle);
                 boolean apply = vehicleCovered != null ? seq > vehicleCovered : seq >= floor;
-                if (!apply) {
+                if (kind == KIND_DELETE) {
+                    target.repliesVoided(vehicle);
+                }
+                if (kind == KIND_REPLY) {
+                    int length = in.readInt();
+                    if (length < 0 || length > payload.length) {
+                        throw new IOException("journal: reply of " + length + " bytes in a record of "
+                                + payload.length + " in " + p.getFileName());
+                    }
+                    byte[] reply = new byte[length];
+                    in.readFully(reply);
+                    target.reply(vehicle, reply);
+                } else if (!apply) {
                     skipped++;
                 } else if (kind == KIND_BATCH) {
                     int n = in.readInt();
@@ -245,6 +274,26 @@ public final class Journal implements Closeable {
             for (Sample s : batch) {
                 SampleCodec.write(out, s);
             }
+            out.flush();
+            return enqueue(bytes.toByteArray());
+        } catch (IOException e) {
+            return CompletableFuture.failedFuture(e);
+        }
+    }
+
+    /**
+     * Queues a reply the service keeps for retries of a vehicle's request (opaque bytes); same contract
+     * as {@link #append}, but it is no session state: recovery hands it to
+     * {@link RecoveryTarget#reply} wherever it lies, and it lives as long as its segment is kept.
+     */
+    public CompletableFuture<Long> appendReply(String vehicleId, byte[] reply) {
+        try {
+            ByteArrayOutputStream bytes = new ByteArrayOutputStream(16 + reply.length);
+            DataOutputStream out = new DataOutputStream(bytes);
+            out.writeByte(KIND_REPLY);
+            out.writeUTF(vehicleId);
+            out.writeInt(reply.length);
+            out.write(reply);
             out.flush();
             return enqueue(bytes.toByteArray());
         } catch (IOException e) {

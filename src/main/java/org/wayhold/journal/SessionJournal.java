@@ -58,11 +58,16 @@ public final class SessionJournal implements Closeable {
                          long nextSeq, long snapshotsWritten, double lastSnapshotAgeS, String lastSnapshotError) {
     }
 
+    /** A reply kept for retries that recovery found in the journal ({@link #recordReply}). */
+    public record RecoveredReply(String vehicleId, byte[] reply) {
+    }
+
     private final Path dir;
     private final JournalSettings settings;
     private final Journal journal;
     private final SessionRegistry sessions;
     private final Journal.RecoveryReport recovery;
+    private final List<RecoveredReply> recoveredReplies;
     private final Object snapshotLock = new Object();
     private ScheduledExecutorService snapshots;
     private volatile long snapshotsWritten;
@@ -72,12 +77,13 @@ public final class SessionJournal implements Closeable {
     private volatile boolean closed;
 
     private SessionJournal(Path dir, JournalSettings settings, Journal journal, SessionRegistry sessions,
-                           Journal.RecoveryReport recovery) {
+                           Journal.RecoveryReport recovery, List<RecoveredReply> recoveredReplies) {
         this.dir = dir;
         this.settings = settings;
         this.journal = journal;
         this.sessions = sessions;
         this.recovery = recovery;
+        this.recoveredReplies = recoveredReplies;
     }
 
     /**
@@ -105,8 +111,9 @@ public final class SessionJournal implements Closeable {
         });
         Journal.RecoveryReport report;
         boolean recovered = false;
+        Restorer restorer = new Restorer(sessions, new Replies(settings.ingest().idempotencyMaxBytes()));
         try {
-            report = journal.recover(new Restorer(sessions));
+            report = journal.recover(restorer);
             recovered = true;
         } catch (UncheckedIOException e) {
             throw e.getCause();
@@ -115,7 +122,7 @@ public final class SessionJournal implements Closeable {
                 journal.close();
             }
         }
-        return new SessionJournal(dir, settings.journal(), journal, sessions, report);
+        return new SessionJournal(dir, settings.journal(), journal, sessions, report, restorer.replies().list());
     }
 
     private static final Logger LOG = LoggerFactory.getLogger(SessionJournal.class);
@@ -130,8 +137,55 @@ public final class SessionJournal implements Closeable {
         return appended;
     }
 
+    /**
+     * Replies found by recovery, in journal order, dropped when their vehicle's deletion follows and,
+     * oldest first, beyond a byte bound (the service keeps no more than that anyway).
+     */
+    private static final class Replies {
+        private final long maxBytes;
+        private final java.util.ArrayDeque<RecoveredReply> kept = new java.util.ArrayDeque<>();
+        private long bytes;
+
+        Replies(long maxBytes) {
+            this.maxBytes = maxBytes;
+        }
+
+        void add(RecoveredReply r) {
+            kept.addLast(r);
+            bytes += r.reply().length;
+            while (bytes > maxBytes && !kept.isEmpty()) {
+                bytes -= kept.pollFirst().reply().length;
+            }
+        }
+
+        void voidVehicle(String vehicleId) {
+            kept.removeIf(r -> {
+                boolean drop = r.vehicleId().equals(vehicleId);
+                if (drop) {
+                    bytes -= r.reply().length;
+                }
+                return drop;
+            });
+        }
+
+        List<RecoveredReply> list() {
+            return List.copyOf(kept);
+        }
+    }
+
     /** Applies what recovery reads, bypassing the log (it is already in the journal). */
-    private record Restorer(SessionRegistry sessions) implements Journal.RecoveryTarget {
+    private record Restorer(SessionRegistry sessions, Replies replies) implements Journal.RecoveryTarget {
+
+        @Override
+        public void reply(String vehicleId, byte[] reply) {
+            replies.add(new RecoveredReply(vehicleId, reply));
+        }
+
+        @Override
+        public void repliesVoided(String vehicleId) {
+            replies.voidVehicle(vehicleId);
+        }
+
         @Override
         public void restore(String vehicleId, byte[] snapshot) {
             try {
@@ -171,6 +225,23 @@ public final class SessionJournal implements Closeable {
     /** The registry to serve: restored, and recording every change in the journal. */
     public SessionRegistry sessions() {
         return sessions;
+    }
+
+    /**
+     * Records a reply that the service keeps for retries of a vehicle's request, so that it survives a
+     * restart ({@link #recoveredReplies}); the future completes once it is durable. Call after the
+     * request's batches were recorded.
+     */
+    public CompletableFuture<?> recordReply(String vehicleId, byte[] reply) {
+        return journal.appendReply(vehicleId, reply);
+    }
+
+    /**
+     * The replies recorded by {@link #recordReply} that the journal still holds, oldest first, without
+     * those of vehicles deleted after them; at most {@code ingest.idempotency_max_bytes} of them.
+     */
+    public List<RecoveredReply> recoveredReplies() {
+        return recoveredReplies;
     }
 
     /** What {@link #open} restored and cut. */

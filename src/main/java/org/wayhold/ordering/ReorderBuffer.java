@@ -11,6 +11,7 @@ import java.util.Deque;
 import java.util.Iterator;
 import java.util.List;
 import java.util.Locale;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.SampleCodec;
 import org.wayhold.settings.OrderingSettings;
@@ -136,7 +137,7 @@ public final class ReorderBuffer<C> {
                 result[i] = keptResult.get(k++);
             } else {
                 rejected++;
-                result[i] = Admission.rejected(String.format(Locale.ROOT,
+                result[i] = Admission.rejected(RejectionReason.OFF_TIMELINE, String.format(Locale.ROOT,
                         "t: %.3f s from the median time of the vehicle's first samples (%.3f s), more than the"
                                 + " allowed %.3f s", Math.abs(batch.get(i).t() - median), median, maxForwardJumpS));
             }
@@ -191,11 +192,11 @@ public final class ReorderBuffer<C> {
         int n = batch.size();
         double[] times = new double[n];
         double prevT = newest == null ? Double.NaN : newest.t();
-        int prevRank = newest == null ? -1 : SampleOrder.rank(newest);
+        int prevRank = newest == null ? -1 : newest.type().rank();
         for (int i = 0; i < n; i++) {
             Sample s = batch.get(i);
             double t = s.t();
-            int rank = SampleOrder.rank(s);
+            int rank = s.type().rank();
             if (!Double.isNaN(prevT)) {
                 int byTime = Double.compare(t, prevT);
                 if (byTime < 0 || (byTime == 0 && rank <= prevRank) || t - prevT > maxForwardJumpS) {
@@ -257,11 +258,15 @@ public final class ReorderBuffer<C> {
         if (!Double.isNaN(newestT)) {
             double lateS = newestT - s.t();
             if (lateS > maxLagS) {
-                return Admission.rejected(String.format(Locale.ROOT,
+                // A retry of something applied long ago is harmless: say so where the consumer can tell.
+                if (consumer.alreadyApplied(s)) {
+                    return Admission.DUPLICATE;
+                }
+                return Admission.rejected(RejectionReason.LATE, String.format(Locale.ROOT,
                         "t: late by %.3f s, more than the reorder window of %.3f s", lateS, maxLagS));
             }
             if (-lateS > maxForwardJumpS) {
-                return Admission.rejected(String.format(Locale.ROOT,
+                return Admission.rejected(RejectionReason.AHEAD, String.format(Locale.ROOT,
                         "t: %.3f s ahead of the session's newest sample, more than the allowed %.3f s",
                         -lateS, maxForwardJumpS));
             }

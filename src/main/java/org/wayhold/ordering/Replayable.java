@@ -17,4 +17,13 @@ public interface Replayable<C> {
 
     /** Returns to a captured state. */
     void restore(C checkpoint);
+
+    /**
+     * Whether an exact copy of this sample was applied before, as far as the consumer's own records
+     * tell (for samples older than the reorder window, which keeps no samples of its own). False when
+     * it cannot tell.
+     */
+    default boolean alreadyApplied(Sample sample) {
+        return false;
+    }
 }

@@ -1,6 +1,7 @@
 package org.wayhold.pipeline;
 
 import org.wayhold.pose.Pose;
+import org.wayhold.sample.GnssFix;
 
 /**
  * Where a {@link VehicleTrack} puts what it produces: poses at history points and the filter's
@@ -17,6 +18,15 @@ public interface TrackOutput {
 
     /** Everything produced after {@code tS} (s, vehicle clock) is void; -infinity voids everything. */
     void rewoundTo(double tS);
+
+    /**
+     * Whether this output still holds an exact copy of a fix it was given (a fix log remembers the
+     * recent ones); lets the time ordering count a late copy of an applied fix as a duplicate. False
+     * when it cannot tell.
+     */
+    default boolean holds(GnssFix fix) {
+        return false;
+    }
 
     /** Drops everything: for branches and passes that only need the filter's state. */
     TrackOutput NONE = new TrackOutput() {

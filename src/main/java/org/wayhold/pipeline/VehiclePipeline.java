@@ -10,7 +10,9 @@ import org.wayhold.ordering.Admission;
 import org.wayhold.ordering.ReorderBuffer;
 import org.wayhold.ordering.Replayable;
 import org.wayhold.pose.Pose;
+import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleType;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
 
@@ -50,6 +52,11 @@ public final class VehiclePipeline {
             public void restore(VehicleTrack.Checkpoint checkpoint) {
                 track.restore(checkpoint);
             }
+
+            @Override
+            public boolean alreadyApplied(Sample sample) {
+                return sample instanceof GnssFix g && output.holds(g);
+            }
         }, settings.ordering());
     }
 
@@ -82,9 +89,9 @@ public final class VehiclePipeline {
         return ordering.newestT();
     }
 
-    /** Applied samples of a type: 0 wheel speed, 1 yaw rate, 2 GNSS, 3 reference (count). */
-    public long applied(int typeIndex) {
-        return track.applied(typeIndex);
+    /** Applied samples of a type (count). */
+    public long applied(SampleType type) {
+        return track.applied(type);
     }
 
     public long duplicates() {

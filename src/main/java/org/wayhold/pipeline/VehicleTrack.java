@@ -16,6 +16,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleType;
 import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 import org.wayhold.settings.Settings;
@@ -50,8 +51,8 @@ public final class VehicleTrack {
     private double epochT = Double.NaN;
     private LocalFrame frame;
     private double lastHistoryTRel = Double.NEGATIVE_INFINITY;
-    /** Applied samples by type: wheel speed, yaw rate, GNSS, reference. */
-    private final long[] appliedByType = new long[4];
+    /** Applied samples, by {@link SampleType} ordinal. */
+    private final long[] appliedByType = new long[SampleType.values().length];
 
     /**
      * @param settings         filter, gating, outage and history settings
@@ -119,18 +120,15 @@ public final class VehicleTrack {
         double tRel = sample.t() - epochT;
         filter.predictTo(tRel);
         GnssOutcome.Kind outcome = null;
+        appliedByType[sample.type().ordinal()]++;
         if (sample instanceof WheelSpeed w) {
             filter.setWheelSpeed(w.speedMps());
-            appliedByType[0]++;
         } else if (sample instanceof YawRate y) {
             filter.setYawRate(y.yawRateRadPerS());
-            appliedByType[1]++;
         } else if (fix != null) {
             outcome = correct(fix);
-            appliedByType[2]++;
         } else if (sample instanceof ReferencePoint) {
             // Reference points are for scoring only: they reach the filter only as time.
-            appliedByType[3]++;
             return null;
         } else {
             throw new IllegalArgumentException("type: unknown sample type " + sample.getClass().getSimpleName());
@@ -215,9 +213,9 @@ public final class VehicleTrack {
         return profile;
     }
 
-    /** Applied samples of a type: 0 wheel speed, 1 yaw rate, 2 GNSS, 3 reference (count). */
-    long applied(int typeIndex) {
-        return appliedByType[typeIndex];
+    /** Applied samples of a type (count). */
+    long applied(SampleType type) {
+        return appliedByType[type.ordinal()];
     }
 
     /** An immutable capture of the whole state, for returning to it. */

@@ -1,5 +1,6 @@
 package org.wayhold.pose;
 
+import java.util.Optional;
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.GnssOutcome;
 import org.wayhold.filter.Reason;
@@ -71,6 +72,21 @@ public final class PoseAssembler {
     }
 
     /**
+     * The geodetic position of the snapshot's ENU position, or empty when it has none: fixes thousands
+     * of kilometres from the frame's origin (a receiver reporting 0, 0 while it has no solution, say)
+     * can, once they agree with each other, move the estimate so far along the tangent plane that it
+     * lies near the centre of the Earth, where geodetic coordinates are not defined. Such a pose keeps
+     * its ENU position and reports no latitude and longitude rather than failing the whole batch.
+     */
+    private static Optional<Geodetic> geodetic(LocalFrame frame, FilterSnapshot s) {
+        try {
+            return Optional.of(frame.toGeodetic(s.eastM(), s.northM(), s.upM()));
+        } catch (IllegalArgumentException e) {
+            return Optional.empty();
+        }
+    }
+
+    /**
      * Builds the pose of a snapshot.
      *
      * @param s      the filter's snapshot
@@ -90,14 +106,14 @@ public final class PoseAssembler {
         double lon = Double.NaN;
         double alt = Double.NaN;
         Geodetic origin = null;
-        if (frame != null && Double.isFinite(s.eastM()) && Double.isFinite(s.northM())) {
-            Geodetic g = frame.toGeodetic(s.eastM(), s.northM(), s.upM());
-            lat = g.latDeg();
-            lon = g.lonDeg();
-            alt = g.altM();
-        }
         if (frame != null) {
             origin = frame.origin();
+            Optional<Geodetic> g = geodetic(frame, s);
+            if (g.isPresent()) {
+                lat = g.get().latDeg();
+                lon = g.get().lonDeg();
+                alt = g.get().altM();
+            }
         }
         double headingSigmaDeg = Math.toDegrees(Math.sqrt(Math.max(s.varYawRad2(), 0.0)));
         double headingDeg = s.initialized() ? Angles.yawRadToHeadingDeg(s.yawRad()) : Double.NaN;

@@ -87,7 +87,7 @@ public record GnssFix(double t, double latDeg, double lonDeg, double altM, doubl
     }
 
     @Override
-    public String typeName() {
-        return "gnss";
+    public SampleType type() {
+        return SampleType.GNSS;
     }
 }

@@ -37,7 +37,7 @@ public record ReferencePoint(double t, double latDeg, double lonDeg, double altM
     }
 
     @Override
-    public String typeName() {
-        return "reference";
+    public SampleType type() {
+        return SampleType.REFERENCE;
     }
 }

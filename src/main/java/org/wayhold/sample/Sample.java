@@ -6,8 +6,8 @@ public sealed interface Sample permits GnssFix, WheelSpeed, YawRate, ReferencePo
     /** Sample time (seconds on the vehicle's clock). */
     double t();
 
-    /** The wire name of this sample's type, as in the NDJSON {@code type} field. */
-    String typeName();
+    /** This sample's type: its wire name, ordering rank and binary type byte. */
+    SampleType type();
 
     /** Rejects a time that cannot be placed on a timeline. */
     static void requireFiniteTime(double t) {

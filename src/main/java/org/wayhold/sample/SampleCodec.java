@@ -10,17 +10,12 @@ import java.io.IOException;
  */
 public final class SampleCodec {
 
-    private static final byte GNSS = 1;
-    private static final byte WHEEL_SPEED = 2;
-    private static final byte YAW_RATE = 3;
-    private static final byte REFERENCE = 4;
-
     private SampleCodec() {
     }
 
     public static void write(DataOutput out, Sample sample) throws IOException {
+        out.writeByte(sample.type().codecByte());
         if (sample instanceof GnssFix g) {
-            out.writeByte(GNSS);
             out.writeDouble(g.t());
             out.writeDouble(g.latDeg());
             out.writeDouble(g.lonDeg());
@@ -33,22 +28,17 @@ public final class SampleCodec {
             out.writeDouble(g.speedMps());
             out.writeDouble(g.courseDeg());
         } else if (sample instanceof WheelSpeed w) {
-            out.writeByte(WHEEL_SPEED);
             out.writeDouble(w.t());
             out.writeDouble(w.speedMps());
         } else if (sample instanceof YawRate y) {
-            out.writeByte(YAW_RATE);
             out.writeDouble(y.t());
             out.writeDouble(y.yawRateRadPerS());
         } else if (sample instanceof ReferencePoint r) {
-            out.writeByte(REFERENCE);
             out.writeDouble(r.t());
             out.writeDouble(r.latDeg());
             out.writeDouble(r.lonDeg());
             out.writeDouble(r.altM());
             out.writeDouble(r.headingDeg());
-        } else {
-            throw new IllegalArgumentException("type: unknown sample type " + sample.getClass().getSimpleName());
         }
     }
 
@@ -56,7 +46,7 @@ public final class SampleCodec {
      * @throws IOException when the bytes are not a sample (unknown type byte, or values a record refuses)
      */
     public static Sample read(DataInput in) throws IOException {
-        byte type = in.readByte();
+        SampleType type = SampleType.fromCodecByte(in.readByte());
         try {
             switch (type) {
                 case GNSS -> {
@@ -87,7 +77,7 @@ public final class SampleCodec {
                     return new ReferencePoint(in.readDouble(), in.readDouble(), in.readDouble(), in.readDouble(),
                             in.readDouble());
                 }
-                default -> throw new IOException("sample: unknown type code " + type);
+                default -> throw new IllegalStateException("sample: no binary form for type " + type);
             }
         } catch (IllegalArgumentException e) {
             throw new IOException("sample: " + e.getMessage(), e);

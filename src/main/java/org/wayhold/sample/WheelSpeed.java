@@ -16,7 +16,7 @@ public record WheelSpeed(double t, double speedMps) implements Sample {
     }
 
     @Override
-    public String typeName() {
-        return "wheel_speed";
+    public SampleType type() {
+        return SampleType.WHEEL_SPEED;
     }
 }

@@ -16,7 +16,7 @@ public record YawRate(double t, double yawRateRadPerS) implements Sample {
     }
 
     @Override
-    public String typeName() {
-        return "yaw_rate";
+    public SampleType type() {
+        return SampleType.YAW_RATE;
     }
 }

@@ -5,16 +5,17 @@ import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.List;
+import org.wayhold.columns.ColumnRing;
 import org.wayhold.filter.GnssOutcome;
 
 /**
- * The most recent fixes of a vehicle with their decisions, oldest dropped first. Not thread-safe.
+ * The most recent fixes of a vehicle with their decisions, oldest dropped first, in time order. Not
+ * thread-safe.
  *
- * <p>Held as columns of primitives (7 doubles and a byte per fix, about 57 bytes, against about 76
- * for a {@link FixRecord} and its reference in a deque); reads build the records from the same bits.
- * The columns grow with the content up to the capacity.
+ * <p>Held as columns of primitives in a {@link ColumnRing} (7 doubles and a byte per fix, about 57
+ * bytes, against about 76 for a {@link FixRecord} and its reference in a deque); reads build the
+ * records from the same bits.
  */
 final class FixLog {
 
@@ -23,95 +24,63 @@ final class FixLog {
     private static final int INITIAL_SLOTS = 32;
     private static final GnssOutcome.Kind[] KINDS = GnssOutcome.Kind.values();
 
-    private final int capacity;
-    private double[] values;
-    private byte[] kinds;
-    /** Invariant: while the columns hold fewer slots than the capacity, start is 0 (never wrapped). */
-    private int start;
-    private int size;
+    private final ColumnRing<Void> ring;
 
     FixLog(int capacity) {
-        if (capacity < 1) {
-            throw new IllegalArgumentException("capacity: must be at least 1, was " + capacity);
-        }
-        this.capacity = capacity;
-        allocate(Math.min(capacity, INITIAL_SLOTS));
-    }
-
-    private void allocate(int slots) {
-        values = new double[slots * STRIDE];
-        kinds = new byte[slots];
-        start = 0;
-        size = 0;
-    }
-
-    private int slots() {
-        return kinds.length;
-    }
-
-    private int slotOf(int i) {
-        int slot = start + i;
-        return slot >= slots() ? slot - slots() : slot;
+        this.ring = new ColumnRing<>(STRIDE, capacity, INITIAL_SLOTS, false);
     }
 
     void add(FixRecord f) {
-        int slot;
-        if (size == capacity) {
-            slot = start;
-            start = start + 1 == slots() ? 0 : start + 1;
-        } else {
-            if (size == slots()) {
-                int grown = (int) Math.min(capacity, 2L * slots());
-                values = Arrays.copyOf(values, grown * STRIDE);
-                kinds = Arrays.copyOf(kinds, grown);
-            }
-            slot = slotOf(size);
-            size++;
-        }
+        int slot = ring.add();
+        double[] v = ring.doubles();
         int o = slot * STRIDE;
-        values[o] = f.t();
-        values[o + 1] = f.latDeg();
-        values[o + 2] = f.lonDeg();
-        values[o + 3] = f.eastM();
-        values[o + 4] = f.northM();
-        values[o + 5] = f.sigmaHM();
-        values[o + 6] = f.nis();
-        kinds[slot] = (byte) f.outcome().ordinal();
-    }
-
-    private double tAt(int i) {
-        return values[slotOf(i) * STRIDE];
+        v[o] = f.t();
+        v[o + 1] = f.latDeg();
+        v[o + 2] = f.lonDeg();
+        v[o + 3] = f.eastM();
+        v[o + 4] = f.northM();
+        v[o + 5] = f.sigmaHM();
+        v[o + 6] = f.nis();
+        ring.bytes()[slot] = (byte) f.outcome().ordinal();
     }
 
     private FixRecord get(int i) {
-        int slot = slotOf(i);
+        int slot = ring.slot(i);
         int o = slot * STRIDE;
-        return new FixRecord(values[o], values[o + 1], values[o + 2], values[o + 3], values[o + 4], values[o + 5],
-                KINDS[kinds[slot]], values[o + 6]);
+        double[] v = ring.doubles();
+        return new FixRecord(v[o], v[o + 1], v[o + 2], v[o + 3], v[o + 4], v[o + 5], KINDS[ring.bytes()[slot]],
+                v[o + 6]);
     }
 
     /** Fixes with fromS <= t <= toS, oldest first. */
     List<FixRecord> between(double fromS, double toS) {
         List<FixRecord> out = new ArrayList<>();
-        for (int i = 0; i < size; i++) {
-            double t = tAt(i);
-            if (t >= fromS && t <= toS) {
-                out.add(get(i));
-            }
+        for (int i = ring.upperBound(Math.nextDown(fromS)); i < ring.size() && ring.key(i) <= toS; i++) {
+            out.add(get(i));
         }
         return out;
     }
 
+    /** Whether a fix of this time and position (the same bits) is held. */
+    boolean contains(double tS, double latDeg, double lonDeg) {
+        double[] v = ring.doubles();
+        for (int i = ring.upperBound(Math.nextDown(tS)); i < ring.size() && ring.key(i) == tS; i++) {
+            int o = ring.slot(i) * STRIDE;
+            if (Double.compare(v[o + 1], latDeg) == 0 && Double.compare(v[o + 2], lonDeg) == 0) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     /** Drops fixes with t > tS, which re-filtering will record again. */
     void truncateAfter(double tS) {
-        while (size > 0 && tAt(size - 1) > tS) {
-            size--;
-        }
+        ring.truncate(ring.upperBound(tS));
     }
 
     void writeTo(DataOutput out) throws IOException {
-        out.writeInt(size);
-        for (int i = 0; i < size; i++) {
+        out.writeInt(ring.size());
+        for (int i = 0; i < ring.size(); i++) {
             FixRecord f = get(i);
             out.writeDouble(f.t());
             out.writeDouble(f.latDeg());
@@ -129,7 +98,7 @@ final class FixLog {
         if (n < 0) {
             throw new IOException("fix log: negative count " + n);
         }
-        allocate(Math.min(capacity, Math.max(INITIAL_SLOTS, n)));
+        ring.clear(n);
         for (int i = 0; i < n; i++) {
             double t = in.readDouble();
             double lat = in.readDouble();

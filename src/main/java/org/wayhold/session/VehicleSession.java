@@ -19,7 +19,9 @@ import org.wayhold.pipeline.TrackOutput;
 import org.wayhold.pipeline.VehiclePipeline;
 import org.wayhold.pose.Pose;
 import org.wayhold.pose.PoseHistory;
+import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
+import org.wayhold.sample.SampleType;
 import org.wayhold.settings.Settings;
 
 /**
@@ -87,6 +89,12 @@ public final class VehicleSession {
                     public void rewoundTo(double tS) {
                         history.truncateAfter(tS);
                         fixes.truncateAfter(tS);
+                    }
+
+                    @Override
+                    public boolean holds(GnssFix fix) {
+                        // The fix log remembers the recent fixes; the inputs leave no trace.
+                        return fixes.contains(fix.t(), fix.latDeg(), fix.lonDeg());
                     }
                 });
     }
@@ -231,8 +239,8 @@ public final class VehicleSession {
     public SessionStats stats() {
         synchronized (lock) {
             FilterSnapshot s = pipeline.snapshot();
-            return new SessionStats(pipeline.applied(0), pipeline.applied(1), pipeline.applied(2),
-                    pipeline.applied(3), pipeline.duplicates(), pipeline.rejected(), pipeline.rewinds(), s.counts(),
+            return new SessionStats(pipeline.applied(SampleType.WHEEL_SPEED), pipeline.applied(SampleType.YAW_RATE),
+                    pipeline.applied(SampleType.GNSS), pipeline.applied(SampleType.REFERENCE), pipeline.duplicates(), pipeline.rejected(), pipeline.rewinds(), s.counts(),
                     history.size());
         }
     }

@@ -82,8 +82,7 @@ public record FilterSettings(
         Check.positive("filter.gnss_range_error_m", gnssRangeErrorM);
         Check.positive("filter.gnss_default_sigma_m", gnssDefaultSigmaM);
         if (gnssCorrelatedShare < 0.0 || gnssCorrelatedShare >= 1.0 || Double.isNaN(gnssCorrelatedShare)) {
-            throw new IllegalArgumentException(
-                    "filter.gnss_correlated_share: must lie in [0, 1), was " + gnssCorrelatedShare);
+            throw new SettingsException("filter.gnss_correlated_share", "must lie in [0, 1), was " + gnssCorrelatedShare);
         }
         Check.positive("filter.gnss_correlation_time_s", gnssCorrelationTimeS);
         Check.nonNegative("filter.gnss_velocity_min_speed_mps", gnssVelocityMinSpeedMps);

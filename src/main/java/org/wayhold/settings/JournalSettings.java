@@ -21,12 +21,12 @@ public record JournalSettings(boolean fsync, double groupCommitMaxS, long segmen
     public JournalSettings {
         Check.nonNegative("journal.group_commit_max_s", groupCommitMaxS);
         if (segmentBytes < MIN_SEGMENT_BYTES) {
-            throw new IllegalArgumentException("journal.segment_bytes: must be at least " + MIN_SEGMENT_BYTES
+            throw new SettingsException("journal.segment_bytes", "must be at least " + MIN_SEGMENT_BYTES
                     + " bytes, was " + segmentBytes + " bytes");
         }
         Check.positive("journal.retention_age_s", retentionAgeS);
         if (retentionBytes < segmentBytes) {
-            throw new IllegalArgumentException("journal.retention_bytes: must be at least journal.segment_bytes ("
+            throw new SettingsException("journal.retention_bytes", "must be at least journal.segment_bytes ("
                     + segmentBytes + " bytes), was " + retentionBytes + " bytes");
         }
         Check.positive("journal.snapshot_interval_s", snapshotIntervalS);

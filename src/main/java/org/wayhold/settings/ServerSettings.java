@@ -23,11 +23,26 @@ import java.util.List;
  * @param rateBurstS            size of each vehicle's token bucket, as seconds of the sustained rate (s)
  * @param corsOrigins           origins allowed by CORS; empty means none
  * @param sseKeepAliveS         interval of Server-Sent Events keep-alive comments (s)
+ * @param idleTimeoutS          a connection with nothing read or written for this long is closed (s);
+ *                              it bounds every blocked read of a request and every blocked write of a reply
+ * @param minBodyBytesPerS      slowest accepted request body after its first {@value #BODY_GRACE_S} s
+ *                              (bytes per second of wall time); a slower one is cut with 408
+ * @param drainTimeoutS         longest time a refused request's unread body is read and dropped (s)
+ * @param maxConcurrentUploads  request bodies read at once (count); one more gets 503 with Retry-After,
+ *                              so that slow uploads cannot hold every server thread
+ * @param maxStreams            open Server-Sent Events pose streams (count)
  */
 public record ServerSettings(int port, String bind, List<String> writeTokens, List<String> readTokens,
                              long maxBodyBytes, int maxLineBytes, int maxSamplesPerRequest, int maxSessions,
                              int maxVehicleIdChars, double maxSamplesPerSecondPerVehicle, double rateBurstS,
-                             List<String> corsOrigins, double sseKeepAliveS) {
+                             List<String> corsOrigins, double sseKeepAliveS, double idleTimeoutS,
+                             long minBodyBytesPerS, double drainTimeoutS, int maxConcurrentUploads, int maxStreams) {
+
+    /**
+     * Time a request body may take before {@code minBodyBytesPerS} applies (s): a client's first packets
+     * and a slow start of TCP on a long path, about a few round trips, are not held against it.
+     */
+    public static final double BODY_GRACE_S = 2.0;
 
     /**
      * Upper bound of {@code maxVehicleIdChars} (characters): ids appear in paths, logs, metric labels and
@@ -37,28 +52,40 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
 
     public ServerSettings {
         if (port < 0 || port > 65535) {
-            throw new IllegalArgumentException("server.port: must be 0..65535, was " + port);
+            throw new SettingsException("server.port", "must be 0..65535, was " + port);
         }
         if (bind == null || bind.isBlank()) {
-            throw new IllegalArgumentException("server.bind: must name an address, was '" + bind + "'");
+            throw new SettingsException("server.bind", "must name an address, was '" + bind + "'");
         }
         writeTokens = tokens("server.write_tokens", writeTokens);
         readTokens = tokens("server.read_tokens", readTokens);
         corsOrigins = List.copyOf(corsOrigins == null ? List.of() : corsOrigins);
         if (maxBodyBytes < 1) {
-            throw new IllegalArgumentException("server.max_body_bytes: must be at least 1, was " + maxBodyBytes);
+            throw new SettingsException("server.max_body_bytes", "must be at least 1, was " + maxBodyBytes);
         }
         Check.atLeast("server.max_line_bytes", maxLineBytes, 64);
         Check.atLeast("server.max_samples_per_request", maxSamplesPerRequest, 1);
         Check.atLeast("server.max_sessions", maxSessions, 1);
         Check.atLeast("server.max_vehicle_id_chars", maxVehicleIdChars, 1);
         if (maxVehicleIdChars > VEHICLE_ID_CHARS_CEILING) {
-            throw new IllegalArgumentException("server.max_vehicle_id_chars: must be at most "
+            throw new SettingsException("server.max_vehicle_id_chars", "must be at most "
                     + VEHICLE_ID_CHARS_CEILING + " characters, was " + maxVehicleIdChars);
         }
         Check.positive("server.max_samples_per_second_per_vehicle", maxSamplesPerSecondPerVehicle);
         Check.positive("server.rate_burst_s", rateBurstS);
         Check.positive("server.sse_keep_alive_s", sseKeepAliveS);
+        Check.positive("server.idle_timeout_s", idleTimeoutS);
+        if (sseKeepAliveS >= idleTimeoutS) {
+            // An idle stream is kept open by its keep-alive comments: they must come before the timeout.
+            throw new SettingsException("server.sse_keep_alive_s", "must be shorter than server.idle_timeout_s ("
+                    + idleTimeoutS + " s), was " + sseKeepAliveS + " s");
+        }
+        if (minBodyBytesPerS < 0) {
+            throw new SettingsException("server.min_body_bytes_per_s", "must be at least 0, was " + minBodyBytesPerS);
+        }
+        Check.positive("server.drain_timeout_s", drainTimeoutS);
+        Check.atLeast("server.max_concurrent_uploads", maxConcurrentUploads, 1);
+        Check.atLeast("server.max_streams", maxStreams, 0);
     }
 
     /**
@@ -71,24 +98,32 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
      * the test-scope {@code SessionMemoryMain}: about 197 B per pose and 57 B per fix held in columns,
      * and about 40 KB for time ordering with its checkpoints and the filter), so 1000 sessions bound the
      * sessions' heap to about 0.2 GB.
+     *
+     * <p>Slow clients: 30 s without a byte is far beyond any live client's pause (the pose streams send a
+     * keep-alive every 15 s); 1024 bytes per second is about 12 sample lines a second, slower than any
+     * logging rig posts; 64 uploads at once stay well below the server's 250 threads (Javalin's default
+     * pool), so reads of poses and {@code /health} always find a thread; 256 streams each hold a thread
+     * of their own.
      */
     public static ServerSettings defaults() {
         return new ServerSettings(8470, "127.0.0.1", List.of(), List.of(), 64L * 1024 * 1024, 4096,
-                1_000_000, 1_000, 64, 100_000.0, 2.0, List.of(), 15.0);
+                1_000_000, 1_000, 64, 100_000.0, 2.0, List.of(), 15.0, 30.0, 1024, 2.0, 64, 256);
     }
 
     /** The same settings listening on another port and address. */
     public ServerSettings withAddress(int newPort, String newBind) {
         return new ServerSettings(newPort, newBind, writeTokens, readTokens, maxBodyBytes, maxLineBytes,
                 maxSamplesPerRequest, maxSessions, maxVehicleIdChars, maxSamplesPerSecondPerVehicle, rateBurstS,
-                corsOrigins, sseKeepAliveS);
+                corsOrigins, sseKeepAliveS, idleTimeoutS, minBodyBytesPerS, drainTimeoutS, maxConcurrentUploads,
+                maxStreams);
     }
 
     /** The same settings with other tokens. */
     public ServerSettings withTokens(List<String> newWriteTokens, List<String> newReadTokens) {
         return new ServerSettings(port, bind, newWriteTokens, newReadTokens, maxBodyBytes, maxLineBytes,
                 maxSamplesPerRequest, maxSessions, maxVehicleIdChars, maxSamplesPerSecondPerVehicle, rateBurstS,
-                corsOrigins, sseKeepAliveS);
+                corsOrigins, sseKeepAliveS, idleTimeoutS, minBodyBytesPerS, drainTimeoutS, maxConcurrentUploads,
+                maxStreams);
     }
 
     /** True when writes need a token. */
@@ -109,7 +144,9 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
                 + ", maxLineBytes=" + maxLineBytes + ", maxSamplesPerRequest=" + maxSamplesPerRequest
                 + ", maxSessions=" + maxSessions + ", maxVehicleIdChars=" + maxVehicleIdChars
                 + ", maxSamplesPerSecondPerVehicle=" + maxSamplesPerSecondPerVehicle + ", rateBurstS=" + rateBurstS
-                + ", corsOrigins=" + corsOrigins + ", sseKeepAliveS=" + sseKeepAliveS + "]";
+                + ", corsOrigins=" + corsOrigins + ", sseKeepAliveS=" + sseKeepAliveS + ", idleTimeoutS=" + idleTimeoutS
+                + ", minBodyBytesPerS=" + minBodyBytesPerS + ", drainTimeoutS=" + drainTimeoutS
+                + ", maxConcurrentUploads=" + maxConcurrentUploads + ", maxStreams=" + maxStreams + "]";
     }
 
     /**
@@ -121,7 +158,7 @@ public record ServerSettings(int port, String bind, List<String> writeTokens, Li
         List<String> copy = List.copyOf(given == null ? List.of() : given);
         for (int i = 0; i < copy.size(); i++) {
             if (!copy.get(i).matches("[A-Za-z0-9\\-._~+/]+=*")) {
-                throw new IllegalArgumentException(key + ": item " + (i + 1)
+                throw new SettingsException(key, "item " + (i + 1)
                         + " must be a bearer token of letters, digits and - . _ ~ + / (then optional =)"
                         + " with no spaces; its value is not shown");
             }

@@ -7,10 +7,11 @@ import java.util.Map;
  *
  * @param vehicles profiles by name; the profile named {@code default} serves vehicles without their own
  * @param journal  how the journal of accepted samples writes and keeps its files
+ * @param ingest   plausibility bounds of samples and the per-request costs of ingest
  */
 public record Settings(ServerSettings server, FilterSettings filter, GatingSettings gating,
                        OutageSettings outage, OrderingSettings ordering, HistorySettings history,
-                       Map<String, VehicleProfile> vehicles, JournalSettings journal) {
+                       Map<String, VehicleProfile> vehicles, JournalSettings journal, IngestSettings ingest) {
 
     public static final String DEFAULT_PROFILE = "default";
 
@@ -22,6 +23,7 @@ public record Settings(ServerSettings server, FilterSettings filter, GatingSetti
         java.util.Objects.requireNonNull(ordering, "ordering");
         java.util.Objects.requireNonNull(history, "history");
         java.util.Objects.requireNonNull(journal, "journal");
+        java.util.Objects.requireNonNull(ingest, "ingest");
         java.util.HashMap<String, VehicleProfile> v = new java.util.HashMap<>();
         v.put(DEFAULT_PROFILE, VehicleProfile.defaults());
         if (vehicles != null) {
@@ -33,7 +35,25 @@ public record Settings(ServerSettings server, FilterSettings filter, GatingSetti
     /** Settings with the default journal: for uses that never write one (tests, offline scoring). */
     public Settings(ServerSettings server, FilterSettings filter, GatingSettings gating, OutageSettings outage,
                     OrderingSettings ordering, HistorySettings history, Map<String, VehicleProfile> vehicles) {
-        this(server, filter, gating, outage, ordering, history, vehicles, JournalSettings.defaults());
+        this(server, filter, gating, outage, ordering, history, vehicles, JournalSettings.defaults(),
+                IngestSettings.defaults());
+    }
+
+    /** Settings with the default ingest bounds. */
+    public Settings(ServerSettings server, FilterSettings filter, GatingSettings gating, OutageSettings outage,
+                    OrderingSettings ordering, HistorySettings history, Map<String, VehicleProfile> vehicles,
+                    JournalSettings journal) {
+        this(server, filter, gating, outage, ordering, history, vehicles, journal, IngestSettings.defaults());
+    }
+
+    /** The same settings with another server section. */
+    public Settings withServer(ServerSettings newServer) {
+        return new Settings(newServer, filter, gating, outage, ordering, history, vehicles, journal, ingest);
+    }
+
+    /** The same settings with other ingest bounds. */
+    public Settings withIngest(IngestSettings newIngest) {
+        return new Settings(server, filter, gating, outage, ordering, history, vehicles, journal, newIngest);
     }
 
     /** The profile for a vehicle id: its own when configured, else {@code default}. */
@@ -45,6 +65,6 @@ public record Settings(ServerSettings server, FilterSettings filter, GatingSetti
     public static Settings defaults() {
         return new Settings(ServerSettings.defaults(), FilterSettings.defaults(), GatingSettings.defaults(),
                 OutageSettings.defaults(), OrderingSettings.defaults(), HistorySettings.defaults(), Map.of(),
-                JournalSettings.defaults());
+                JournalSettings.defaults(), IngestSettings.defaults());
     }
 }

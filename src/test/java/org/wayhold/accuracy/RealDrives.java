@@ -6,9 +6,8 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
-import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.ReadResult;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.YawRate;
 
@@ -46,23 +45,15 @@ public final class RealDrives {
 
     /** A log's samples in file order. */
     public static List<Sample> readPath(Path path) {
-        List<Sample> out = new ArrayList<>();
         try {
-            NdjsonReader.readFile(path, new SampleSink() {
-                @Override
-                public void accept(Sample s) {
-                    out.add(s);
-                }
-
-                @Override
-                public void reject(LineError e) {
-                    throw new IllegalStateException(path + ": " + e);
-                }
-            });
+            ReadResult r = NdjsonReader.readFileAll(path);
+            if (!r.rejected().isEmpty()) {
+                throw new IllegalStateException(path + ": " + r.rejected().get(0));
+            }
+            return r.samples();
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
-        return out;
     }
 
     /**

@@ -15,7 +15,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
-import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.ReadResult;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
 import org.wayhold.simulate.DriveSimulator;
@@ -49,19 +49,9 @@ class SimulateCommandTest {
         assertThat(code).isZero();
         assertThat(err.toString()).isEmpty();
 
-        List<Sample> read = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        NdjsonReader.readFile(file, new SampleSink() {
-            @Override
-            public void accept(Sample s) {
-                read.add(s);
-            }
-
-            @Override
-            public void reject(LineError e) {
-                rejected.add(e);
-            }
-        });
+        ReadResult result = NdjsonReader.readFileAll(file);
+        List<Sample> read = result.samples();
+        List<LineError> rejected = result.rejected();
         assertThat(rejected).isEmpty();
         // The writer keeps every double's shortest round-trip digits, so the file holds exactly what the
         // simulator made with the same options.
@@ -118,21 +108,9 @@ class SimulateCommandTest {
     }
 
     private List<Sample> readAll(Path file) throws IOException {
-        List<Sample> read = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        NdjsonReader.readFile(file, new SampleSink() {
-            @Override
-            public void accept(Sample s) {
-                read.add(s);
-            }
-
-            @Override
-            public void reject(LineError e) {
-                rejected.add(e);
-            }
-        });
-        assertThat(rejected).isEmpty();
-        return read;
+        ReadResult r = NdjsonReader.readFileAll(file);
+        assertThat(r.rejected()).isEmpty();
+        return r.samples();
     }
 
     @Test

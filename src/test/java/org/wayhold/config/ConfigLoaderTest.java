@@ -18,6 +18,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
@@ -104,6 +105,11 @@ class ConfigLoaderTest {
                   rate_burst_s: 3.5
                   cors_origins: ["https://example.org"]
                   sse_keep_alive_s: 7.5
+                  idle_timeout_s: 12.5
+                  min_body_bytes_per_s: 333
+                  drain_timeout_s: 0.75
+                  max_concurrent_uploads: 7
+                  max_streams: 9
                 filter:
                   wheel_speed_noise_mps: 0.011
                   wheel_speed_rate_hz: 12.0
@@ -144,7 +150,8 @@ class ConfigLoaderTest {
                     lever_arm_up_m: 1.75
                 """);
         assertThat(s.server()).isEqualTo(new ServerSettings(9001, "0.0.0.0", List.of("w1", "w2"), List.of("r1"),
-                5_000_000_000L, 8192, 5000, 12, 40, 250.5, 3.5, List.of("https://example.org"), 7.5));
+                5_000_000_000L, 8192, 5000, 12, 40, 250.5, 3.5, List.of("https://example.org"), 7.5, 12.5, 333, 0.75,
+                7, 9));
         assertThat(s.filter()).isEqualTo(new FilterSettings(0.011, 12.0, 0.013, 14.0, 1.5e-6, 1.6e-6, 0.017, 0.018,
                 0.019, 0.21, 2.2, 2.3,
                 Map.of(FixType.NONE, 11.0, FixType.TWO_D, 2.5, FixType.THREE_D, 1.25, FixType.DGNSS, 0.75,
@@ -160,6 +167,37 @@ class ConfigLoaderTest {
         assertThat(s.history().maxPoses()).isEqualTo(500);
         assertThat(s.profileFor("van_3")).isEqualTo(new VehicleProfile(1.25, -0.5, 1.75));
         assertThat(s.profileFor("car_9")).isEqualTo(VehicleProfile.defaults());
+    }
+
+    @Test
+    void everyIngestKeyReachesItsOwnField() {
+        Settings s = parse("""
+                ingest:
+                  max_t_s: 2.5e9
+                  max_wheel_speed_mps: 90.5
+                  max_yaw_rate_rad_per_s: 3.25
+                  min_alt_m: -50.0
+                  max_alt_m: 9000.0
+                  max_sigma_m: 400.0
+                  max_hdop: 50.5
+                  max_sats: 99
+                  max_gnss_speed_mps: 80.25
+                  max_listed_rejections: 17
+                  idempotency_keys_per_vehicle: 5
+                  idempotency_ttl_s: 60.0
+                  idempotency_max_bytes: 4096
+                """);
+        assertThat(s.ingest()).isEqualTo(new IngestSettings(2.5e9, 90.5, 3.25, -50.0, 9000.0, 400.0, 50.5, 99, 80.25,
+                17, 5, 60.0, 4096));
+    }
+
+    @Test
+    void aRefusedValueIsReportedAtTheKeyTheSettingsRecordNames() {
+        // The key comes from the exception's own field, not from its text: the section's path is not it.
+        assertThat(errorOf("ingest:\n  min_alt_m: 10.0\n  max_alt_m: 5.0\n"))
+                .startsWith("ingest.max_alt_m: the upper bound 5.0 m is below the lower bound 10.0 m");
+        assertThat(errorOf("vehicles:\n  van_9:\n    lever_arm_up_m: 1e999\n"))
+                .startsWith("vehicles.van_9.lever_arm_up_m: must be a finite number");
     }
 
     @Test
@@ -303,6 +341,22 @@ class ConfigLoaderTest {
         Map<String, String> env = Map.of("WAYHOLD_WRITE_TOKENS", "  ");
         Settings s = ConfigLoader.parse("server:\n  write_tokens: [from_file]\n", "test.yaml", env::get);
         assertThat(s.server().writeTokens()).containsExactly("from_file");
+    }
+
+    /**
+     * Rule: a token variable that is set but holds no token fails closed. {@code WAYHOLD_WRITE_TOKENS=","}
+     * once read as "no tokens" and opened writes to anyone; it must stop start-up with a message.
+     */
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {"WAYHOLD_WRITE_TOKENS|,|server.write_tokens",
+        "WAYHOLD_WRITE_TOKENS| , ,, |server.write_tokens", "WAYHOLD_READ_TOKENS|,|server.read_tokens"})
+    void aTokenVariableThatHoldsNoTokenRefusesStartUp(String variable, String value, String key) {
+        Map<String, String> env = Map.of(variable, value);
+        assertThatThrownBy(() -> ConfigLoader.parse("server:\n  write_tokens: [from_file_0123456789]\n", "test.yaml",
+                env::get))
+                .isInstanceOf(ConfigException.class)
+                .hasMessageStartingWith(key + ": the environment variable " + variable + " is set but holds no token")
+                .satisfies(e -> assertThat(((ConfigException) e).key()).contains(key));
     }
 
     @Test

@@ -52,6 +52,11 @@ class GracefulStopTest {
         assertThat(server.sessions.find("busy").orElseThrow().session().version()).isGreaterThan(versionBefore);
         HttpRequest healthAfterStop = server.request("/health").GET().build();
         int port = server.service.port();
+        // A kept-alive connection that asks again once the stop has begun: Jetty answers it itself (503).
+        Socket keptAlive = new Socket("127.0.0.1", port);
+        keptAlive.setSoTimeout(30_000);
+        String firstHealth = exchange(keptAlive, "GET /health HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n");
+        assertThat(firstHealth).startsWith("HTTP/1.1 200");
         Thread stopper = new Thread(server::close, "stopper");
         stopper.start();
         // The stream ends first: its end shows that the stop has begun.
@@ -71,6 +76,12 @@ class GracefulStopTest {
             }
         }
         assertThat(refusing).as("new connections are refused during the stop").isTrue();
+        // Rule: even a refusal Jetty writes before any route runs is problem JSON, like every other error.
+        String during = exchange(keptAlive, "GET /health HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n");
+        assertThat(during).startsWith("HTTP/1.1 503").containsIgnoringCase("content-type: application/problem+json");
+        assertThat(LiveServer.JSON.readTree(during.substring(during.indexOf("\r\n\r\n") + 4)).get("status").asInt())
+                .isEqualTo(503);
+        keptAlive.close();
         out.write(secondHalf);
         out.flush();
 
@@ -84,5 +95,23 @@ class GracefulStopTest {
         assertThatThrownBy(() -> server.client.send(healthAfterStop, HttpResponse.BodyHandlers.ofString()))
                 .isInstanceOf(IOException.class);
         sse.close();
+    }
+
+    /** Sends a request on an open connection and reads one response whose length is declared. */
+    private static String exchange(Socket socket, String request) throws IOException {
+        socket.getOutputStream().write(request.getBytes(StandardCharsets.US_ASCII));
+        socket.getOutputStream().flush();
+        java.io.InputStream in = socket.getInputStream();
+        StringBuilder head = new StringBuilder();
+        while (!head.toString().endsWith("\r\n\r\n")) {
+            int b = in.read();
+            if (b < 0) {
+                return head.toString();
+            }
+            head.append((char) b);
+        }
+        java.util.regex.Matcher m = java.util.regex.Pattern.compile("(?i)content-length: *(\\d+)").matcher(head);
+        int length = m.find() ? Integer.parseInt(m.group(1)) : 0;
+        return head + new String(in.readNBytes(length), StandardCharsets.UTF_8);
     }
 }

@@ -70,7 +70,7 @@ class HostileInputPropertyTest {
         System.setOut(capture);
         server = new LiveServer(LiveServer.settings(s -> new ServerSettings(0, "127.0.0.1", List.of(WRITE_TOKEN),
                 List.of(READ_TOKEN), MAX_BODY, MAX_LINE, MAX_SAMPLES, 200, 64, s.maxSamplesPerSecondPerVehicle(),
-                s.rateBurstS(), List.of("https://dash.example"), s.sseKeepAliveS())));
+                s.rateBurstS(), List.of("https://dash.example"), s.sseKeepAliveS(), s.idleTimeoutS(), s.minBodyBytesPerS(), s.drainTimeoutS(), s.maxConcurrentUploads(), s.maxStreams())));
         http = new RawHttp(server.service.port());
         // A vehicle with a history for the query properties.
         for (var chunk : Drives.chunks(Drives.openSky(5L, 20.0), 5.0)) {
@@ -102,6 +102,12 @@ class HostileInputPropertyTest {
         }
         sb.append("total: ").append(total).append(" requests; mixed batches held ").append(VALID_LINES.get())
                 .append(" valid and ").append(MALFORMED_LINES.get()).append(" malformed lines\n");
+        long serverErrors = OUTCOMES.values().stream().flatMap(m -> m.entrySet().stream())
+                .filter(e -> e.getKey() >= 500).mapToLong(e -> e.getValue()).sum();
+        sb.append("extreme values: ").append(EXTREME_VALUES.get()).append(" values over ")
+                .append(ExtremeValues.PAIRS).append(" (type, field) pairs, each tried at least ")
+                .append(java.util.Arrays.stream(EXTREME_PAIRS).min().orElse(0)).append(" times; responses with status 5xx")
+                .append(" in the whole run: ").append(serverErrors).append('\n');
         Path target = Path.of("target");
         Files.createDirectories(target);
         Files.writeString(target.resolve("hostile-inputs.txt"), sb.toString());
@@ -139,7 +145,7 @@ class HostileInputPropertyTest {
 
     static MixedBatch mixedBatch(Random r) {
         int n = 1 + r.nextInt(30);
-        double t = r.nextBoolean() ? 1.5e9 + r.nextDouble() * 1e8 : (r.nextDouble() - 0.5) * 1e6;
+        double t = r.nextBoolean() ? 1.5e9 + r.nextDouble() * 1e8 : r.nextDouble() * 1e6;
         List<HostileLines.Line> lines = new ArrayList<>();
         for (int i = 0; i < n; i++) {
             int pick = r.nextInt(10);
@@ -503,6 +509,81 @@ class HostileInputPropertyTest {
         int i = r.nextInt(c.length);
         c[i] = c[i] == 'a' ? 'b' : 'a';
         return new String(c);
+    }
+
+    // ---------------------------------------------------------------------------------------------
+    // 6. Extreme finite values: no value in any numeric field breaks a vehicle.
+
+    /** Vehicles fed extreme values, each with a real drive behind it so that its filter is running. */
+    private static final int EXTREME_VEHICLES = 16;
+    private static final int EXTREME_LINES_PER_REQUEST = 4;
+    private static final AtomicLong EXTREME_VALUES = new AtomicLong();
+    private static final int[] EXTREME_PAIRS = new int[ExtremeValues.PAIRS];
+    private static final double[][] EXTREME_STATE = new double[EXTREME_VEHICLES][];
+
+    record ExtremeBatch(int vehicle, byte[] body) {
+    }
+
+    /** Four lines for one vehicle, each with one extreme value, just after the vehicle's newest time. */
+    static ExtremeBatch extremeBatch(Random r) {
+        int v = r.nextInt(EXTREME_VEHICLES);
+        double[] state = EXTREME_STATE[v];
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        for (int i = 0; i < EXTREME_LINES_PER_REQUEST; i++) {
+            state[0] += 0.01;
+            out.writeBytes(ExtremeValues.line(r, state[0], state[1], state[2], EXTREME_PAIRS));
+            out.write('\n');
+        }
+        return new ExtremeBatch(v, out.toByteArray());
+    }
+
+    /**
+     * Rule: a finite value, however absurd, in any numeric field of any sample type is answered below
+     * 500, and so is every later read of that vehicle: a value beyond the physical bounds is rejected
+     * with the field named and never reaches the filter. (Values such as a wheel speed of 1e300 m/s or
+     * a sigma of 1e200 m once turned a vehicle's state into NaN: 500 on every read, and a snapshot
+     * that could not be read back.) At least 10,000 values, every (type, field) pair many times.
+     */
+    @Test
+    void extremeFiniteValuesInEveryNumericFieldNeverGiveA5xx() throws IOException {
+        for (int v = 0; v < EXTREME_VEHICLES; v++) {
+            List<org.wayhold.sample.Sample> drive = Drives.openSky(700L + v, 10.0);
+            for (var chunk : Drives.chunks(drive, 5.0)) {
+                assertThat(post("x-" + v, "application/x-ndjson", Drives.ndjson(chunk), true).status()).isEqualTo(200);
+            }
+            org.wayhold.sample.GnssFix lastFix = (org.wayhold.sample.GnssFix) drive.stream()
+                    .filter(s -> s instanceof org.wayhold.sample.GnssFix).reduce((a, b) -> b).orElseThrow();
+            EXTREME_STATE[v] = new double[] {drive.get(drive.size() - 1).t(), lastFix.latDeg(), lastFix.lonDeg()};
+        }
+        forEachTry(2500, 6, HostileInputPropertyTest::extremeBatch, this::checkExtreme);
+        assertThat(EXTREME_VALUES.get()).isGreaterThanOrEqualTo(10_000);
+        for (int pair : EXTREME_PAIRS) {
+            assertThat(pair).as("every numeric field of every type tried many times").isGreaterThan(100);
+        }
+        for (int v = 0; v < EXTREME_VEHICLES; v++) {
+            RawHttp.Reply pose = send("GET", "/v1/vehicles/x-" + v + "/pose", List.of(bearer(READ_TOKEN)), new byte[0]);
+            assertThat(pose.status()).as(pose.text()).isEqualTo(200);
+            assertThat(json(pose).path("t").isNumber()).as(pose.text()).isTrue();
+        }
+    }
+
+    private void checkExtreme(ExtremeBatch b) {
+        String vehicle = "x-" + b.vehicle();
+        RawHttp.Reply r = post(vehicle, "application/x-ndjson", b.body(), true);
+        record("extreme values", r);
+        EXTREME_VALUES.addAndGet(EXTREME_LINES_PER_REQUEST);
+        assertThat(r.status()).as(r.text()).isEqualTo(200);
+        JsonNode reply = json(r);
+        assertThat(reply.get("accepted").asLong() + reply.get("rejected_count").asLong())
+                .isEqualTo(EXTREME_LINES_PER_REQUEST);
+        String[] reads = {"/pose", "/track?from=0", "/fixes"};
+        for (String read : reads) {
+            RawHttp.Reply q = send("GET", "/v1/vehicles/" + vehicle + read, List.of(bearer(READ_TOKEN)), new byte[0]);
+            record("extreme values", q);
+            assertThat(q.status()).as(read + " after " + new String(b.body(), StandardCharsets.UTF_8) + " -> " + q.text())
+                    .isEqualTo(200);
+        }
+        assertSilent("extreme values for " + vehicle);
     }
 
     // ---------------------------------------------------------------------------------------------

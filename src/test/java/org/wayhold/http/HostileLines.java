@@ -7,10 +7,11 @@ import java.util.Collections;
 import java.util.List;
 import java.util.Locale;
 import java.util.Random;
+import org.wayhold.settings.IngestSettings;
 
 /**
  * Makers of NDJSON lines for the hostile-input properties: valid samples with values anywhere in their
- * documented ranges (README.md, "Sample format"; openapi.yaml), and malformed lines of many kinds, each of which the contract says
+ * documented ranges (README.md, "Sample format"; openapi.yaml; the plausibility bounds of the {@code ingest} settings), and malformed lines of many kinds, each of which the contract says
  * must be rejected (so the properties can count exactly). Every maker draws from the {@link Random} it
  * is given, which the tests seed.
  */
@@ -24,6 +25,8 @@ final class HostileLines {
 
     private static final String[] FIX_NAMES = {"none", "2d", "3d", "dgnss", "rtk_float", "rtk_fixed"};
     private static final String[] TYPES = {"gnss", "wheel_speed", "yaw_rate", "reference"};
+    /** The service's default plausibility bounds: a valid sample keeps to them. */
+    private static final IngestSettings LIMITS = IngestSettings.defaults();
 
     private HostileLines() {
     }
@@ -42,25 +45,25 @@ final class HostileLines {
                 fields.add("\"lat\":" + num(uniform(r, -90.0, 90.0)));
                 fields.add("\"lon\":" + num(uniform(r, -180.0, 180.0)));
                 optional(r, fields, "alt", uniform(r, -500.0, 9000.0));
-                optional(r, fields, "sigma_h", wild(r, 0.0, 50.0));
-                optional(r, fields, "sigma_v", wild(r, 0.0, 80.0));
+                optional(r, fields, "sigma_h", wild(r, 0.0, 50.0, LIMITS.maxSigmaM()));
+                optional(r, fields, "sigma_v", wild(r, 0.0, 80.0, LIMITS.maxSigmaM()));
                 if (r.nextBoolean()) {
                     fields.add("\"fix\":\"" + FIX_NAMES[r.nextInt(FIX_NAMES.length)] + "\"");
                 }
                 if (r.nextBoolean()) {
                     fields.add("\"sats\":" + r.nextInt(64));
                 }
-                optional(r, fields, "hdop", wild(r, 0.0, 30.0));
-                optional(r, fields, "speed", wild(r, 0.0, 70.0));
-                optional(r, fields, "course", uniform(r, -720.0, 720.0));
+                optional(r, fields, "hdop", wild(r, 0.0, 30.0, LIMITS.maxHdop()));
+                optional(r, fields, "speed", wild(r, 0.0, 70.0, LIMITS.maxGnssSpeedMps()));
+                optional(r, fields, "course", uniform(r, 0.0, 360.0));
             }
-            case "wheel_speed" -> fields.add("\"speed\":" + num(signedWild(r, 70.0)));
-            case "yaw_rate" -> fields.add("\"rate\":" + num(signedWild(r, 2.0)));
+            case "wheel_speed" -> fields.add("\"speed\":" + num(signedWild(r, 70.0, LIMITS.maxWheelSpeedMps())));
+            case "yaw_rate" -> fields.add("\"rate\":" + num(signedWild(r, 2.0, LIMITS.maxYawRateRadPerS())));
             default -> {
                 fields.add("\"lat\":" + num(uniform(r, -90.0, 90.0)));
                 fields.add("\"lon\":" + num(uniform(r, -180.0, 180.0)));
                 optional(r, fields, "alt", uniform(r, -500.0, 9000.0));
-                optional(r, fields, "heading", uniform(r, -360.0, 720.0));
+                optional(r, fields, "heading", uniform(r, 0.0, 360.0));
             }
         }
         // Unknown names are skipped whatever their value (openapi.yaml, Sample: unknown fields are ignored).
@@ -87,13 +90,14 @@ final class HostileLines {
         }
     }
 
-    /** Mostly in [lo, hi], sometimes far beyond it (still valid: the sample records only ask for >= 0). */
-    private static double wild(Random r, double lo, double hi) {
-        return r.nextInt(20) == 0 ? Math.abs(r.nextGaussian()) * 1e6 : uniform(r, lo, hi);
+    /** Mostly in [lo, hi], sometimes anywhere up to the plausibility bound {@code max} (still valid). */
+    private static double wild(Random r, double lo, double hi, double max) {
+        return r.nextInt(20) == 0 ? uniform(r, 0.0, max) : uniform(r, lo, hi);
     }
 
-    private static double signedWild(Random r, double typical) {
-        return r.nextInt(20) == 0 ? r.nextGaussian() * 1e6 : r.nextGaussian() * typical;
+    /** Mostly about {@code typical} either way, sometimes anywhere within +-{@code max}. */
+    private static double signedWild(Random r, double typical, double max) {
+        return r.nextInt(20) == 0 ? uniform(r, -max, max) : Math.max(-max, Math.min(max, r.nextGaussian() * typical));
     }
 
     private static double uniform(Random r, double lo, double hi) {

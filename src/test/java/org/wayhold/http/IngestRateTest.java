@@ -97,7 +97,7 @@ class IngestRateTest {
         List<Sample> drive = new ArrayList<>();
         NdjsonReader.readFile(Path.of("sample-logs", "open-sky.ndjson.gz"), new SampleSink() {
             @Override
-            public void accept(Sample s) {
+            public void accept(long line, Sample s) {
                 drive.add(s);
             }
 

@@ -85,6 +85,11 @@ class JournaledServiceTest {
                     .POST(HttpRequest.BodyPublishers.ofByteArray(Drives.ndjson(samples))));
         }
 
+        HttpResponse<String> postWithKey(String vehicle, List<? extends Sample> samples, String key) {
+            return send(request("/v1/vehicles/" + vehicle + "/samples").header("Content-Type", "application/x-ndjson")
+                    .header("Idempotency-Key", key).POST(HttpRequest.BodyPublishers.ofByteArray(Drives.ndjson(samples))));
+        }
+
         HttpResponse<String> delete(String vehicle) {
             return send(request("/v1/vehicles/" + vehicle).DELETE());
         }
@@ -178,6 +183,43 @@ class JournaledServiceTest {
             }
         }
         throw new AssertionError(name + " not in /metrics");
+    }
+
+    /**
+     * Rule: a kept reply is in the journal before it is sent, so a retry with the same Idempotency-Key
+     * after a restart (a crash, say, that lost the reply on its way) still gets the original reply,
+     * marked as a replay, and applies nothing; a deletion of the vehicle voids its kept replies, before
+     * and after a restart.
+     */
+    @Test
+    void aKeptReplySurvivesARestartAndADeletionVoidsIt() throws IOException {
+        List<List<Sample>> batches = Drives.chunks(Drives.openSky(12L, 30.0), 10.0);
+        String first;
+        try (Served s = new Served()) {
+            HttpResponse<String> r = s.client.postWithKey("van-5", batches.get(0), "batch-0");
+            assertThat(r.statusCode()).isEqualTo(200);
+            first = r.body();
+            assertThat(s.client.postWithKey("van-5", batches.get(1), "batch-1").statusCode()).isEqualTo(200);
+            assertThat(s.client.postWithKey("van-6", batches.get(0), "batch-0").statusCode()).isEqualTo(200);
+            assertThat(s.client.delete("van-6").statusCode()).isEqualTo(204);
+        }
+        try (Served s = new Served()) {
+            long samples = LiveServer.json(s.client.get("/v1/vehicles")).path("vehicles").get(0).path("samples").asLong();
+            HttpResponse<String> again = s.client.postWithKey("van-5", batches.get(0), "batch-0");
+            assertThat(again.statusCode()).isEqualTo(200);
+            assertThat(again.headers().firstValue("Idempotency-Replayed")).contains("true");
+            assertThat(again.body()).isEqualTo(first);
+            assertThat(LiveServer.json(s.client.get("/v1/vehicles")).path("vehicles").get(0).path("samples").asLong())
+                    .isEqualTo(samples);
+            // van-6 was deleted after its post: its key starts afresh on its new session.
+            HttpResponse<String> fresh = s.client.postWithKey("van-6", batches.get(0), "batch-0");
+            assertThat(fresh.headers().firstValue("Idempotency-Replayed")).isEmpty();
+            assertThat(LiveServer.json(fresh).path("accepted").asLong()).isEqualTo(batches.get(0).size());
+        }
+        // A snapshot between the post and the restart (the graceful stop above wrote one) changes nothing.
+        try (Served s = new Served()) {
+            assertThat(s.client.postWithKey("van-5", batches.get(0), "batch-0").body()).isEqualTo(first);
+        }
     }
 
     @Test

@@ -32,7 +32,7 @@ class LimitsOverHttpTest {
     @BeforeAll
     static void start() {
         slow = new LiveServer(LiveServer.settings(s -> new ServerSettings(0, "127.0.0.1", List.of(), List.of(),
-                s.maxBodyBytes(), s.maxLineBytes(), 500, s.maxSessions(), 12, 1.0, 1.0, List.of(), s.sseKeepAliveS())));
+                s.maxBodyBytes(), s.maxLineBytes(), 500, s.maxSessions(), 12, 1.0, 1.0, List.of(), s.sseKeepAliveS(), s.idleTimeoutS(), s.minBodyBytesPerS(), s.drainTimeoutS(), s.maxConcurrentUploads(), s.maxStreams())));
         normal = new LiveServer(LiveServer.settings(s -> s));
     }
 

@@ -44,7 +44,7 @@ final class LiveServer implements AutoCloseable {
                                      double keepAliveS) {
         return new ServerSettings(s.port(), s.bind(), s.writeTokens(), s.readTokens(), maxBodyBytes, s.maxLineBytes(),
                 s.maxSamplesPerRequest(), maxSessions, s.maxVehicleIdChars(), s.maxSamplesPerSecondPerVehicle(),
-                s.rateBurstS(), cors, keepAliveS);
+                s.rateBurstS(), cors, keepAliveS, s.idleTimeoutS(), s.minBodyBytesPerS(), s.drainTimeoutS(), s.maxConcurrentUploads(), s.maxStreams());
     }
 
     URI uri(String pathAndQuery) {

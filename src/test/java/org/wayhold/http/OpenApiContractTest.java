@@ -133,6 +133,18 @@ class OpenApiContractTest {
         check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "text/csv", "t,lat\n", Map.of());
         check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson",
                 "x".repeat(300 * 1024), Map.of());
+        // An implausible value, a kept reply and its replay, a key reused for another body, a coding refused.
+        check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson",
+                "{\"type\":\"wheel_speed\",\"t\":1800003700.3,\"speed\":1e300}\n", Map.of());
+        String keyed = "{\"type\":\"yaw_rate\",\"t\":1800003700.4,\"rate\":0.01}\n";
+        check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson", keyed,
+                Map.of("Idempotency-Key", "spec-key-1"));
+        check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson", keyed,
+                Map.of("Idempotency-Key", "spec-key-1"));
+        check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson", keyed + keyed,
+                Map.of("Idempotency-Key", "spec-key-1"));
+        check(errors, "POST", "/v1/vehicles/" + CAR + "/samples", "application/x-ndjson", keyed,
+                Map.of("Content-Encoding", "br"));
         server.postNdjson("spec-gone", Drives.ndjson(Drives.openSky(5L, 2.0)));
         check(errors, "DELETE", "/v1/vehicles/spec-gone", null, null, Map.of());
         check(errors, "DELETE", "/v1/vehicles/spec-gone", null, null, Map.of());

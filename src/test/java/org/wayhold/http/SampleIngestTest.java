@@ -9,6 +9,7 @@ import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.wayhold.sample.Sample;
+import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.Settings;
 
 /**
@@ -200,7 +201,7 @@ class SampleIngestTest {
     void atMostAThousandRejectionsAreListedAndAllAreCounted() {
         String body = "x\n".repeat(1500);
         JsonNode reply = post("flood", "application/x-ndjson", body);
-        assertThat(reply.get("rejected")).hasSize(SampleIngest.MAX_LISTED_REJECTIONS);
+        assertThat(reply.get("rejected")).hasSize(IngestSettings.defaults().maxListedRejections());
         assertThat(reply.get("rejected_count").asLong()).isEqualTo(1500);
         assertThat(reply.get("rejected").get(999).get("line").asLong()).isEqualTo(1000);
     }

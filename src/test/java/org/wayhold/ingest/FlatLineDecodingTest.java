@@ -30,7 +30,7 @@ import org.junit.jupiter.params.provider.ValueSource;
 class FlatLineDecodingTest {
 
     private static ReadResult read(byte[] body, boolean flatLines) {
-        return new NdjsonReader(1 << 20, flatLines).readAll(new ByteArrayInputStream(body));
+        return new NdjsonReader(1 << 20, WideLimits.wide(), flatLines).readAll(new ByteArrayInputStream(body));
     }
 
     @ParameterizedTest
@@ -66,8 +66,9 @@ class FlatLineDecodingTest {
         byte[] body = String.join("\n", lines).getBytes(StandardCharsets.UTF_8);
         ReadResult flat = read(body, true);
         ReadResult careful = read(body, false);
-        // The generator must exercise both outcomes in volume, or the comparison proves little.
-        assertThat(flat.samples()).hasSizeGreaterThan(5_000);
+        // The generator must exercise both outcomes in volume, or the comparison proves little. About 3200
+        // of the 20,000 lines are valid: half the generated times are negative, which is never plausible.
+        assertThat(flat.samples()).hasSizeGreaterThan(2_500);
         assertThat(flat.rejected()).hasSizeGreaterThan(2_000);
         assertThat(flat.samples()).isEqualTo(careful.samples());
         assertThat(flat.rejected()).isEqualTo(careful.rejected());

@@ -5,11 +5,10 @@ import static org.assertj.core.api.Assertions.assertThat;
 import java.io.ByteArrayInputStream;
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
-import java.util.ArrayList;
 import java.util.List;
 import org.junit.jupiter.api.Test;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.GnssFix;
-import org.wayhold.sample.Sample;
 import org.wayhold.sample.WheelSpeed;
 import org.wayhold.sample.YawRate;
 
@@ -20,27 +19,7 @@ import org.wayhold.sample.YawRate;
 class JsonBodyTest {
 
     private static ReadResult readJson(String body) throws IOException {
-        List<Sample> samples = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        UnknownFields[] unknown = {UnknownFields.NONE};
-        new NdjsonReader().readJson(new ByteArrayInputStream(body.getBytes(StandardCharsets.UTF_8)),
-                new SampleSink() {
-                    @Override
-                    public void accept(Sample s) {
-                        samples.add(s);
-                    }
-
-                    @Override
-                    public void reject(LineError e) {
-                        rejected.add(e);
-                    }
-
-                    @Override
-                    public void unknownFields(UnknownFields u) {
-                        unknown[0] = u;
-                    }
-                });
-        return new ReadResult(samples, rejected, unknown[0]);
+        return new NdjsonReader().readAllJson(new ByteArrayInputStream(body.getBytes(StandardCharsets.UTF_8)));
     }
 
     @Test
@@ -53,7 +32,7 @@ class JsonBodyTest {
     @Test
     void aSingleBadObjectIsRejectedAsLineOne() throws IOException {
         ReadResult r = readJson("{\"type\":\"gnss\",\"t\":1,\"lat\":91,\"lon\":0}");
-        assertThat(r.rejected()).containsExactly(new LineError(1, "lat: must be within [-90, 90] degrees, was 91.0"));
+        assertThat(r.rejected()).containsExactly(new LineError(1, RejectionReason.INVALID, "lat: must be within [-90, 90] degrees, was 91.0"));
     }
 
     @Test
@@ -70,9 +49,9 @@ class JsonBodyTest {
         assertThat(r.samples()).containsExactly(new WheelSpeed(1.0, 2.0), new YawRate(2.0, 0.5),
                 GnssFix.position(3.0, 1.0, 2.0, Double.NaN));
         assertThat(r.rejected()).containsExactly(
-                new LineError(2, "lat: must be a number of degrees, was 'north'"),
-                new LineError(3, "not a JSON object: found a number"),
-                new LineError(4, "not a JSON object: found an array"));
+                new LineError(2, RejectionReason.INVALID, "lat: must be a number of degrees, was 'north'"),
+                new LineError(3, RejectionReason.MALFORMED, "not a JSON object: found a number"),
+                new LineError(4, RejectionReason.MALFORMED, "not a JSON object: found an array"));
     }
 
     @Test
@@ -81,7 +60,7 @@ class JsonBodyTest {
         assertThat(r.samples()).containsExactly(new WheelSpeed(1.0, 2.0));
         assertThat(r.rejected()).singleElement().satisfies(e -> {
             assertThat(e.line()).isEqualTo(2);
-            assertThat(e.reason()).startsWith("malformed JSON");
+            assertThat(e.detail()).startsWith("malformed JSON");
         });
     }
 
@@ -93,20 +72,20 @@ class JsonBodyTest {
             assertThat(r.samples()).isEmpty();
             assertThat(r.rejected()).as(body).singleElement().satisfies(e -> {
                 assertThat(e.line()).isEqualTo(1);
-                assertThat(e.reason()).startsWith("malformed JSON");
+                assertThat(e.detail()).startsWith("malformed JSON");
             });
         }
     }
 
     @Test
     void emptyBodiesBodiesOfTheWrongKindAndTrailingContentAreRejected() throws IOException {
-        assertThat(readJson("  ").rejected()).containsExactly(new LineError(1, "malformed JSON: the body is empty"));
-        assertThat(readJson("\"gnss\"").rejected()).containsExactly(new LineError(1, "not a JSON object: found a string"));
+        assertThat(readJson("  ").rejected()).containsExactly(new LineError(1, RejectionReason.MALFORMED, "malformed JSON: the body is empty"));
+        assertThat(readJson("\"gnss\"").rejected()).containsExactly(new LineError(1, RejectionReason.MALFORMED, "not a JSON object: found a string"));
         assertThat(readJson("[]").rejected()).isEmpty();
         ReadResult trailing = readJson("[{\"type\":\"wheel_speed\",\"t\":1,\"speed\":2}] {}");
         assertThat(trailing.samples()).hasSize(1);
         assertThat(trailing.rejected()).containsExactly(
-                new LineError(2, "malformed JSON: more content after the end of the body"));
+                new LineError(2, RejectionReason.MALFORMED, "malformed JSON: more content after the end of the body"));
     }
 
     @Test

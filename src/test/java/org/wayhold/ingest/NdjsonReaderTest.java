@@ -9,6 +9,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import org.junit.jupiter.params.provider.ValueSource;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.FixType;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.ReferencePoint;
@@ -99,16 +100,16 @@ class NdjsonReaderTest {
 
     @Test
     void malformedJsonIsRejectedWithItsColumn() {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,").reason()).startsWith("malformed JSON");
-        assertThat(rejectionOf("{\"type\":\"gnss\" \"t\":1}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,").detail()).startsWith("malformed JSON");
+        assertThat(rejectionOf("{\"type\":\"gnss\" \"t\":1}").detail())
                 .startsWith("malformed JSON at column 16:");
     }
 
     @Test
     void contentAfterTheObjectMakesTheLineMalformed() {
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3} {\"t\":2}").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3} {\"t\":2}").detail())
                 .isEqualTo("malformed JSON: more content after the object");
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3} x").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3} x").detail())
                 .startsWith("malformed JSON");
     }
 
@@ -116,7 +117,7 @@ class NdjsonReaderTest {
     void invalidUtf8IsMalformed() {
         byte[] line = {'{', '"', 't', 'y', 'p', 'e', '"', ':', '"', (byte) 0xC3, (byte) 0x28, '"', '}', '\n'};
         ReadResult r = new NdjsonReader().readAll(new ByteArrayInputStream(line));
-        assertThat(r.rejected()).singleElement().extracting(LineError::reason).asString()
+        assertThat(r.rejected()).singleElement().extracting(LineError::detail).asString()
                 .startsWith("malformed JSON");
     }
 
@@ -128,19 +129,19 @@ class NdjsonReaderTest {
         "null              | not a JSON object: found null",
         "true              | not a JSON object: found a boolean"})
     void aLineThatIsNotAnObjectIsRejected(String line, String reason) {
-        assertThat(rejectionOf(line).reason()).isEqualTo(reason);
+        assertThat(rejectionOf(line).detail()).isEqualTo(reason);
     }
 
     @Test
     void missingTIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"speed\":3}").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"speed\":3}").detail())
                 .isEqualTo("t: missing, required for type wheel_speed");
     }
 
     @ParameterizedTest
     @ValueSource(strings = {"NaN", "Infinity", "-Infinity", "1e999"})
     void nonFiniteTIsRejected(String t) {
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":" + t + ",\"speed\":3}").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":" + t + ",\"speed\":3}").detail())
                 .isEqualTo("t: must be a finite number of seconds, was " + t);
     }
 
@@ -155,26 +156,26 @@ class NdjsonReaderTest {
     void nanAndInfinityAreRejectedNamingTheField(String line, String reason) {
         // Decision: the parser admits NaN/Infinity tokens so the reason can name the field; a NaN must never
         // reach a record, where it would silently mean "not given".
-        assertThat(rejectionOf(line).reason()).isEqualTo(reason);
+        assertThat(rejectionOf(line).detail()).isEqualTo(reason);
     }
 
     @Test
     void nanIsRejectedEvenInAKnownFieldTheTypeDoesNotUse() {
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3,\"course\":NaN}").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3,\"course\":NaN}").detail())
                 .isEqualTo("course: must be a finite number of degrees, was NaN");
     }
 
     @Test
     void latitudeOutsideItsRangeIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":91,\"lon\":2}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":91,\"lon\":2}").detail())
                 .isEqualTo("lat: must be within [-90, 90] degrees, was 91.0");
-        assertThat(rejectionOf("{\"type\":\"reference\",\"t\":1,\"lat\":-90.5,\"lon\":2}").reason())
+        assertThat(rejectionOf("{\"type\":\"reference\",\"t\":1,\"lat\":-90.5,\"lon\":2}").detail())
                 .isEqualTo("lat: must be within [-90, 90] degrees, was -90.5");
     }
 
     @Test
     void longitudeOutsideItsRangeIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":180.25}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":180.25}").detail())
                 .isEqualTo("lon: must be within [-180, 180] degrees, was 180.25");
     }
 
@@ -187,32 +188,32 @@ class NdjsonReaderTest {
     @ParameterizedTest
     @ValueSource(strings = {"sigma_h", "sigma_v", "hdop"})
     void negativeAccuracyIsRejected(String field) {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"" + field + "\":-0.5}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"" + field + "\":-0.5}").detail())
                 .isEqualTo(field + ": must not be negative, was -0.5");
     }
 
     @Test
     void negativeSatelliteCountIsRejected() {
         // -1 is the records' "not given" marker: on the wire it must be an error, not silently absent.
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sats\":-1}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sats\":-1}").detail())
                 .isEqualTo("sats: must be a whole number of satellites >= 0, was -1");
     }
 
     @Test
     void unknownTypeIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"odometer\",\"t\":1,\"speed\":3}").reason())
+        assertThat(rejectionOf("{\"type\":\"odometer\",\"t\":1,\"speed\":3}").detail())
                 .isEqualTo("type: unknown sample type 'odometer', expected one of gnss, wheel_speed, yaw_rate, reference");
     }
 
     @Test
     void missingTypeIsRejected() {
-        assertThat(rejectionOf("{\"t\":1,\"speed\":3}").reason())
+        assertThat(rejectionOf("{\"t\":1,\"speed\":3}").detail())
                 .isEqualTo("type: missing, every sample needs one of gnss, wheel_speed, yaw_rate, reference");
     }
 
     @Test
     void unknownFixIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"fix\":\"4d\"}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"fix\":\"4d\"}").detail())
                 .isEqualTo("fix: unknown fix type '4d', expected one of none, 2d, 3d, dgnss, rtk_float, rtk_fixed");
     }
 
@@ -229,12 +230,12 @@ class NdjsonReaderTest {
         "{\"type\":\"wheel_speed\",\"t\":1,\"speed\":[3]}                 | speed: must be a number of m/s, was an array",
         "{\"type\":\"gnss\",\"t\":1,\"lat\":{\"deg\":1},\"lon\":2}        | lat: must be a number of degrees, was an object"})
     void wrongFieldTypesAreRejected(String line, String reason) {
-        assertThat(rejectionOf(line).reason()).isEqualTo(reason);
+        assertThat(rejectionOf(line).detail()).isEqualTo(reason);
     }
 
     @Test
     void aLongBadStringIsQuotedOnlyInPart() {
-        String reason = rejectionOf("{\"type\":\"" + "x".repeat(500) + "\",\"t\":1}").reason();
+        String reason = rejectionOf("{\"type\":\"" + "x".repeat(500) + "\",\"t\":1}").detail();
         assertThat(reason).isEqualTo("type: unknown sample type '" + "x".repeat(40)
                 + "...', expected one of gnss, wheel_speed, yaw_rate, reference");
     }
@@ -247,18 +248,18 @@ class NdjsonReaderTest {
         "{\"type\":\"reference\",\"t\":1,\"lon\":2}         | lat: missing, required for type reference",
         "{\"type\":\"gnss\",\"t\":1,\"lat\":null,\"lon\":2} | lat: missing, required for type gnss"})
     void missingRequiredFieldsAreRejected(String line, String reason) {
-        assertThat(rejectionOf(line).reason()).isEqualTo(reason);
+        assertThat(rejectionOf(line).detail()).isEqualTo(reason);
     }
 
     @Test
     void aFieldGivenTwiceIsRejected() {
-        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3,\"speed\":4}").reason())
+        assertThat(rejectionOf("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":3,\"speed\":4}").detail())
                 .isEqualTo("speed: given more than once");
     }
 
     @Test
     void theFirstProblemOfALineIsReported() {
-        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":\"x\",\"lon\":\"y\"}").reason())
+        assertThat(rejectionOf("{\"type\":\"gnss\",\"t\":1,\"lat\":\"x\",\"lon\":\"y\"}").detail())
                 .startsWith("lat:");
     }
 
@@ -281,9 +282,9 @@ class NdjsonReaderTest {
                 GnssFix.position(2.0, 1.0, 2.0, Double.NaN),
                 new WheelSpeed(2.0, 3.5));
         assertThat(r.rejected()).extracting(LineError::line).containsExactly(3L, 6L, 8L);
-        assertThat(r.rejected().get(0).reason()).startsWith("lat:");
-        assertThat(r.rejected().get(1).reason()).startsWith("malformed JSON");
-        assertThat(r.rejected().get(2).reason()).startsWith("type:");
+        assertThat(r.rejected().get(0).detail()).startsWith("lat:");
+        assertThat(r.rejected().get(1).detail()).startsWith("malformed JSON");
+        assertThat(r.rejected().get(2).detail()).startsWith("type:");
     }
 
     @Test
@@ -303,8 +304,8 @@ class NdjsonReaderTest {
         ReadResult r = reader.readAll(bytes(good + "\n" + longLine + "\n" + good + "\n" + longLine));
         assertThat(r.samples()).containsExactly(new WheelSpeed(1.0, 3.0), new WheelSpeed(1.0, 3.0));
         assertThat(r.rejected()).containsExactly(
-                new LineError(2, "line longer than 100 bytes"),
-                new LineError(4, "line longer than 100 bytes"));
+                new LineError(2, RejectionReason.MALFORMED, "line longer than 100 bytes"),
+                new LineError(4, RejectionReason.MALFORMED, "line longer than 100 bytes"));
     }
 
     @Test
@@ -313,7 +314,7 @@ class NdjsonReaderTest {
         int length = line.getBytes(StandardCharsets.UTF_8).length;
         assertThat(new NdjsonReader(length).readAll(bytes(line + "\r\n")).samples()).hasSize(1);
         assertThat(new NdjsonReader(length - 1).readAll(bytes(line + "\n")).rejected())
-                .containsExactly(new LineError(1, "line longer than " + (length - 1) + " bytes"));
+                .containsExactly(new LineError(1, RejectionReason.MALFORMED, "line longer than " + (length - 1) + " bytes"));
     }
 
     @Test
@@ -396,5 +397,49 @@ class NdjsonReaderTest {
         // A field that another sample type uses is not unknown, only unused here.
         assertThat(read("{\"type\":\"wheel_speed\",\"t\":1,\"speed\":2,\"rate\":0.1}\n").unknown())
                 .isEqualTo(UnknownFields.NONE);
+    }
+
+    /**
+     * Rule: a finite value beyond the physical bounds of the ingest settings is rejected as implausible,
+     * with a detail that starts with the field's name and names the key that sets the bound. Each row
+     * is a value just past its default bound (IngestSettings.defaults(); fixed bounds from definitions:
+     * t >= 0, course and heading within [0, 360] degrees).
+     */
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {
+        "{\"type\":\"wheel_speed\",\"t\":1,\"speed\":1e300}|speed: must be within [-150.0, 150.0] m/s (ingest.max_wheel_speed_mps), was 1.0E300",
+        "{\"type\":\"wheel_speed\",\"t\":1,\"speed\":-150.00000000000003}|speed: must be within [-150.0, 150.0]",
+        "{\"type\":\"yaw_rate\",\"t\":1,\"rate\":10.000000000000002}|rate: must be within [-10.0, 10.0] rad/s (ingest.max_yaw_rate_rad_per_s)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":1e300}|alt: must be within [-1000.0, 100000.0] m",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":-1000.0000000000001}|alt: must be within",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sigma_h\":1e200}|sigma_h: must be within [0.0, 10000.0] m (ingest.max_sigma_m)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sigma_v\":10000.000000000002}|sigma_v: must be within",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"hdop\":1e200}|hdop: must be within [0.0, 100.0] (ingest.max_hdop)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"sats\":1001}|sats: must be at most 1000 (ingest.max_sats)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"speed\":150.00000000000003}|speed: must be within [0.0, 150.0] m/s (ingest.max_gnss_speed_mps)",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"course\":360.00000000000006}|course: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":1,\"lon\":2,\"course\":-1e-300}|course: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":1,\"lon\":2,\"alt\":1e7}|alt: must be within",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":1,\"lon\":2,\"heading\":720}|heading: must be within [0.0, 360.0] degrees",
+        "{\"type\":\"yaw_rate\",\"t\":-0.5,\"rate\":0}|t: must be within [0.0, 1.0E10] s (ingest.max_t_s)",
+        "{\"type\":\"yaw_rate\",\"t\":1e300,\"rate\":0}|t: must be within [0.0, 1.0E10] s"})
+    void aValueBeyondItsPhysicalBoundIsRejectedAsImplausible(String line, String detail) {
+        LineError e = rejectionOf(line);
+        assertThat(e.reason()).isEqualTo(RejectionReason.IMPLAUSIBLE);
+        assertThat(e.detail()).startsWith(detail);
+    }
+
+    /** The bounds themselves are accepted: each is the largest (or smallest) plausible value. */
+    @ParameterizedTest
+    @ValueSource(strings = {
+        "{\"type\":\"wheel_speed\",\"t\":0,\"speed\":-150}",
+        "{\"type\":\"yaw_rate\",\"t\":1e10,\"rate\":10}",
+        "{\"type\":\"gnss\",\"t\":1,\"lat\":90,\"lon\":-180,\"alt\":-1000,\"sigma_h\":0,\"sigma_v\":10000,"
+                + "\"hdop\":100,\"sats\":1000,\"speed\":150,\"course\":360}",
+        "{\"type\":\"reference\",\"t\":1,\"lat\":-90,\"lon\":180,\"alt\":100000,\"heading\":0}"})
+    void valuesAtTheBoundsAreAccepted(String line) {
+        ReadResult r = new NdjsonReader().readAll(new ByteArrayInputStream(line.getBytes(StandardCharsets.UTF_8)));
+        assertThat(r.rejected()).isEmpty();
+        assertThat(r.samples()).hasSize(1);
     }
 }

@@ -39,7 +39,8 @@ class NdjsonWriterTest {
     }
 
     private static List<Sample> readBack(String text) {
-        ReadResult r = new NdjsonReader().readAll(new ByteArrayInputStream(text.getBytes(StandardCharsets.UTF_8)));
+        // Wide bounds: the generated values reach beyond the physical defaults on purpose.
+        ReadResult r = WideLimits.reader().readAll(new ByteArrayInputStream(text.getBytes(StandardCharsets.UTF_8)));
         assertThat(r.rejected()).isEmpty();
         return r.samples();
     }
@@ -92,7 +93,7 @@ class NdjsonWriterTest {
         for (int i = 0; i < 2000; i++) {
             double t = 1.7e9 + random.nextDouble() * 1e8;
             samples.add(new GnssFix(t, random.nextDouble() * 180 - 90, random.nextDouble() * 360 - 180,
-                    random.nextGaussian() * 1000, random.nextDouble() * 10, Double.MIN_VALUE * i,
+                    random.nextGaussian() * 1000, random.nextDouble() * 10, Double.MIN_VALUE * (i + 1),
                     FixType.values()[i % FixType.values().length], i % 40, random.nextDouble() * 5,
                     random.nextDouble() * 60, random.nextDouble() * 360));
             samples.add(new WheelSpeed(t, i == 0 ? -0.0 : random.nextGaussian() * 30));
@@ -143,19 +144,6 @@ class NdjsonWriterTest {
     }
 
     private static ReadResult readFile(Path p) throws IOException {
-        List<Sample> samples = new ArrayList<>();
-        List<LineError> rejected = new ArrayList<>();
-        NdjsonReader.readFile(p, new SampleSink() {
-            @Override
-            public void accept(Sample s) {
-                samples.add(s);
-            }
-
-            @Override
-            public void reject(LineError e) {
-                rejected.add(e);
-            }
-        });
-        return new ReadResult(samples, rejected);
+        return NdjsonReader.readFileAll(p);
     }
 }

@@ -7,6 +7,7 @@ import java.util.Collections;
 import java.util.List;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
 import org.wayhold.sample.WheelSpeed;
@@ -129,7 +130,8 @@ class ReorderBufferTest {
         // Newest is 1009.99 s; a sample at 1007.5 s is 2.49 s late.
         List<Admission> a = buffer.submit(List.of(new YawRate(1007.5, 0.3)));
         assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(0).reason()).contains("late by 2.490 s");
+        assertThat(a.get(0).detail()).contains("late by 2.490 s");
+        assertThat(a.get(0).reason()).isEqualTo(RejectionReason.LATE);
         assertThat(rec.applied).isEqualTo(before);
         assertThat(buffer.rejected()).isEqualTo(1);
     }
@@ -163,7 +165,8 @@ class ReorderBufferTest {
         // Newest is 1000.99 s; the limit is 3600 s ahead of it.
         List<Admission> a = buffer.submit(List.of(new WheelSpeed(1000.99 + 3600.5, 3.0)));
         assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(0).reason()).contains("3600.500 s ahead");
+        assertThat(a.get(0).detail()).contains("3600.500 s ahead");
+        assertThat(a.get(0).reason()).isEqualTo(RejectionReason.AHEAD);
         // The timeline did not move: an ordinary next sample is still applied.
         List<Admission> b = buffer.submit(List.of(new WheelSpeed(1001.5, 3.0)));
         assertThat(b.get(0).kind()).isEqualTo(Admission.Kind.APPLIED);
@@ -210,8 +213,9 @@ class ReorderBufferTest {
         first.add(new YawRate(315_964_800.0, 0.1));
         List<Admission> a = buffer.submit(first);
         assertThat(a.get(1).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(1).reason()).startsWith("t: ").contains("median time of the vehicle's first samples")
+        assertThat(a.get(1).detail()).startsWith("t: ").contains("median time of the vehicle's first samples")
                 .contains("3600.000 s");
+        assertThat(a.get(1).reason()).isEqualTo(RejectionReason.OFF_TIMELINE);
         assertThat(a.get(a.size() - 1).kind()).isEqualTo(Admission.Kind.REJECTED);
         assertThat(a).filteredOn(x -> x.kind() == Admission.Kind.APPLIED).hasSize(first.size() - 2);
         assertThat(buffer.newestT()).isLessThan(1.8e9 + 1.0);
@@ -235,7 +239,8 @@ class ReorderBufferTest {
         ReorderBuffer<List<Sample>> buffer = new ReorderBuffer<>(rec, new OrderingSettings(2.0, 3600.0));
         List<Admission> a = buffer.submit(List.of(new WheelSpeed(1000.0 + 1.0e6, 1.0), new WheelSpeed(1000.0, 1.0)));
         assertThat(a).extracting(Admission::kind).containsExactly(Admission.Kind.REJECTED, Admission.Kind.APPLIED);
-        assertThat(a.get(0).reason()).contains("ahead of the session's newest sample");
+        assertThat(a.get(0).detail()).contains("ahead of the session's newest sample");
+        assertThat(a.get(0).reason()).isEqualTo(RejectionReason.AHEAD);
         assertThat(buffer.newestT()).isEqualTo(1000.0);
     }
 

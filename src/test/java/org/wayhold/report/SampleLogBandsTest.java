@@ -7,9 +7,8 @@ import java.util.ArrayList;
 import java.util.List;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
-import org.wayhold.ingest.LineError;
 import org.wayhold.ingest.NdjsonReader;
-import org.wayhold.ingest.SampleSink;
+import org.wayhold.ingest.ReadResult;
 import org.wayhold.sample.Sample;
 import org.wayhold.scoring.LengthSummary;
 import org.wayhold.scoring.ScoringRun;
@@ -44,17 +43,11 @@ class SampleLogBandsTest {
 
             @Override
             public ScoringRun.LoadedLog load() throws java.io.IOException {
-                NdjsonReader.readFile(p, new SampleSink() {
-                    @Override
-                    public void accept(Sample s) {
-                        samples.add(s);
-                    }
-
-                    @Override
-                    public void reject(LineError e) {
-                        throw new AssertionError("demo log line rejected: " + e);
-                    }
-                });
+                ReadResult r = NdjsonReader.readFileAll(p);
+                if (!r.rejected().isEmpty()) {
+                    throw new AssertionError("demo log line rejected: " + r.rejected().get(0));
+                }
+                samples.addAll(r.samples());
                 return new ScoringRun.LoadedLog(file, samples, List.of());
             }
         };

@@ -91,7 +91,7 @@ public final class SessionMemoryMain {
         long[] count = {0};
         new NdjsonReader().read(new ByteArrayInputStream(log), new SampleSink() {
             @Override
-            public void accept(Sample s) {
+            public void accept(long line, Sample s) {
                 batch.add(s);
                 count[0]++;
                 if (batch.size() == 200) {

@@ -20,7 +20,7 @@ class SessionRegistryTest {
         ServerSettings s = d.server();
         return new Settings(new ServerSettings(s.port(), s.bind(), s.writeTokens(), s.readTokens(), s.maxBodyBytes(),
                 s.maxLineBytes(), s.maxSamplesPerRequest(), max, s.maxVehicleIdChars(), s.maxSamplesPerSecondPerVehicle(),
-                s.rateBurstS(), s.corsOrigins(), s.sseKeepAliveS()), d.filter(), d.gating(), d.outage(), d.ordering(), d.history(), Map.of());
+                s.rateBurstS(), s.corsOrigins(), s.sseKeepAliveS(), s.idleTimeoutS(), s.minBodyBytesPerS(), s.drainTimeoutS(), s.maxConcurrentUploads(), s.maxStreams()), d.filter(), d.gating(), d.outage(), d.ordering(), d.history(), Map.of());
     }
 
     @Test

@@ -7,6 +7,7 @@ import java.util.Collections;
 import java.util.List;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
+import org.wayhold.sample.RejectionReason;
 import org.wayhold.ordering.Admission;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.Pose;
@@ -126,7 +127,8 @@ class VehicleSessionOrderingTest {
         // Newest is T0 + 20 s; default max_lag_s is 2 s.
         List<Admission> a = s.submit(List.of(new YawRate(T0 + 17.5, 0.4)));
         assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(0).reason()).contains("late by 2.500 s");
+        assertThat(a.get(0).detail()).contains("late by 2.500 s");
+        assertThat(a.get(0).reason()).isEqualTo(RejectionReason.LATE);
         assertThat(s.latest().orElseThrow()).isEqualTo(before);
         assertThat(fullTrack(s)).isEqualTo(trackBefore);
         assertThat(s.stats().orderingRejected()).isEqualTo(1);
@@ -153,7 +155,8 @@ class VehicleSessionOrderingTest {
         // Default max_forward_jump_s is 3600 s.
         List<Admission> a = s.submit(List.of(new YawRate(T0 + 5.0 + 3700.0, 0.0)));
         assertThat(a.get(0).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(0).reason()).contains("ahead");
+        assertThat(a.get(0).detail()).contains("ahead");
+        assertThat(a.get(0).reason()).isEqualTo(RejectionReason.AHEAD);
         assertThat(s.latest().orElseThrow().t()).isEqualTo(T0 + 5.0);
     }
 
@@ -168,7 +171,8 @@ class VehicleSessionOrderingTest {
         first.add(7, new YawRate(12.5, 0.02));
         List<Admission> a = s.submit(first);
         assertThat(a.get(7).kind()).isEqualTo(Admission.Kind.REJECTED);
-        assertThat(a.get(7).reason()).contains("first samples");
+        assertThat(a.get(7).detail()).contains("first samples");
+        assertThat(a.get(7).reason()).isEqualTo(RejectionReason.OFF_TIMELINE);
         for (int i = 50; i < drive.size(); i += 40) {
             List<Admission> b = s.submit(drive.subList(i, Math.min(drive.size(), i + 40)));
             assertThat(b).allMatch(x -> x.kind() == Admission.Kind.APPLIED);

@@ -57,12 +57,11 @@ class DriveSimulatorTest {
             // the double nearest to the true instant (one ulp at 1.8e9 s is 2.4e-7 s).
             long tick = Math.round((s.t() - start) * 100.0);
             assertThat(s.t()).isEqualTo(start + tick / 100.0);
-            int ticksPerSample = switch (s.typeName()) {
-                case "yaw_rate" -> 1;      // 100 Hz
-                case "wheel_speed" -> 2;   // 50 Hz
-                case "reference" -> 10;    // 10 Hz
-                case "gnss" -> 20;         // 5 Hz
-                default -> throw new AssertionError(s.typeName());
+            int ticksPerSample = switch (s.type()) {
+                case YAW_RATE -> 1;      // 100 Hz
+                case WHEEL_SPEED -> 2;   // 50 Hz
+                case REFERENCE -> 10;    // 10 Hz
+                case GNSS -> 20;         // 5 Hz
             };
             assertThat(tick % ticksPerSample).as("tick of %s", s).isZero();
         }
