@@ -34,6 +34,24 @@ final class CourseSpeed {
     }
 
     /**
+     * The wheel speed over the interval since the previous fix (m/s): the distance the readings
+     * integrate to over the time. A single reading of a sensor that counts teeth jumps by a tooth's
+     * length per sample interval (metres per second at 50 Hz); the distance is right to within a tooth,
+     * so its mean over a fix interval is what the GNSS speed can be compared with. NaN without a
+     * previous fix or over an interval longer than {@link #MAX_MEAN_INTERVAL_S}.
+     */
+    static double meanWheelSpeedMps(FilterState s) {
+        double dt = s.get(FilterState.Slot.T_REL) - s.get(FilterState.Slot.PREVIOUS_FIX_T_REL);
+        if (!(dt > 0.0) || dt > MAX_MEAN_INTERVAL_S) {
+            return Double.NaN;
+        }
+        return (s.get(FilterState.Slot.WHEEL_DISTANCE_M) - s.get(FilterState.Slot.WHEEL_DISTANCE_AT_FIX_M)) / dt;
+    }
+
+    /** Longest fix interval over which the mean wheel speed stands for the speed at the fix (s). */
+    static final double MAX_MEAN_INTERVAL_S = 1.5;
+
+    /**
      * Corrects the state with the fix's course and speed when it carries both and they apply.
      *
      * @param s             the state (modified)
@@ -45,9 +63,10 @@ final class CourseSpeed {
         if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
-        double wheel = s.get(FilterState.Slot.WHEEL_SPEED_MPS);
+        double wheel = meanWheelSpeedMps(s);
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        if (fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS) {
+        if (Double.isNaN(wheel) || fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
+                || Math.abs(s.get(FilterState.Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
             return;
         }
         double[] x = s.x;

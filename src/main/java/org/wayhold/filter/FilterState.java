@@ -31,8 +31,8 @@ public final class FilterState {
     /** Position NIS values kept for the sustained-disagreement test (count). */
     static final int NIS_WINDOW = 10;
 
-    /** Fixes kept for the displacement test, one per second at most (count). */
-    static final int TRAIL_LENGTH = 24;
+    /** Fixes kept for the displacement test, one per two seconds at most (count). */
+    static final int TRAIL_LENGTH = 32;
     /** Per trail entry: time, fix east, fix north, odometry east, odometry north, white variance. */
     static final int TRAIL_FIELDS = 6;
 
@@ -111,6 +111,8 @@ public final class FilterState {
         INCONSISTENT_T_REL(Double.NaN),
         /** Consecutive fixes that failed the displacement test (count). */
         INCONSISTENT_RUN(0.0),
+        /** The newest fix failed the displacement test (flag). */
+        FIX_FAILED(0.0),
         /** Time the covariance was last widened for sustained disagreement or a jump (s since epoch). */
         WIDENED_T_REL(Double.NaN),
         /** Number of NIS values in the innovation window (count). */
@@ -130,7 +132,13 @@ public final class FilterState {
         /** When the current probation began (s since epoch). */
         PROBATION_SINCE_T_REL(Double.NaN),
         /** Horizontal variance of the fix at the alignment anchor, per axis (m^2). */
-        ANCHOR_VAR_M2(Double.NaN);
+        ANCHOR_VAR_M2(Double.NaN),
+        /** Distance the raw wheel speed integrates to, unscaled and signed (m). */
+        WHEEL_DISTANCE_M(0.0),
+        /** That distance at the previous fix (m). */
+        WHEEL_DISTANCE_AT_FIX_M(Double.NaN),
+        /** Time of the previous fix, used or not (s since epoch). */
+        PREVIOUS_FIX_T_REL(Double.NaN);
 
         private final double initial;
 

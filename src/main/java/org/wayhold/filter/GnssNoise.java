@@ -17,14 +17,11 @@ import org.wayhold.settings.FilterSettings;
 final class GnssNoise {
 
     /**
-     * Multiplier on the sigma of a fix from this few satellites or fewer (unitless): four is the least
-     * that gives a 3D solution, with no redundancy to catch a bad signal (common practice).
+     * Multiplier on the sigma of a fix by the number of satellites it used, index = satellites (0 to 6;
+     * seven and more take 1): four is the least that gives a 3D solution and leaves no redundancy to
+     * catch a reflected signal; five or six leave little (common practice, not a published table).
      */
-    private static final double FEW_SATELLITES_FACTOR = 2.0;
-    private static final int FEW_SATELLITES = 4;
-    /** Multiplier for five or six satellites: some redundancy, little (common practice). */
-    private static final double SOME_SATELLITES_FACTOR = 1.3;
-    private static final int SOME_SATELLITES = 6;
+    private static final double[] SATELLITE_FACTOR = {2.0, 2.0, 2.0, 2.0, 2.0, 1.3, 1.3};
 
     private final FilterSettings settings;
 
@@ -51,12 +48,8 @@ final class GnssNoise {
         if (fix.hasHdop()) {
             sigma = Math.max(sigma, fix.hdop() * settings.gnssHdopFloorM());
         }
-        if (fix.hasSats()) {
-            if (fix.sats() <= FEW_SATELLITES) {
-                sigma *= FEW_SATELLITES_FACTOR;
-            } else if (fix.sats() <= SOME_SATELLITES) {
-                sigma *= SOME_SATELLITES_FACTOR;
-            }
+        if (fix.hasSats() && fix.sats() < SATELLITE_FACTOR.length) {
+            sigma *= SATELLITE_FACTOR[Math.max(fix.sats(), 0)];
         }
         return Math.max(sigma, settings.gnssFloorM());
     }

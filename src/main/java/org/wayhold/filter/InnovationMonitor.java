@@ -1,6 +1,8 @@
 package org.wayhold.filter;
 
 import static org.wayhold.filter.StateIndex.EAST;
+import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
+import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
 import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.YAW;
@@ -45,6 +47,35 @@ final class InnovationMonitor {
             widen(s, sum / (2.0 * FilterState.NIS_WINDOW));
             s.set(Slot.NIS_COUNT, 0);
         }
+    }
+
+    /**
+     * 2-dof chi-square quantile at 0.999: -2 ln(0.001) (NIST/SEMATECH e-Handbook 1.3.6.7.4: 13.816).
+     */
+    static final double GNSS_ERROR_GATE = 13.815510557964274;
+
+    /**
+     * Checks the correlated GNSS error the state holds against its own steady-state variance. An
+     * estimate far beyond it (the 2-dof quantile at 0.999) is no receiver error: the fixes have kept
+     * disagreeing with a position that drifted, and the update has parked the difference where it
+     * costs least. The position's covariance then takes that estimate as a possible offset (its outer
+     * product, rank one), so the next fixes move the position instead; the estimate itself decays with
+     * the Gauss-Markov correlation time.
+     */
+    static void checkGnssError(FilterState s) {
+        double ge = s.x[GNSS_ERR_EAST];
+        double gn = s.x[GNSS_ERR_NORTH];
+        double var = s.get(Slot.CORRELATED_VAR_M2);
+        if (!(var > 0.0) || (ge * ge + gn * gn) / var <= GNSS_ERROR_GATE) {
+            return;
+        }
+        double[] p = s.p;
+        p[EAST * SIZE + EAST] += ge * ge;
+        p[EAST * SIZE + NORTH] += ge * gn;
+        p[NORTH * SIZE + EAST] += ge * gn;
+        p[NORTH * SIZE + NORTH] += gn * gn;
+        s.increment(FilterCounter.COVARIANCE_WIDENINGS);
+        s.set(Slot.WIDENED_T_REL, s.get(Slot.T_REL));
     }
 
     /** Forgets the window (after a reacquisition or a reset, whose fixes are judged on their own). */

@@ -231,6 +231,7 @@ public final class NavigationFilter {
             creepSigma = standstill.creepSpeedSigmaMps(omega);
         }
         s.set(Slot.ODOMETER_M, s.get(Slot.ODOMETER_M) + Math.abs(scale * wheel) * dt);
+        s.set(Slot.WHEEL_DISTANCE_M, s.get(Slot.WHEEL_DISTANCE_M) + wheel * dt);
         if (!initialized) {
             return;
         }
@@ -318,9 +319,11 @@ public final class NavigationFilter {
      * replays. The normalised innovation squared is {@link #lastNis()}.
      */
     public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double upM) {
+        s.set(Slot.PREVIOUS_FIX_T_REL, s.get(Slot.LAST_FIX_T_REL));
         s.set(Slot.LAST_FIX_T_REL, s.get(Slot.T_REL));
         s.set(Slot.LAST_NIS, Double.NaN);
         GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, upM);
+        s.set(Slot.WHEEL_DISTANCE_AT_FIX_M, s.get(Slot.WHEEL_DISTANCE_M));
         s.set(Slot.LAST_KIND, kind.ordinal());
         switch (kind) {
             case ACCEPTED, REACQUIRED, INITIALIZING -> {
@@ -364,13 +367,14 @@ public final class NavigationFilter {
         double nuEast = update.nu[0];
         double nuNorth = update.nu[1];
         Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, whiteVar,
-                Alignment.calibrationPlausible(s));
+                Alignment.calibrationPlausible(s), !s.is(Slot.FIX_FAILED));
         switch (verdict) {
             case ACCEPT -> {
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;
                 }
                 InnovationMonitor.record(s, nis);
+                InnovationMonitor.checkGnssError(s);
             }
             case REACQUIRE -> {
                 if (nis > reacquisition.gateThreshold()) {

@@ -81,9 +81,12 @@ final class Reacquisition {
      * @param nis                  its normalised innovation squared (unitless)
      * @param whiteVar             the fix's white variance per axis (m^2)
      * @param calibrationPlausible whether the calibration states could survive a reset
+     * @param consistent           whether the fix agrees with the odometry's path ({@link FixConsistency}):
+     *                             fixes that agree with each other but not with the odometry are
+     *                             never taken by a reacquisition or a reset, only through the gate
      */
     Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
-                   boolean calibrationPlausible) {
+                   boolean calibrationPlausible, boolean consistent) {
         if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
             begin(s, Probation.AFTER_GAP);
         }
@@ -99,6 +102,15 @@ final class Reacquisition {
             return Verdict.GATED;
         }
         hold(s, nuEastM, nuNorthM, whiteVar);
+        if (!consistent) {
+            // A receiver that jumped with a reflection gives fixes that agree with each other: only the
+            // odometry can tell, and it says no. They count through the gate alone.
+            if (passes) {
+                end(s);
+                return Verdict.ACCEPT;
+            }
+            return Verdict.GATED;
+        }
         if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible)) {
             end(s);
             return Verdict.RESET;

@@ -35,7 +35,7 @@ public class SimDump {
                 FixRecord f = byT.get(p.t());
                 double fe = f == null ? Double.NaN : Math.hypot(f.eastM() - tr.eastM(), f.northM() - tr.northM());
                 double dy = Double.isNaN(p.headingDeg()) ? Double.NaN : Math.toDegrees(Angles.wrapPi(Angles.headingDegToYawRad(p.headingDeg()) - tr.yawRad()));
-                w.printf(Locale.ROOT, "%.2f,%.3f,%.3f,%s,%s,%.3f,%s,%.2f,%.3f,%.3f,%.2f%n", p.t() - d.startT(), err, p.radius95M(), p.state(), p.reasonList(), fe, f == null ? "" : f.outcome(), f == null ? Double.NaN : f.nis(), dy, p.headingSigmaDeg(), p.speedMps());
+                w.printf(Locale.ROOT, "%.2f,%.3f,%.3f,%s,%s,%.3f,%s,%.2f,%.3f,%.3f,%.2f%n", p.t() - d.startT(), err, p.radius95M(), p.state(), p.reasonList().toString().replace(",", " "), fe, f == null ? "" : f.outcome(), f == null ? Double.NaN : f.nis(), dy, p.headingSigmaDeg(), p.speedMps());
             }
         }
     }
