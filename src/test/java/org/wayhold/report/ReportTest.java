@@ -137,7 +137,8 @@ class ReportTest {
         JsonNode configs = new ObjectMapper().readTree(text).get("configs");
         List<Settings> scored = List.of(Settings.defaults(), new Settings(
                 everyKey.server().withTokens(List.of(), List.of()), everyKey.filter(), everyKey.gating(),
-                everyKey.outage(), everyKey.ordering(), everyKey.history(), everyKey.vehicles(), everyKey.journal()));
+                everyKey.outage(), everyKey.ordering(), everyKey.history(), everyKey.vehicles(), everyKey.journal(),
+                everyKey.ingest()));
         assertThat(configs).hasSize(2);
         for (int i = 0; i < 2; i++) {
             Path yaml = dir.resolve("config-" + i + ".yaml");
