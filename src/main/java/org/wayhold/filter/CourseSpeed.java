@@ -34,22 +34,13 @@ final class CourseSpeed {
     }
 
     /**
-     * The wheel speed over the interval since the previous fix (m/s): the distance the readings
-     * integrate to over the time. A single reading of a sensor that counts teeth jumps by a tooth's
-     * length per sample interval (metres per second at 50 Hz); the distance is right to within a tooth,
-     * so its mean over a fix interval is what the GNSS speed can be compared with. NaN without a
-     * previous fix or over an interval longer than {@link #MAX_MEAN_INTERVAL_S}.
+     * The wheel speed is averaged over at least this long before it is compared with a GNSS speed (s):
+     * long enough to span several readings of a sensor that counts teeth, short enough that the speed
+     * changes little under normal acceleration.
      */
-    static double meanWheelSpeedMps(FilterState s) {
-        double dt = s.get(FilterState.Slot.T_REL) - s.get(FilterState.Slot.PREVIOUS_FIX_T_REL);
-        if (!(dt > 0.0) || dt > MAX_MEAN_INTERVAL_S) {
-            return Double.NaN;
-        }
-        return (s.get(FilterState.Slot.WHEEL_DISTANCE_M) - s.get(FilterState.Slot.WHEEL_DISTANCE_AT_FIX_M)) / dt;
-    }
-
-    /** Longest fix interval over which the mean wheel speed stands for the speed at the fix (s). */
-    static final double MAX_MEAN_INTERVAL_S = 1.5;
+    static final double MEAN_WINDOW_S = 0.2;
+    /** ... and over at most this long (s): a slower stream gives no comparable speed. */
+    static final double MAX_MEAN_WINDOW_S = 0.5;
 
     /**
      * Corrects the state with the fix's course and speed when it carries both and they apply.
@@ -63,7 +54,7 @@ final class CourseSpeed {
         if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
-        double wheel = meanWheelSpeedMps(s);
+        double wheel = InputHold.meanWheelSpeedMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
         double minSpeed = settings.gnssVelocityMinSpeedMps();
         if (Double.isNaN(wheel) || fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
                 || Math.abs(s.get(FilterState.Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
@@ -105,7 +96,9 @@ final class CourseSpeed {
         u.nu[0] = Angles.wrapPi(measuredYaw - (x[YAW] + Math.atan2(b, a)));
         u.nu[1] = fix.speedMps() - n;
         u.prepare(s.p, 2);
+        PositionFix.freezeUnobservable(u, omega, n);
         if (u.nis() > gateThreshold) {
+            java.util.Arrays.fill(u.frozen, false);
             s.increment(FilterCounter.VELOCITY_GATED);
             return;
         }

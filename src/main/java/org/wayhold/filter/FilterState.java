@@ -33,8 +33,11 @@ public final class FilterState {
 
     /** Fixes kept for the displacement test, one per two seconds at most (count). */
     static final int TRAIL_LENGTH = 32;
-    /** Per trail entry: time, fix east, fix north, odometry east, odometry north, white variance. */
-    static final int TRAIL_FIELDS = 6;
+    /**
+     * Per trail entry: time, fix east, fix north, odometry east, odometry north, white variance, yaw,
+     * speed (scaled).
+     */
+    static final int TRAIL_FIELDS = 8;
 
     /**
      * The scalar bookkeeping, one slot each. Flags are 0 or 1, whole numbers are stored exactly (all
@@ -135,10 +138,10 @@ public final class FilterState {
         ANCHOR_VAR_M2(Double.NaN),
         /** Distance the raw wheel speed integrates to, unscaled and signed (m). */
         WHEEL_DISTANCE_M(0.0),
-        /** That distance at the previous fix (m). */
-        WHEEL_DISTANCE_AT_FIX_M(Double.NaN),
-        /** Time of the previous fix, used or not (s since epoch). */
-        PREVIOUS_FIX_T_REL(Double.NaN);
+        /** Next slot of the wheel-speed marks (index). */
+        WHEEL_MARK_NEXT(0.0),
+        /** Number of wheel-speed marks (count). */
+        WHEEL_MARK_COUNT(0.0);
 
         private final double initial;
 
@@ -159,10 +162,16 @@ public final class FilterState {
     private final double[] v = new double[SLOTS.length];
     /** Fixes held back by {@link Reacquisition}, {@link #PENDING_FIELDS} entries each. */
     final double[][] pending;
+    /** Wheel-speed readings kept for the mean speed at a fix (count). */
+    static final int WHEEL_MARKS = 16;
+
     /** The last position NIS values of used fixes, a ring of {@link #NIS_WINDOW}. */
     final double[] recentNis = new double[NIS_WINDOW];
     /** Past fixes with the odometry's position at their time, a ring of {@link #TRAIL_LENGTH}. */
     final double[][] trail = new double[TRAIL_LENGTH][TRAIL_FIELDS];
+    /** Times of recent wheel-speed readings and the wheel distance at each, a ring of {@link #WHEEL_MARKS}. */
+    final double[] wheelMarkT = new double[WHEEL_MARKS];
+    final double[] wheelMarkDistance = new double[WHEEL_MARKS];
     /** Running counts, indexed by {@link FilterCounter#ordinal()}. */
     private final long[] counts = new long[FilterCounter.values().length];
 
@@ -242,6 +251,8 @@ public final class FilterState {
             System.arraycopy(o.pending[i], 0, pending[i], 0, PENDING_FIELDS);
         }
         System.arraycopy(o.recentNis, 0, recentNis, 0, NIS_WINDOW);
+        System.arraycopy(o.wheelMarkT, 0, wheelMarkT, 0, WHEEL_MARKS);
+        System.arraycopy(o.wheelMarkDistance, 0, wheelMarkDistance, 0, WHEEL_MARKS);
         for (int i = 0; i < TRAIL_LENGTH; i++) {
             System.arraycopy(o.trail[i], 0, trail[i], 0, TRAIL_FIELDS);
         }
@@ -259,6 +270,8 @@ public final class FilterState {
             writeAll(out, row);
         }
         writeAll(out, recentNis);
+        writeAll(out, wheelMarkT);
+        writeAll(out, wheelMarkDistance);
         out.writeInt(trail.length);
         for (double[] row : trail) {
             writeAll(out, row);
@@ -288,6 +301,8 @@ public final class FilterState {
             readAll(in, row, "held fix");
         }
         readAll(in, recentNis, "innovation window");
+        readAll(in, wheelMarkT, "wheel-speed marks");
+        readAll(in, wheelMarkDistance, "wheel-speed marks");
         expectLength(in, trail.length, "displacement ring");
         for (double[] row : trail) {
             readAll(in, row, "displacement entry");

@@ -1,6 +1,9 @@
 package org.wayhold.filter;
 
 import static org.wayhold.filter.StateIndex.EAST;
+import static org.wayhold.filter.StateIndex.GNSS_LATENCY;
+import static org.wayhold.filter.StateIndex.LEVER_FORWARD;
+import static org.wayhold.filter.StateIndex.LEVER_LEFT;
 import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
@@ -23,7 +26,8 @@ import org.wayhold.filter.FilterState.Slot;
  *   white(new) + white(old) + 2 sigma_c^2 (1 - exp(-dt / tau)) + dist^2 (var(yaw) + var(scale) + k^2)
  * </pre>
  * (the Gauss-Markov error's change over dt, and the relative motion error; k = {@link #ODOMETRY_SHARE}
- * for what the states do not model). When d'd over that variance passes the 2-dof chi-square quantile
+ * for what the states do not model), with the antenna's own motion taken out: the turn of the lever
+ * arm and the change of the distance driven during the latency, and their uncertainty added. When d'd over that variance passes the 2-dof chi-square quantile
  * at 0.999 for {@link #CONFIRMING_TESTS} fixes in a row (one outlier fails once, a receiver tracking
  * reflections fix after fix), the two disagree, and either may be wrong: fixes among buildings
  * wander, and an odometry glitch turns the heading. Both make the same first impression, so neither is
@@ -46,7 +50,7 @@ final class FixConsistency {
     /** Fixes enter the trail at most this often (s); with {@link FilterState#TRAIL_LENGTH} it spans a minute. */
     static final double TRAIL_SPACING_S = 2.0;
     /** Share of the distance the odometry may err by over the span beyond its states (common practice). */
-    static final double ODOMETRY_SHARE = 0.01;
+    static final double ODOMETRY_SHARE = 0.003;
     /** Time constant with which the added variance fades once fixes agree again (s). */
     static final double FADE_S = 10.0;
     /** Consecutive fixes that must fail the test before it acts (count). */
@@ -86,13 +90,31 @@ final class FixConsistency {
             double dt = t - old[0];
             double oe = s.get(Slot.ODOMETRY_EAST_M) - old[3];
             double on = s.get(Slot.ODOMETRY_NORTH_M) - old[4];
-            double de = (eastM - old[1]) - oe;
-            double dn = (northM - old[2]) - on;
+            // The fixes are the antenna's at their time of validity: its displacement is the reference
+            // point's plus the change of the lever arm's direction, less the change of the distance
+            // driven during the latency.
+            double[] x = s.x;
+            double cNow = Math.cos(x[YAW]);
+            double sNow = Math.sin(x[YAW]);
+            double cOld = Math.cos(old[6]);
+            double sOld = Math.sin(old[6]);
+            double v = x[SPEED_SCALE] * s.get(Slot.WHEEL_SPEED_MPS);
+            double armE = (cNow - cOld) * x[LEVER_FORWARD] - (sNow - sOld) * x[LEVER_LEFT];
+            double armN = (sNow - sOld) * x[LEVER_FORWARD] + (cNow - cOld) * x[LEVER_LEFT];
+            double lagE = v * cNow - old[7] * cOld;
+            double lagN = v * sNow - old[7] * sOld;
+            double de = (eastM - old[1]) - oe - armE + x[GNSS_LATENCY] * lagE;
+            double dn = (northM - old[2]) - on - armN + x[GNSS_LATENCY] * lagN;
             double d = Math.hypot(oe, on);
             double relVar = Math.max(s.p[YAW * SIZE + YAW], 0.0) + Math.max(s.p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0)
                     + ODOMETRY_SHARE * ODOMETRY_SHARE;
+            double turn2 = (cNow - cOld) * (cNow - cOld) + (sNow - sOld) * (sNow - sOld);
+            double leverVar = turn2 * 0.5 * (Math.max(s.p[LEVER_FORWARD * SIZE + LEVER_FORWARD], 0.0)
+                    + Math.max(s.p[LEVER_LEFT * SIZE + LEVER_LEFT], 0.0));
+            double lagVar = 0.5 * (lagE * lagE + lagN * lagN) * Math.max(s.p[GNSS_LATENCY * SIZE + GNSS_LATENCY], 0.0);
             double gnssVar = whiteVar + old[5]
-                    + 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-dt / correlationTimeS));
+                    + 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-dt / correlationTimeS))
+                    + leverVar + lagVar;
             double odometryVar = d * d * relVar;
             double var = gnssVar + odometryVar;
             double d2 = de * de + dn * dn;
@@ -152,6 +174,8 @@ final class FixConsistency {
         e[3] = s.get(Slot.ODOMETRY_EAST_M);
         e[4] = s.get(Slot.ODOMETRY_NORTH_M);
         e[5] = whiteVar;
+        e[6] = s.x[YAW];
+        e[7] = s.x[SPEED_SCALE] * s.get(Slot.WHEEL_SPEED_MPS);
         s.set(Slot.TRAIL_NEXT, (next + 1) % FilterState.TRAIL_LENGTH);
         s.set(Slot.TRAIL_COUNT, Math.min(count + 1, FilterState.TRAIL_LENGTH));
     }

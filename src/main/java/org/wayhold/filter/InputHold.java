@@ -35,6 +35,32 @@ final class InputHold {
         s.set(Slot.WHEEL_SPEED_MPS, speedMps);
         s.set(Slot.WHEEL_SPEED_T_REL, s.get(Slot.T_REL));
         s.set(Slot.HAS_WHEEL_SPEED, true);
+        int next = s.whole(Slot.WHEEL_MARK_NEXT);
+        s.wheelMarkT[next] = s.get(Slot.T_REL);
+        s.wheelMarkDistance[next] = s.get(Slot.WHEEL_DISTANCE_M);
+        s.set(Slot.WHEEL_MARK_NEXT, (next + 1) % FilterState.WHEEL_MARKS);
+        s.set(Slot.WHEEL_MARK_COUNT, Math.min(s.whole(Slot.WHEEL_MARK_COUNT) + 1, FilterState.WHEEL_MARKS));
+    }
+
+    /**
+     * The mean wheel speed over the last {@code windowS} or a little more, up to now (m/s): the distance
+     * the readings integrate to over the time, from the newest reading at least {@code windowS} old. A
+     * single reading of a sensor that counts teeth jumps by a tooth's length per sample interval
+     * (metres per second at 50 Hz), while the distance is right to within a tooth. NaN when no reading
+     * is old enough or the newest old enough is older than {@code maxWindowS}.
+     */
+    static double meanWheelSpeedMps(FilterState s, double windowS, double maxWindowS) {
+        double t = s.get(Slot.T_REL);
+        int count = s.whole(Slot.WHEEL_MARK_COUNT);
+        int next = s.whole(Slot.WHEEL_MARK_NEXT);
+        for (int i = 1; i <= count; i++) {
+            int k = (next - i + FilterState.WHEEL_MARKS) % FilterState.WHEEL_MARKS;
+            double dt = t - s.wheelMarkT[k];
+            if (dt >= windowS) {
+                return dt > maxWindowS ? Double.NaN : (s.get(Slot.WHEEL_DISTANCE_M) - s.wheelMarkDistance[k]) / dt;
+            }
+        }
+        return Double.NaN;
     }
 
     /** Records a yaw-rate reading at the state's time (rad/s, counter-clockwise positive). */

@@ -27,6 +27,12 @@ final class JosephUpdate {
     final double[] r = new double[4];
     /** The innovation z - h(x), m entries; filled by the measurement model. */
     final double[] nu = new double[2];
+    /**
+     * States the next {@link #apply} leaves unchanged ("consider" states of the Schmidt-Kalman filter:
+     * their gain rows are zero). Their uncertainty still counts in S, so the update stays honest; they
+     * are only not learnt from a measurement that cannot tell them apart. Cleared by {@link #apply}.
+     */
+    final boolean[] frozen = new boolean[SIZE];
 
     private final double[] ph = new double[SIZE * 2];
     private final double[] k = new double[SIZE * 2];
@@ -129,6 +135,14 @@ final class JosephUpdate {
             } else {
                 k[i * 2] = ph[i * 2] * sInv[0] + ph[i * 2 + 1] * sInv[2];
                 k[i * 2 + 1] = ph[i * 2] * sInv[1] + ph[i * 2 + 1] * sInv[3];
+            }
+        }
+        for (int i = 0; i < SIZE; i++) {
+            if (frozen[i]) {
+                // Schmidt (1966): a zero gain row; the Joseph form below is right for any gain.
+                k[i * 2] = 0.0;
+                k[i * 2 + 1] = 0.0;
+                frozen[i] = false;
             }
         }
         // x = x + K nu

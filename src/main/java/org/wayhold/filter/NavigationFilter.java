@@ -319,11 +319,9 @@ public final class NavigationFilter {
      * replays. The normalised innovation squared is {@link #lastNis()}.
      */
     public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double upM) {
-        s.set(Slot.PREVIOUS_FIX_T_REL, s.get(Slot.LAST_FIX_T_REL));
         s.set(Slot.LAST_FIX_T_REL, s.get(Slot.T_REL));
         s.set(Slot.LAST_NIS, Double.NaN);
         GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, upM);
-        s.set(Slot.WHEEL_DISTANCE_AT_FIX_M, s.get(Slot.WHEEL_DISTANCE_M));
         s.set(Slot.LAST_KIND, kind.ordinal());
         switch (kind) {
             case ACCEPTED, REACQUIRED, INITIALIZING -> {
@@ -368,8 +366,11 @@ public final class NavigationFilter {
         double nuNorth = update.nu[1];
         Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, whiteVar,
                 Alignment.calibrationPlausible(s), !s.is(Slot.FIX_FAILED));
+        double omega = s.is(Slot.STANDSTILL) ? 0.0
+                : s.x[GYRO_SCALE] * (s.get(Slot.YAW_RATE_RAD_PER_S) - s.x[GYRO_BIAS]);
         switch (verdict) {
             case ACCEPT -> {
+                PositionFix.freezeUnobservable(update, omega, s.x[SPEED_SCALE] * wheel);
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;
                 }
@@ -382,6 +383,7 @@ public final class NavigationFilter {
                             s.get(Slot.ODOMETER_M) - s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M));
                     PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
                 }
+                PositionFix.freezeUnobservable(update, omega, s.x[SPEED_SCALE] * wheel);
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;
                 }

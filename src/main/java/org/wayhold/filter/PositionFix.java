@@ -26,7 +26,33 @@ import java.util.Arrays;
  */
 final class PositionFix {
 
+    /**
+     * The lever arm is learnt only while the vehicle turns faster than this (rad/s, about 3 deg/s): on a
+     * straight road an antenna offset looks like a position offset, and the state would soak up
+     * whatever else the position is off by.
+     */
+    static final double LEVER_OBSERVABLE_RAD_PER_S = 0.05;
+    /** The latency is learnt only above this speed (m/s): below it the distance it hides is centimetres. */
+    static final double LATENCY_OBSERVABLE_MPS = 3.0;
+
     private PositionFix() {
+    }
+
+    /**
+     * Marks the lever-arm and latency states as consider states of the next update unless the motion
+     * makes them observable.
+     *
+     * @param omegaRadPerS the current turn rate (rad/s)
+     * @param speedMps     the current speed (m/s)
+     */
+    static void freezeUnobservable(JosephUpdate u, double omegaRadPerS, double speedMps) {
+        if (Math.abs(omegaRadPerS) < LEVER_OBSERVABLE_RAD_PER_S) {
+            u.frozen[LEVER_FORWARD] = true;
+            u.frozen[LEVER_LEFT] = true;
+        }
+        if (Math.abs(speedMps) < LATENCY_OBSERVABLE_MPS) {
+            u.frozen[GNSS_LATENCY] = true;
+        }
     }
 
     /**
