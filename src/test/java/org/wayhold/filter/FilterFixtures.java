@@ -41,17 +41,46 @@ final class FilterFixtures {
         return GnssFix.position(t, 0.0, 0.0, sigmaHM);
     }
 
+    /**
+     * A state with the gyro scale at 1, the antenna at the reference point and no latency.
+     */
     static double[] state(double eastM, double northM, double yawRad, double biasRadPerS, double scale,
                           double errEastM, double errNorthM) {
-        return new double[] {eastM, northM, yawRad, biasRadPerS, scale, errEastM, errNorthM};
+        double[] x = new double[StateIndex.SIZE];
+        x[StateIndex.EAST] = eastM;
+        x[StateIndex.NORTH] = northM;
+        x[StateIndex.YAW] = yawRad;
+        x[StateIndex.GYRO_BIAS] = biasRadPerS;
+        x[StateIndex.SPEED_SCALE] = scale;
+        x[StateIndex.GYRO_SCALE] = 1.0;
+        x[StateIndex.GNSS_ERR_EAST] = errEastM;
+        x[StateIndex.GNSS_ERR_NORTH] = errNorthM;
+        return x;
     }
 
-    static double[] diagonal(double... variances) {
-        int n = variances.length;
+    /** The same state with the antenna at (forward, left) of the reference point (m). */
+    static double[] withLever(double[] x, double forwardM, double leftM) {
+        double[] y = x.clone();
+        y[StateIndex.LEVER_FORWARD] = forwardM;
+        y[StateIndex.LEVER_LEFT] = leftM;
+        return y;
+    }
+
+    /**
+     * A diagonal covariance with these variances of the states named as in {@link #state}; gyro scale,
+     * lever arm and latency are known exactly (variance 0).
+     */
+    static double[] diagonal(double east, double north, double yaw, double bias, double scale, double errEast,
+                             double errNorth) {
+        int n = StateIndex.SIZE;
         double[] m = new double[n * n];
-        for (int i = 0; i < n; i++) {
-            m[i * n + i] = variances[i];
-        }
+        m[StateIndex.EAST * n + StateIndex.EAST] = east;
+        m[StateIndex.NORTH * n + StateIndex.NORTH] = north;
+        m[StateIndex.YAW * n + StateIndex.YAW] = yaw;
+        m[StateIndex.GYRO_BIAS * n + StateIndex.GYRO_BIAS] = bias;
+        m[StateIndex.SPEED_SCALE * n + StateIndex.SPEED_SCALE] = scale;
+        m[StateIndex.GNSS_ERR_EAST * n + StateIndex.GNSS_ERR_EAST] = errEast;
+        m[StateIndex.GNSS_ERR_NORTH * n + StateIndex.GNSS_ERR_NORTH] = errNorth;
         return m;
     }
 }

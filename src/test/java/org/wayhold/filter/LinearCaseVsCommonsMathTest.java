@@ -48,7 +48,7 @@ class LinearCaseVsCommonsMathTest {
     private static final double DT_S = 1.0 / 16.0;
     private static final int STEPS_PER_FIX = 16;
     private static final double TOL = 1e-9;
-    /** Largest state (relative) and covariance (absolute) difference seen by the seven-state runs. */
+    /** Largest state (relative) and covariance (absolute) difference seen by the full-state runs. */
     private static final double[] WORST = new double[2];
 
     @Test
@@ -91,7 +91,8 @@ class LinearCaseVsCommonsMathTest {
         double sigma = 1.2;
         double share = 0.6;
         double corr = share * sigma * sigma;
-        double[] x0 = FilterFixtures.state(3.0, -2.0, yawRad, 0.0015, scale, 0.4, -0.3);
+        double[] x0 = FilterFixtures.withLever(FilterFixtures.state(3.0, -2.0, yawRad, 0.0015, scale, 0.4, -0.3), fwd,
+                left);
         double[] p0 = FilterFixtures.diagonal(4.0, 2.5, 0.0, 0.0, 0.0, corr, corr);
         // A correlated start, as after a first fix: position and GNSS error share -sigma_corr^2 / 2.
         p0[EAST * SIZE + NORTH] = 0.7;
@@ -140,18 +141,18 @@ class LinearCaseVsCommonsMathTest {
     }
 
     @Test
-    void fullSevenStateLinearModelMatchesCommonsMath() {
+    void fullStateLinearModelMatchesCommonsMath() {
         for (Scenario s : new Scenario[] {
                 scenario(11L, 0.6, 12.0, 1.0, 0.0, 0.0),
                 scenario(12L, -2.4, 25.0, 1.013, 1.5, -0.4),
                 scenario(13L, Math.PI / 2, -3.0, 0.99, 2.0, 0.3)}) {
-            runSevenState(s);
+            runFullState(s);
         }
         assertThat(WORST[0]).isLessThan(TOL);
         assertThat(WORST[1]).isLessThan(TOL);
     }
 
-    private void runSevenState(Scenario s) {
+    private void runFullState(Scenario s) {
         NavigationFilter wayhold = FilterFixtures.filter(settingsOf(s), GatingSettings.defaults(),
                 new VehicleProfile(s.leverFwdM, s.leverLeftM, 0.0));
         wayhold.initialize(0.0, s.x0, s.p0);
@@ -175,10 +176,11 @@ class LinearCaseVsCommonsMathTest {
         // B u: the yaw-rate input enters the yaw as dt * rate and cancels the bias row of A.
         double[][] b = new double[SIZE][1];
         b[YAW][0] = DT_S;
-        // Q: wheel-speed noise of density sigma^2 / f_wheel through d(position)/d(speed) = s dt (cos, sin):
-        // Q = s^2 dt (sigma^2 / f) [c^2, cs; cs, s^2]; Gauss-Markov driving noise sigma_c^2 (1 - decay^2).
+        // Q: wheel-speed noise of density sigma^2 times the reading interval (DT_S here) through
+        // d(position)/d(speed) = s dt (cos, sin): Q = s^2 dt density [c^2, cs; cs, s^2]; Gauss-Markov
+        // driving noise sigma_c^2 (1 - decay^2).
         double[][] q = new double[SIZE][SIZE];
-        double density = s.wheelNoiseMps * s.wheelNoiseMps / 50.0;
+        double density = s.wheelNoiseMps * s.wheelNoiseMps * DT_S;
         double k = s.scale * s.scale * DT_S * density;
         q[EAST][EAST] = k * c * c;
         q[EAST][NORTH] = k * c * sn;
@@ -205,6 +207,10 @@ class LinearCaseVsCommonsMathTest {
             for (int j = 0; j < STEPS_PER_FIX; j++) {
                 step++;
                 wayhold.predictTo(step * DT_S);
+                // Readings arrive with every step, as from a 16 Hz logger: the filter takes their
+                // density from the observed interval, DT_S.
+                wayhold.setWheelSpeed(s.wheelMps);
+                wayhold.setYawRate(rate);
                 oracle.predict(new double[] {rate});
             }
             GnssOutcome outcome = wayhold.updateGnss(FilterFixtures.fix(step * DT_S, s.sigmaM), z[i][0], z[i][1],
@@ -238,7 +244,7 @@ class LinearCaseVsCommonsMathTest {
         a[2][2] = decay;
         a[3][3] = decay;
         double[][] b = {{s.scale * DT_S * c}, {s.scale * DT_S * sn}, {0.0}, {0.0}};
-        double density = s.wheelNoiseMps * s.wheelNoiseMps / 50.0;
+        double density = s.wheelNoiseMps * s.wheelNoiseMps * DT_S;
         double k = s.scale * s.scale * DT_S * density;
         double corr = s.share * s.sigmaM * s.sigmaM;
         double[][] q = {
@@ -266,6 +272,8 @@ class LinearCaseVsCommonsMathTest {
             for (int j = 0; j < STEPS_PER_FIX; j++) {
                 step++;
                 wayhold.predictTo(step * DT_S);
+                wayhold.setWheelSpeed(s.wheelMps);
+                wayhold.setYawRate(s.x0[GYRO_BIAS]);
                 oracle.predict(new double[] {s.wheelMps});
             }
             GnssOutcome outcome = wayhold.updateGnss(FilterFixtures.fix(step * DT_S, s.sigmaM), z[i][0], z[i][1],

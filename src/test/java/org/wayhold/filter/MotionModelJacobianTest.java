@@ -5,6 +5,10 @@ import static org.wayhold.filter.StateIndex.EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_EAST;
 import static org.wayhold.filter.StateIndex.GNSS_ERR_NORTH;
 import static org.wayhold.filter.StateIndex.GYRO_BIAS;
+import static org.wayhold.filter.StateIndex.GNSS_LATENCY;
+import static org.wayhold.filter.StateIndex.LEVER_LEFT;
+import static org.wayhold.filter.StateIndex.LEVER_FORWARD;
+import static org.wayhold.filter.StateIndex.GYRO_SCALE;
 import static org.wayhold.filter.StateIndex.NORTH;
 import static org.wayhold.filter.StateIndex.SIZE;
 import static org.wayhold.filter.StateIndex.SPEED_SCALE;
@@ -50,6 +54,10 @@ class MotionModelJacobianTest {
         x[YAW] = rnd.nextDouble(-Math.PI, Math.PI);
         x[GYRO_BIAS] = rnd.nextDouble(-0.01, 0.01);
         x[SPEED_SCALE] = rnd.nextDouble(0.95, 1.05);
+        x[GYRO_SCALE] = rnd.nextDouble(0.97, 1.03);
+        x[LEVER_FORWARD] = rnd.nextDouble(-2.0, 2.0);
+        x[LEVER_LEFT] = rnd.nextDouble(-1.0, 1.0);
+        x[GNSS_LATENCY] = rnd.nextDouble(-0.1, 0.3);
         x[GNSS_ERR_EAST] = rnd.nextDouble(-3.0, 3.0);
         x[GNSS_ERR_NORTH] = rnd.nextDouble(-3.0, 3.0);
         double dt = rnd.nextDouble(0.005, 0.1);
@@ -77,7 +85,7 @@ class MotionModelJacobianTest {
             // Keep GENTLE/REVERSING clear of the branch switch (see the class comment).
             omega = Math.copySign(2e-3 / dt, omega);
         }
-        double rate = omega + x[GYRO_BIAS];
+        double rate = omega / x[GYRO_SCALE] + x[GYRO_BIAS];
         double decay = Math.exp(-dt / rnd.nextDouble(10.0, 100.0));
         return new Point(x, wheel, rate, dt, kind == Kind.STANDSTILL, decay);
     }
@@ -146,7 +154,7 @@ class MotionModelJacobianTest {
     void standstillHoldsYawAndCutsTheBiasAndRateColumns() {
         // Exact hand case: at a standstill omega is forced to 0, so yaw' = yaw whatever the gyro reads,
         // and neither the bias nor the rate input can move anything.
-        double[] x = {3.0, -4.0, 1.2, 0.003, 1.01, 0.5, -0.5};
+        double[] x = {3.0, -4.0, 1.2, 0.003, 1.01, 1.002, 0.5, -0.5, 0.4, -0.1, 0.05};
         double[] out = new double[SIZE];
         double[] f = new double[SIZE * SIZE];
         double[] g = new double[6];
@@ -156,6 +164,7 @@ class MotionModelJacobianTest {
         assertThat(out[NORTH]).isEqualTo(-4.0);
         for (int i = 0; i < SIZE; i++) {
             assertThat(f[i * SIZE + GYRO_BIAS]).isEqualTo(i == GYRO_BIAS ? 1.0 : 0.0);
+            assertThat(f[i * SIZE + GYRO_SCALE]).isEqualTo(i == GYRO_SCALE ? 1.0 : 0.0);
         }
         // -0.0 and 0.0 are the same zero here: compare magnitudes.
         assertThat(new double[] {Math.abs(g[3]), Math.abs(g[4]), Math.abs(g[5])}).containsOnly(0.0);

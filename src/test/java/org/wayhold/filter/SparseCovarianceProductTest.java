@@ -28,7 +28,7 @@ class SparseCovarianceProductTest {
     void sparsePredictProductEqualsTheDenseOneBitForBit(double wheelMps, double rateRadPerS, double dtS,
                                                        boolean standstill) {
         SplittableRandom rnd = new SplittableRandom(Double.doubleToLongBits(wheelMps + rateRadPerS + dtS));
-        double[] x = {12.0, -40.0, 2.9, 0.003, 1.02, 0.4, -0.7};
+        double[] x = {12.0, -40.0, 2.9, 0.003, 1.02, 0.985, 0.4, -0.7, 1.3, -0.2, 0.08};
         double[] xOut = new double[N];
         double[] f = new double[N * N];
         double[] g = new double[6];
