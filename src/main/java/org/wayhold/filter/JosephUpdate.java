@@ -33,6 +33,8 @@ final class JosephUpdate {
      * are only not learnt from a measurement that cannot tell them apart. Cleared by {@link #apply}.
      */
     final boolean[] frozen = new boolean[SIZE];
+    /** Hears of every update when the filter records for smoothing, else null. */
+    SmootherLog smoothing;
 
     private final double[] ph = new double[SIZE * 2];
     private final double[] k = new double[SIZE * 2];
@@ -126,6 +128,17 @@ final class JosephUpdate {
      * @return false when the update was refused
      */
     boolean apply(FilterState s, int m) {
+        if (smoothing != null) {
+            smoothing.beforeUpdate(this, m);
+        }
+        boolean applied = correct(s, m);
+        if (smoothing != null) {
+            smoothing.afterUpdate(applied);
+        }
+        return applied;
+    }
+
+    private boolean correct(FilterState s, int m) {
         double[] x = s.x;
         // K = P H' S^-1 (SIZE x m)
         for (int i = 0; i < SIZE; i++) {

@@ -92,6 +92,8 @@ public final class NavigationFilter {
     private final JosephUpdate update = new JosephUpdate();
 
     private final FilterState s;
+    /** The forward pass kept for smoothing, null unless {@link #recordForSmoothing()} was called. */
+    private SmootherLog smoothing;
 
     // Work arrays of the prediction, allocated once so a step allocates nothing.
     private final double[] xNext = new double[SIZE];
@@ -142,11 +144,34 @@ public final class NavigationFilter {
     /** Makes this filter's state an exact copy of {@code saved}, taken from a filter with the same settings. */
     public void restore(FilterState saved) {
         s.restore(saved);
+        if (smoothing != null) {
+            smoothing.rewind();
+        }
     }
 
     /** Makes this filter an exact copy of {@code o}, which must share its settings. */
     public void restore(NavigationFilter o) {
         s.restore(o.s);
+        if (smoothing != null) {
+            smoothing.rewind();
+        }
+    }
+
+    /**
+     * Starts keeping the forward pass for the Rauch-Tung-Striebel smoother: from now on the steps and
+     * updates of this filter are recorded between the nodes the caller takes with
+     * {@link SmootherLog#mark()}. Copies of this filter do not record.
+     *
+     * @return the log, to mark nodes in and to hand to {@link RtsSmoother#smooth} once finished
+     * @throws IllegalStateException when this filter already records
+     */
+    public SmootherLog recordForSmoothing() {
+        if (smoothing != null) {
+            throw new IllegalStateException("this filter already records for smoothing");
+        }
+        smoothing = new SmootherLog(s);
+        update.smoothing = smoothing;
+        return smoothing;
     }
 
     /** An empty state of this filter's layout, to {@link #readState} into. */
@@ -244,6 +269,9 @@ public final class NavigationFilter {
             decayForDt = decay;
         }
         boolean atRest = s.is(Slot.STANDSTILL);
+        if (smoothing != null) {
+            smoothing.beforeStep();
+        }
         MotionModel.step(x, wheel, rate, dt, atRest, decay, xNext, f, inputJac);
         s.set(Slot.ODOMETRY_EAST_M, s.get(Slot.ODOMETRY_EAST_M) + (xNext[EAST] - x[EAST]));
         s.set(Slot.ODOMETRY_NORTH_M, s.get(Slot.ODOMETRY_NORTH_M) + (xNext[NORTH] - x[NORTH]));
@@ -257,6 +285,9 @@ public final class NavigationFilter {
         s.set(Slot.SCALE_REFERENCE_SPEED_MPS, ref + (Math.abs(speed) - ref) * Math.min(dt / SCALE_REFERENCE_TIME_S, 1.0));
         processNoise.add(s, inputJac, dt, speed, omega, creepSigma, ref, decay);
         height.predict(s, dt);
+        if (smoothing != null) {
+            smoothing.afterStep(f);
+        }
     }
 
     /** Holds a new wheel speed from now on (m/s, signed). Call after {@link #predictTo}. */
