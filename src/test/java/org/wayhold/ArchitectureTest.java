@@ -23,7 +23,7 @@ class ArchitectureTest {
     private static final Path MAIN_SOURCES = Path.of("src", "main", "java", "org", "wayhold");
 
     private static final List<String> CORE_PACKAGES = List.of(
-            "sample", "geo", "settings", "ordering", "filter", "pipeline", "columns", "pose", "session", "scoring",
+            "sample", "geo", "settings", "ordering", "filter", "pipeline", "columns", "pose", "session", "scoring", "fusion",
             "simulate", "journal", "nmea");
 
     private static final List<String> FORBIDDEN_PREFIXES = List.of(

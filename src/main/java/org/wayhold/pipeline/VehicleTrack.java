@@ -7,6 +7,7 @@ import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.FilterState;
 import org.wayhold.filter.GnssOutcome;
 import org.wayhold.filter.NavigationFilter;
+import org.wayhold.filter.SmootherLog;
 import org.wayhold.geo.Enu;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.LocalFrame;
@@ -45,8 +46,13 @@ public final class VehicleTrack {
     private final Geodetic configuredOrigin;
     private final PoseAssembler assembler;
     private final NavigationFilter filter;
-    private final boolean withholdGnss;
+    /** Fixes up to this time (s, vehicle clock) are withheld: -infinity for none, +infinity for all. */
+    private final double withholdGnssThroughT;
     private final TrackOutput output;
+    /** The forward pass kept for smoothing, null unless recording. */
+    private SmootherLog smoothing;
+    /** True when every history point is a smoothing node (a whole-drive replay). */
+    private boolean nodeAtHistoryPoints;
 
     private double epochT = Double.NaN;
     private LocalFrame frame;
@@ -61,18 +67,18 @@ public final class VehicleTrack {
      * @param output           receives poses and fix decisions
      */
     public VehicleTrack(Settings settings, VehicleProfile profile, Geodetic configuredOrigin, TrackOutput output) {
-        this(settings, profile, configuredOrigin, output, false,
+        this(settings, profile, configuredOrigin, output, Double.NEGATIVE_INFINITY,
                 new NavigationFilter(settings.filter(), settings.gating(), settings.outage(), profile));
     }
 
     private VehicleTrack(Settings settings, VehicleProfile profile, Geodetic configuredOrigin, TrackOutput output,
-                         boolean withholdGnss, NavigationFilter filter) {
+                         double withholdGnssThroughT, NavigationFilter filter) {
         this.settings = settings;
         this.profile = profile;
         this.configuredOrigin = configuredOrigin;
         this.assembler = new PoseAssembler(settings.outage());
         this.output = java.util.Objects.requireNonNull(output, "output");
-        this.withholdGnss = withholdGnss;
+        this.withholdGnssThroughT = withholdGnssThroughT;
         this.filter = filter;
     }
 
@@ -81,7 +87,26 @@ public final class VehicleTrack {
      * scoring branch through a simulated outage.
      */
     public VehicleTrack branchWithoutGnss() {
-        VehicleTrack b = new VehicleTrack(settings, profile, configuredOrigin, TrackOutput.NONE, true, filter.copy());
+        return branch(Double.POSITIVE_INFINITY);
+    }
+
+    /**
+     * A copy that goes on from this track's state without the fixes up to {@code withholdThroughT} and
+     * with those after it, produces no output, and keeps its forward pass for smoothing with a node
+     * wherever {@link #markSmoothingNode()} is called: a scoring branch that dead-reckons through an
+     * outage and is then smoothed with the fixes after it (gap fill).
+     *
+     * @param withholdThroughT fixes stamped at or before this time are withheld (s, vehicle clock)
+     */
+    public VehicleTrack branchForGapFill(double withholdThroughT) {
+        VehicleTrack b = branch(withholdThroughT);
+        b.smoothing = b.filter.recordForSmoothing();
+        return b;
+    }
+
+    private VehicleTrack branch(double withholdThroughT) {
+        VehicleTrack b = new VehicleTrack(settings, profile, configuredOrigin, TrackOutput.NONE, withholdThroughT,
+                filter.copy());
         b.epochT = epochT;
         b.frame = frame;
         b.lastHistoryTRel = lastHistoryTRel;
@@ -89,9 +114,40 @@ public final class VehicleTrack {
         return b;
     }
 
+    /**
+     * Keeps the forward pass from now on for the Rauch-Tung-Striebel smoother, with a node at every
+     * history point (every pose given to the output, in the same order), so that the smoothed estimate
+     * of each pose can be had once the drive is over: {@code fuse --smooth}.
+     *
+     * @return the log; {@link SmootherLog#finish()} it after the last sample
+     */
+    public SmootherLog recordForSmoothing() {
+        smoothing = filter.recordForSmoothing();
+        nodeAtHistoryPoints = true;
+        return smoothing;
+    }
+
+    /**
+     * Takes a smoothing node at the current time and state (see {@link #branchForGapFill}).
+     *
+     * @return the node's index in {@link #smootherLog()}
+     * @throws IllegalStateException when this track does not record for smoothing
+     */
+    public int markSmoothingNode() {
+        if (smoothing == null) {
+            throw new IllegalStateException("this track does not record for smoothing");
+        }
+        return smoothing.mark();
+    }
+
+    /** The forward pass kept for smoothing, null when this track does not record. */
+    public SmootherLog smootherLog() {
+        return smoothing;
+    }
+
     /** A copy that goes on from this track's state with GNSS and produces no output. */
     public VehicleTrack copyWithoutOutput() {
-        VehicleTrack b = new VehicleTrack(settings, profile, configuredOrigin, TrackOutput.NONE, withholdGnss,
+        VehicleTrack b = new VehicleTrack(settings, profile, configuredOrigin, TrackOutput.NONE, withholdGnssThroughT,
                 filter.copy());
         b.epochT = epochT;
         b.frame = frame;
@@ -111,7 +167,7 @@ public final class VehicleTrack {
             epochT = Math.floor(sample.t());
         }
         GnssFix fix = sample instanceof GnssFix g ? g : null;
-        if (fix != null && withholdGnss) {
+        if (fix != null && fix.t() <= withholdGnssThroughT) {
             return null;
         }
         if (frame == null && fix != null && fix.fix() != FixType.NONE) {
@@ -134,6 +190,9 @@ public final class VehicleTrack {
             throw new IllegalArgumentException("type: unknown sample type " + sample.getClass().getSimpleName());
         }
         if (frame != null && (fix != null || tRel - lastHistoryTRel >= settings.history().intervalS())) {
+            if (nodeAtHistoryPoints) {
+                smoothing.mark();
+            }
             if (output != TrackOutput.NONE) {
                 output.pose(assembler.assemble(filter.snapshot(), epochT, frame));
             }
