@@ -91,6 +91,10 @@ final class ScoreCommand implements Callable<Integer> {
             description = "Evaluation step inside windows against reference lines (s, default ${DEFAULT-VALUE}).")
     private double evalStepS;
 
+    @Option(names = "--smooth-tail", paramLabel = "S", defaultValue = "30",
+            description = "Seconds of fixes after each window that the smoothed gap fill uses (default ${DEFAULT-VALUE}).")
+    private double smoothTailS;
+
     @Option(names = "--threads", paramLabel = "N", description = "Worker threads (default: all cores).")
     private Integer threads;
 
@@ -103,7 +107,8 @@ final class ScoreCommand implements Callable<Integer> {
     /** The scoring records' names for their values, as the options that set them. */
     private static final Map<String, String> OPTION_NAMES = Map.of(
             "outage", "--outage", "every", "--every", "skip", "--skip", "random", "--random",
-            "min_aided", "--min-aided", "eval_step", "--eval-step", "threads", "--threads", "config", "--config");
+            "min_aided", "--min-aided", "eval_step", "--eval-step", "threads", "--threads", "config", "--config",
+            "smooth_tail", "--smooth-tail");
 
     @Override
     public Integer call() throws IOException {
@@ -125,7 +130,7 @@ final class ScoreCommand implements Callable<Integer> {
         try {
             options = new ScoringRun.Options(new WindowPlan.Schedule(outageS.stream().mapToDouble(Double::doubleValue)
                     .toArray(), skipS, everyS, random, seed), minAidedS, evalStepS, vehicle, true,
-                    threads != null ? threads : Runtime.getRuntime().availableProcessors());
+                    threads != null ? threads : Runtime.getRuntime().availableProcessors(), smoothTailS);
         } catch (IllegalArgumentException e) {
             throw OptionErrors.named(spec, e, OPTION_NAMES);
         }
@@ -170,9 +175,11 @@ final class ScoreCommand implements Callable<Integer> {
         m.summaries().forEach((config, list) -> {
             for (LengthSummary s : list) {
                 o.printf(Locale.ROOT, "  %s%4.0f s: %3d windows, final error median %.2f m, p95 %.2f m, "
-                                + "median %.2f%% of distance, inside95 %.2f, missed alerts %d%n",
+                                + "median %.2f%% of distance, inside95 %.2f, missed alerts %d; smoothed max error "
+                                + "median %.2f m, inside95 %.2f, gap-fill ratio median %.3f%n",
                         m.comparing() ? config + " " : "", s.lengthS(), s.count(), s.medianFinalErrorM(),
-                        s.p95FinalErrorM(), s.medianErrorPct(), s.inside95(), s.missedAlerts());
+                        s.p95FinalErrorM(), s.medianErrorPct(), s.inside95(), s.missedAlerts(),
+                        s.medianSmoothedMaxErrorM(), s.smoothedInside95(), s.medianGapFillRatio());
             }
         });
         o.flush();

@@ -17,7 +17,9 @@ public final class CsvReport {
     public static final String HEADER = "log,config,kind,reference,start_t[s],start_offset[s],seconds[s],meters[m],"
             + "final_error[m],max_error[m],error_pct[%],inside95[fraction],end_lat[deg],end_lon[deg],"
             + "ref_lat[deg],ref_lon[deg],time_to_alert[s],time_to_unreliable[s],missed_alert[bool],"
-            + "mean_nees[1],final_nees[1],along_track_error[m],cross_track_error[m],evaluations[count]";
+            + "mean_nees[1],final_nees[1],along_track_error[m],cross_track_error[m],evaluations[count],"
+            + "smoothed_final_error[m],smoothed_max_error[m],smoothed_inside95[fraction],smoothed_mean_nees[1],"
+            + "smoothed_fixes_after[count],gap_fill_ratio[1]";
 
     private CsvReport() {
     }
@@ -33,7 +35,9 @@ public final class CsvReport {
                         f(r.endLat(), 9), f(r.endLon(), 9), f(r.refLat(), 9), f(r.refLon(), 9),
                         f(r.timeToAlert(), 3), f(r.timeToUnreliable(), 3), Boolean.toString(r.missedAlert()),
                         f(r.meanNees(), 4), f(r.finalNees(), 4), f(r.alongTrackError(), 4),
-                        f(r.crossTrackError(), 4), Integer.toString(r.evaluations())));
+                        f(r.crossTrackError(), 4), Integer.toString(r.evaluations()), f(r.smoothedFinalError(), 4),
+                        f(r.smoothedMaxError(), 4), f(r.smoothedInside95(), 4), f(r.smoothedMeanNees(), 4),
+                        Integer.toString(r.smoothedFixesAfter()), f(r.gapFillRatio(), 4)));
                 w.write("\r\n");
             }
         }

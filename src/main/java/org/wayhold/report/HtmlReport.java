@@ -48,6 +48,7 @@ public final class HtmlReport {
                 .append("th{background:#f2f2f2}td.l,th.l{text-align:left}\n")
                 .append(".caution{border-left:4px solid #c2571a;background:#fbf3ee;padding:0.5em 1em}\n")
                 .append(".plot svg{max-width:100%;height:auto}\n")
+                .append(".pair{display:flex;flex-wrap:wrap;gap:0.5em}.pair .plot{flex:1 1 480px;min-width:0}\n")
                 .append("</style>\n</head>\n<body>\n<h1>Drift through simulated GNSS outages</h1>\n");
         b.append("<p class=\"caution\">").append(esc(CAUTION)).append("</p>\n");
         b.append("<p>Error measured against ").append(esc(describe(m.referenceKind()))).append(". ");
@@ -69,17 +70,23 @@ public final class HtmlReport {
 
         summaryTables(b, m);
         b.append("<h2>Drift against outage length</h2>\n<div class=\"plot\">").append(driftPlot(m)).append("</div>\n");
-        b.append("<h2>Error inside the windows</h2>\n<p>Horizontal error against time since the window began "
-                + "(solid), and the filter's 95% radius, the semi-major axis of its 95% ellipse (dashed).</p>\n");
+        b.append("<h2>Error inside the windows</h2>\n<p>Left: the forward filter's drift, horizontal error "
+                + "against time since the window began (solid), and its 95% radius, the radius of the circle that "
+                + "holds the position with 95% probability (dashed). Right: the smoothed gap fill of the same "
+                + "windows, with the fixes after each window used, and its 95% radius.</p>\n");
         for (double len : o.schedule().lengthsS()) {
-            b.append("<div class=\"plot\">").append(errorPlot(m, len, false)).append("</div>\n");
+            b.append("<div class=\"pair\"><div class=\"plot\">").append(errorPlot(m, len, false, false))
+                    .append("</div><div class=\"plot\">").append(errorPlot(m, len, false, true))
+                    .append("</div></div>\n");
         }
         if (m.logs().stream().anyMatch(l -> l.configs().stream().anyMatch(c -> !c.realGaps().isEmpty()))) {
-            b.append("<div class=\"plot\">").append(errorPlot(m, Double.NaN, true)).append("</div>\n");
+            b.append("<div class=\"pair\"><div class=\"plot\">").append(errorPlot(m, Double.NaN, true, false))
+                    .append("</div><div class=\"plot\">").append(errorPlot(m, Double.NaN, true, true))
+                    .append("</div></div>\n");
         }
         b.append("<h2>Tracks</h2>\n<p>Each log in its local frame (metres east and north of its first fix): the "
                 + "reference in grey, its stretches inside windows in black, and the dead-reckoned path of each "
-                + "window in the colour of its configuration.</p>\n");
+                + "window in the colour of its configuration (solid), with its smoothed gap fill (dashed).</p>\n");
         for (ScoringRun.LogScores log : m.logs()) {
             b.append("<div class=\"plot\">").append(trackPlot(m, log)).append("</div>\n");
         }
@@ -95,7 +102,9 @@ public final class HtmlReport {
         }
         b.append("<th>outage [s]</th><th>windows</th><th>median final error [m]</th><th>p95 final error [m]</th>"
                 + "<th>max final error [m]</th><th>median error [% of distance]</th><th>p95 error [%]</th>"
-                + "<th>inside 95% ellipse</th><th>mean NEES</th><th>alerts</th><th>missed alerts</th></tr>\n");
+                + "<th>inside 95% ellipse</th><th>mean NEES</th><th>alerts</th><th>missed alerts</th>"
+                + "<th>smoothed: median max error [m]</th><th>smoothed: p95 max error [m]</th>"
+                + "<th>smoothed: inside 95%</th><th>median gap-fill ratio</th></tr>\n");
         m.summaries().forEach((config, list) -> {
             for (LengthSummary s : list) {
                 b.append("<tr>");
@@ -107,13 +116,20 @@ public final class HtmlReport {
                         .append(td(f(s.maxFinalErrorM(), 2))).append(td(f(s.medianErrorPct(), 2)))
                         .append(td(f(s.p95ErrorPct(), 2))).append(td(f(s.inside95(), 3)))
                         .append(td(f(s.meanNees(), 2))).append(td(Integer.toString(s.alerts())))
-                        .append(td(Integer.toString(s.missedAlerts()))).append("</tr>\n");
+                        .append(td(Integer.toString(s.missedAlerts()))).append(td(f(s.medianSmoothedMaxErrorM(), 2)))
+                        .append(td(f(s.p95SmoothedMaxErrorM(), 2))).append(td(f(s.smoothedInside95(), 3)))
+                        .append(td(f(s.medianGapFillRatio(), 3))).append("</tr>\n");
             }
         });
         b.append("</table>\n<p>Percentiles by linear interpolation between order statistics (Hyndman and Fan "
                 + "definition 7). Inside 95%: share of all evaluation times with the reference inside the filter's "
                 + "95% ellipse; about 0.95 for an honest covariance. A missed alert is a window whose error passed "
-                + "the alert limit before the state turned unreliable.</p>\n");
+                + "the alert limit before the state turned unreliable. Smoothed: the gap fill of the same window by "
+                + "the Rauch-Tung-Striebel smoother, with the window's fixes still withheld and the fixes of the "
+                + g(m.options().smoothTailS()) + " s after it used; its max error is the largest error anywhere "
+                + "inside the window, and the gap-fill ratio is that error over the forward filter's final error "
+                + "(per window, then the median). A smoothed estimate needs the data after the gap: it exists only "
+                + "after the fact, never live.</p>\n");
         if (m.comparing()) {
             b.append("<h2>Comparison (same windows)</h2>\n<table>\n<tr><th class=\"l\">config</th><th>outage [s]</th>"
                     + "<th>pairs</th><th>median final error [m]<br>first / this / difference</th>"
@@ -145,7 +161,9 @@ public final class HtmlReport {
         }
         b.append("<th class=\"l\">kind</th><th>start after log start [s]</th><th>length [s]</th><th>distance [m]</th>"
                 + "<th>final error [m]</th><th>max error [m]</th><th>error [%]</th><th>inside 95%</th>"
-                + "<th>along [m]</th><th>across [m]</th><th>time to alert [s]</th><th>missed alert</th></tr>\n");
+                + "<th>along [m]</th><th>across [m]</th><th>time to alert [s]</th><th>missed alert</th>"
+                + "<th>smoothed max error [m]</th><th>smoothed inside 95%</th><th>fixes after</th>"
+                + "<th>gap-fill ratio</th></tr>\n");
         for (OutageRow r : m.rows()) {
             b.append("<tr><td class=\"l\">").append(esc(r.log())).append("</td>");
             if (m.comparing()) {
@@ -156,7 +174,9 @@ public final class HtmlReport {
                     .append(td(f(r.finalError(), 2))).append(td(f(r.maxError(), 2))).append(td(f(r.errorPct(), 2)))
                     .append(td(f(r.inside95(), 2))).append(td(f(r.alongTrackError(), 2)))
                     .append(td(f(r.crossTrackError(), 2))).append(td(f(r.timeToAlert(), 1)))
-                    .append(td(r.missedAlert() ? "yes" : "")).append("</tr>\n");
+                    .append(td(r.missedAlert() ? "yes" : "")).append(td(f(r.smoothedMaxError(), 2)))
+                    .append(td(f(r.smoothedInside95(), 2))).append(td(Integer.toString(r.smoothedFixesAfter())))
+                    .append(td(f(r.gapFillRatio(), 3))).append("</tr>\n");
         }
         b.append("</table>\n</details>\n");
     }
@@ -181,12 +201,12 @@ public final class HtmlReport {
                 lines, 800, 420, false, "drift");
     }
 
-    private static String errorPlot(ReportModel m, double lengthS, boolean realGaps) {
+    private static String errorPlot(ReportModel m, double lengthS, boolean realGaps, boolean smoothed) {
         List<Charts.Line> lines = new ArrayList<>();
         for (int ci = 0; ci < m.configs().size(); ci++) {
             String name = m.configs().get(ci).name();
-            XYSeries err = Charts.series(name + " error");
-            XYSeries radius = Charts.series(name + " 95% radius");
+            XYSeries err = Charts.series(name + (smoothed ? " gap-fill error" : " error"));
+            XYSeries radius = Charts.series(name + (smoothed ? " smoothed 95% radius" : " 95% radius"));
             for (ScoringRun.LogScores log : m.logs()) {
                 ScoringRun.ConfigScores cs = log.configs().get(ci);
                 for (OutageReplay.WindowTrace t : realGaps ? cs.realGapTraces() : cs.traces()) {
@@ -194,8 +214,8 @@ public final class HtmlReport {
                         continue;
                     }
                     for (OutageReplay.TracePoint p : t.points()) {
-                        err.add(p.t() - t.window().startT(), p.errorM());
-                        radius.add(p.t() - t.window().startT(), p.radius95M());
+                        err.add(p.t() - t.window().startT(), smoothed ? p.smoothedErrorM() : p.errorM());
+                        radius.add(p.t() - t.window().startT(), smoothed ? p.smoothedRadius95M() : p.radius95M());
                     }
                     err.add(Double.NaN, Double.NaN);
                     radius.add(Double.NaN, Double.NaN);
@@ -204,9 +224,10 @@ public final class HtmlReport {
             lines.add(new Charts.Line(err, Charts.configColor(ci), Charts.solid(1.2f), true));
             lines.add(new Charts.Line(radius, Charts.configColor(ci), Charts.dashed(1f), true));
         }
-        String title = realGaps ? "Real gaps in the logs" : "Outages of " + g(lengthS) + " s";
-        return Charts.svg(title, "time since the outage began (s)", "horizontal error (m)", lines, 800, 360, false,
-                realGaps ? "gaps" : "err" + g(lengthS).replace('.', '_'));
+        String title = (realGaps ? "Real gaps in the logs" : "Outages of " + g(lengthS) + " s")
+                + (smoothed ? ": smoothed gap fill" : ": forward drift");
+        return Charts.svg(title, "time since the outage began (s)", "horizontal error (m)", lines, 540, 360, false,
+                (smoothed ? "fill" : "") + (realGaps ? "gaps" : "err" + g(lengthS).replace('.', '_')));
     }
 
     private static String trackPlot(ReportModel m, ScoringRun.LogScores log) {
@@ -237,10 +258,12 @@ public final class HtmlReport {
         for (int ci = 0; ci < log.configs().size(); ci++) {
             ScoringRun.ConfigScores cs = log.configs().get(ci);
             XYSeries dr = Charts.series(cs.config() + " dead reckoning");
+            XYSeries fill = Charts.series(cs.config() + " smoothed gap fill");
             List<OutageReplay.WindowTrace> all = new ArrayList<>(cs.traces());
             all.addAll(cs.realGapTraces());
             for (OutageReplay.WindowTrace t : all) {
                 addDecimated(dr, t, minStep, false);
+                addSmoothed(fill, t, minStep);
                 if (ci == 0) {
                     addDecimated(inWindows, t, minStep, true);
                 }
@@ -249,8 +272,29 @@ public final class HtmlReport {
                 lines.add(new Charts.Line(inWindows, Charts.WINDOW, Charts.solid(2.5f), true));
             }
             lines.add(new Charts.Line(dr, Charts.configColor(ci), Charts.solid(1.2f), true));
+            lines.add(new Charts.Line(fill, Charts.configColor(ci), Charts.dashed(1.2f), true));
         }
         return Charts.svg(log.name(), "east (m)", "north (m)", lines, 900, 640, true, "track" + log.index());
+    }
+
+    private static void addSmoothed(XYSeries s, OutageReplay.WindowTrace t, double minStep) {
+        double lastE = Double.NaN;
+        double lastN = Double.NaN;
+        List<OutageReplay.TracePoint> pts = t.points();
+        for (int i = 0; i < pts.size(); i++) {
+            OutageReplay.TracePoint p = pts.get(i);
+            double e = p.smoothedEastM();
+            double n = p.smoothedNorthM();
+            if (!Double.isFinite(e) || !Double.isFinite(n)) {
+                continue;
+            }
+            if (Double.isNaN(lastE) || Math.hypot(e - lastE, n - lastN) >= minStep || i == pts.size() - 1) {
+                s.add(e, n);
+                lastE = e;
+                lastN = n;
+            }
+        }
+        s.add(Double.NaN, Double.NaN);
     }
 
     private static void addDecimated(XYSeries s, OutageReplay.WindowTrace t, double minStep, boolean reference) {

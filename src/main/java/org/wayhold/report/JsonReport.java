@@ -72,6 +72,12 @@ public final class JsonReport {
             num(o, "cross_track_error", r.crossTrackError(), 4);
             o.put("evaluations", r.evaluations());
             o.put("reference", r.reference());
+            num(o, "smoothed_final_error_m", r.smoothedFinalError(), 4);
+            num(o, "smoothed_max_error_m", r.smoothedMaxError(), 4);
+            num(o, "smoothed_inside95", r.smoothedInside95(), 4);
+            num(o, "smoothed_mean_nees", r.smoothedMeanNees(), 4);
+            o.put("smoothed_fixes_after", r.smoothedFixesAfter());
+            num(o, "gap_fill_ratio", r.gapFillRatio(), 4);
         }
         ArrayNode summary = root.putArray("summary");
         m.summaries().forEach((config, list) -> {
@@ -144,6 +150,10 @@ public final class JsonReport {
         num(o, "max_final_error", s.maxFinalErrorM(), 4);
         num(o, "p95_error_pct", s.p95ErrorPct(), 4);
         num(o, "mean_nees", s.meanNees(), 4);
+        num(o, "median_smoothed_max_error_m", s.medianSmoothedMaxErrorM(), 4);
+        num(o, "p95_smoothed_max_error_m", s.p95SmoothedMaxErrorM(), 4);
+        num(o, "smoothed_inside95", s.smoothedInside95(), 4);
+        num(o, "median_gap_fill_ratio", s.medianGapFillRatio(), 4);
     }
 
     private static void diff(ObjectNode o, String name, double a, double b) {
@@ -179,6 +189,7 @@ public final class JsonReport {
         n.put("min_aided", o.minAidedS());
         n.put("eval_step", o.evalStepS());
         n.put("vehicle", o.vehicle());
+        n.put("smooth_tail", o.smoothTailS());
         return n;
     }
 

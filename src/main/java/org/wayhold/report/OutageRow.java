@@ -27,12 +27,20 @@ package org.wayhold.report;
  * @param alongTrackError   final error along the reference direction (m, positive ahead)
  * @param crossTrackError   final error across it (m, positive left)
  * @param evaluations       evaluation times (count)
+ * @param smoothedFinalError   horizontal error of the smoothed gap fill at the last evaluation (m)
+ * @param smoothedMaxError     largest horizontal error of the smoothed gap fill (m)
+ * @param smoothedInside95     fraction of evaluations inside the smoothed 95% ellipse (0..1)
+ * @param smoothedMeanNees     mean NEES of the smoothed gap fill (unitless)
+ * @param smoothedFixesAfter   fixes after the window the smoother used (count)
+ * @param gapFillRatio         smoothed largest error over the forward final error (unitless)
  */
 public record OutageRow(String log, String config, String kind, String reference, double startT, double offsetS,
                         double seconds, double meters, double finalError, double maxError, double errorPct,
                         double inside95, double endLat, double endLon, double refLat, double refLon,
                         double timeToAlert, double timeToUnreliable, boolean missedAlert, double meanNees,
-                        double finalNees, double alongTrackError, double crossTrackError, int evaluations) {
+                        double finalNees, double alongTrackError, double crossTrackError, int evaluations,
+                        double smoothedFinalError, double smoothedMaxError, double smoothedInside95,
+                        double smoothedMeanNees, int smoothedFixesAfter, double gapFillRatio) {
 
     public static final String SIMULATED = "simulated";
     public static final String REAL_GAP = "real_gap";

@@ -112,7 +112,9 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
         return new OutageRow(log.name(), config, kind, log.reference().wireName(), start, start - log.startT(),
                 seconds, w.distanceM(), w.finalErrorM(), w.maxErrorM(), w.errorPct(), w.inside95(), endLat, endLon,
                 refLat, refLon, w.timeToAlertS(), w.timeToUnreliableS(), w.missedAlert(), w.meanNees(), w.finalNees(),
-                w.alongTrackErrorM(), w.crossTrackErrorM(), w.samples());
+                w.alongTrackErrorM(), w.crossTrackErrorM(), w.samples(), w.smoothed().finalErrorM(),
+                w.smoothed().maxErrorM(), w.smoothed().inside95(), w.smoothed().meanNees(), w.smoothed().fixesAfter(),
+                w.gapFillRatio());
     }
 
     /** The one reference kind of all logs, or {@code mixed}. */

@@ -20,10 +20,17 @@ import java.util.List;
  * @param alerts          windows whose error passed the alert limit (count)
  * @param missedAlerts    windows whose error passed the alert limit before the state turned
  *                        {@code unreliable} (count)
+ * @param medianSmoothedMaxErrorM median of the smoothed gap fill's largest in-window error (m)
+ * @param p95SmoothedMaxErrorM    95th percentile of that error (m, R-7)
+ * @param smoothedInside95        fraction of all evaluation times at which the reference lay inside the
+ *                                smoothed 95% ellipse (0..1, pooled)
+ * @param medianGapFillRatio      median over the windows of the smoothed largest error over the forward
+ *                                final error (unitless, {@link WindowScore#gapFillRatio()})
  */
 public record LengthSummary(double lengthS, int count, double medianFinalErrorM, double p95FinalErrorM,
                             double maxFinalErrorM, double medianErrorPct, double p95ErrorPct, double inside95,
-                            double meanNees, int alerts, int missedAlerts) {
+                            double meanNees, int alerts, int missedAlerts, double medianSmoothedMaxErrorM,
+                            double p95SmoothedMaxErrorM, double smoothedInside95, double medianGapFillRatio) {
 
     /** Summaries of the windows of each length, in the order of {@code lengthsS}. */
     public static List<LengthSummary> byLength(List<WindowScore> scores, double[] lengthsS) {
@@ -48,7 +55,15 @@ public record LengthSummary(double lengthS, int count, double medianFinalErrorM,
         double max = w.stream().mapToDouble(WindowScore::finalErrorM).max().orElse(Double.NaN);
         int alerts = (int) w.stream().filter(s -> !Double.isNaN(s.timeToAlertS())).count();
         int missed = (int) w.stream().filter(WindowScore::missedAlert).count();
+        double[] smMax = w.stream().mapToDouble(s -> s.smoothed().maxErrorM()).filter(Double::isFinite).toArray();
+        double[] ratio = w.stream().mapToDouble(WindowScore::gapFillRatio).filter(Double::isFinite).toArray();
+        double smEvaluations = w.stream().filter(s -> Double.isFinite(s.smoothed().inside95()))
+                .mapToDouble(WindowScore::samples).sum();
+        double smInside = smEvaluations == 0 ? Double.NaN
+                : w.stream().filter(s -> Double.isFinite(s.smoothed().inside95()))
+                .mapToDouble(s -> s.smoothed().inside95() * s.samples()).sum() / smEvaluations;
         return new LengthSummary(lengthS, w.size(), Quantiles.median(fin), Quantiles.of(fin, 0.95), max,
-                Quantiles.median(pct), Quantiles.of(pct, 0.95), inside, nees, alerts, missed);
+                Quantiles.median(pct), Quantiles.of(pct, 0.95), inside, nees, alerts, missed, Quantiles.median(smMax),
+                Quantiles.of(smMax, 0.95), smInside, Quantiles.median(ratio));
     }
 }

@@ -3,7 +3,11 @@ package org.wayhold.scoring;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
+import org.wayhold.filter.FilterCounter;
 import org.wayhold.filter.FilterSnapshot;
+import org.wayhold.filter.RtsSmoother;
+import org.wayhold.filter.SmoothedState;
+import org.wayhold.filter.SmoothedTrack;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.pipeline.TrackOutput;
 import org.wayhold.pipeline.VehicleTrack;
@@ -31,6 +35,14 @@ import org.wayhold.settings.VehicleProfile;
  * a window is evaluated at the reference's own times inside it instead of on the regular step. When its
  * points are {@linkplain ReferenceTrack#atAntenna() antenna positions}, the branch's antenna position is
  * compared with them: its reference point moved by the configured lever arm at its estimated yaw.
+ *
+ * <p>Each window is scored twice, from the same branch. The forward estimate is the branch's own as it
+ * dead-reckons through the window. The smoothed estimate (gap fill) is what the Rauch-Tung-Striebel
+ * smoother makes of the window once the fixes after it are known: the branch keeps its forward pass
+ * ({@link VehicleTrack#branchForGapFill}) with a node at every evaluation time, goes on after the
+ * window's end with the fixes of the next {@code smoothTailS} seconds (the window's own fixes stay
+ * withheld), and is then smoothed. Data before the window reach the smoother through the filtered
+ * state the branch starts from, which holds all they say about the window.
  */
 public final class OutageReplay {
 
@@ -38,7 +50,11 @@ public final class OutageReplay {
     private final VehicleProfile profile;
     private final Geodetic origin;
     private final double evalStepS;
+    private final double smoothTailS;
     private final PoseAssembler assembler;
+
+    /** Seconds of fixes after a window the smoothed gap fill uses, unless told otherwise (s). */
+    public static final double DEFAULT_SMOOTH_TAIL_S = 30.0;
 
     /**
      * @param settings  filter, gating and outage settings
@@ -48,13 +64,29 @@ public final class OutageReplay {
      * @param evalStepS spacing of evaluation times inside a window (s)
      */
     public OutageReplay(Settings settings, VehicleProfile profile, Geodetic origin, double evalStepS) {
+        this(settings, profile, origin, evalStepS, DEFAULT_SMOOTH_TAIL_S);
+    }
+
+    /**
+     * @param settings    filter, gating and outage settings
+     * @param profile     the vehicle's lever arm
+     * @param origin      origin of the ENU frame the reference is given in, or null for the session's rule
+     * @param evalStepS   spacing of evaluation times inside a window (s)
+     * @param smoothTailS seconds after a window whose fixes the smoothed gap fill uses (s, >= 0)
+     */
+    public OutageReplay(Settings settings, VehicleProfile profile, Geodetic origin, double evalStepS,
+                        double smoothTailS) {
         if (!(evalStepS > 0.0)) {
             throw new IllegalArgumentException("evalStepS: must be a positive number of s, was " + evalStepS);
+        }
+        if (!(smoothTailS >= 0.0) || Double.isInfinite(smoothTailS)) {
+            throw new IllegalArgumentException("smooth_tail: must be a non-negative number of s, was " + smoothTailS);
         }
         this.settings = settings;
         this.profile = profile;
         this.origin = origin;
         this.evalStepS = evalStepS;
+        this.smoothTailS = smoothTailS;
         this.assembler = new PoseAssembler(settings.outage());
     }
 
@@ -72,9 +104,14 @@ public final class OutageReplay {
      * @param refNorthM  reference north (m)
      * @param errorM     horizontal error (m)
      * @param radius95M  95% horizontal radius (m, {@link Radius95})
+     * @param smoothedEastM     smoothed east (m)
+     * @param smoothedNorthM    smoothed north (m)
+     * @param smoothedErrorM    horizontal error of the smoothed estimate (m)
+     * @param smoothedRadius95M 95% horizontal radius of the smoothed estimate (m)
      */
     public record TracePoint(double t, double eastM, double northM, double refEastM, double refNorthM,
-                             double errorM, double radius95M) {
+                             double errorM, double radius95M, double smoothedEastM, double smoothedNorthM,
+                             double smoothedErrorM, double smoothedRadius95M) {
     }
 
     /** The evaluation points of one window. */
@@ -139,6 +176,7 @@ public final class OutageReplay {
         pending.sort(Comparator.comparingDouble(st -> st.window().startT()));
         VehicleTrack main = withMain ? new VehicleTrack(settings, profile, origin, TrackOutput.NONE) : null;
         List<Branch> active = new ArrayList<>();
+        List<Branch> tailing = new ArrayList<>();
         int next = 0;
         int unreported = 0;
         for (Sample s : samples) {
@@ -147,22 +185,35 @@ public final class OutageReplay {
                 OutageWindow w = st.window();
                 VehicleTrack from = withMain ? main : st.state();
                 if (from.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
-                    Branch b = new Branch(w, from.branchWithoutGnss(), reference, keepTraces);
+                    Branch b = new Branch(w, from.branchForGapFill(w.endT()), reference, keepTraces);
                     b.track.predictTo(w.startT());
                     b.evaluateUpTo(w.startT());
                     active.add(b);
                 }
+            }
+            for (int i = tailing.size() - 1; i >= 0; i--) {
+                Branch b = tailing.get(i);
+                if (s.t() > b.window.endT() + smoothTailS) {
+                    b.track.predictTo(b.window.endT() + smoothTailS);
+                    finish(b, scores, traces, keepTraces);
+                    tailing.remove(i);
+                    continue;
+                }
+                b.track.apply(s);
             }
             for (int i = active.size() - 1; i >= 0; i--) {
                 Branch b = active.get(i);
                 if (s.t() > b.window.endT()) {
                     b.evaluateUpTo(b.window.endT());
                     b.track.predictTo(b.window.endT());
-                    scores.add(b.finish());
-                    if (keepTraces) {
-                        traces.add(new WindowTrace(b.window, b.trace));
-                    }
+                    b.endForward();
                     active.remove(i);
+                    if (s.t() > b.window.endT() + smoothTailS) {
+                        finish(b, scores, traces, keepTraces);
+                    } else {
+                        tailing.add(b);
+                        b.track.apply(s);
+                    }
                     continue;
                 }
                 b.evaluateUpTo(s.t());
@@ -177,12 +228,24 @@ public final class OutageReplay {
             }
         }
         progress.samplesDone(unreported);
+        // Gap fills whose tail the drive cut short are smoothed with the fixes there were.
+        for (Branch b : tailing) {
+            finish(b, scores, traces, keepTraces);
+        }
         // Windows still open when the drive ends are not scored: their length was not reached.
         scores.sort(Comparator.comparingDouble((WindowScore w) -> w.window().startT())
                 .thenComparingDouble(w -> w.window().lengthS()));
         traces.sort(Comparator.comparingDouble((WindowTrace w) -> w.window().startT())
                 .thenComparingDouble(w -> w.window().lengthS()));
         return new Result(scores, traces);
+    }
+
+    private static void finish(Branch b, List<WindowScore> scores, List<WindowTrace> traces, boolean keepTraces) {
+        WindowScore score = b.smooth();
+        scores.add(score);
+        if (keepTraces) {
+            traces.add(new WindowTrace(b.window, b.trace));
+        }
     }
 
     /** A filter running without GNSS through one window, with its running metrics. */
@@ -212,6 +275,11 @@ public final class OutageReplay {
         double lastEstNorth = Double.NaN;
         double lastRefEastFinal = Double.NaN;
         double lastRefNorthFinal = Double.NaN;
+        /** Per evaluation: its smoothing node, and the reference there (for the smoothed error). */
+        final List<int[]> nodes = new ArrayList<>();
+        final List<double[]> refs = new ArrayList<>();
+        WindowScore forward;
+        long fixesUsedAtEnd;
 
         Branch(OutageWindow window, VehicleTrack track, ReferenceTrack reference, boolean keepTrace) {
             this.window = window;
@@ -242,6 +310,7 @@ public final class OutageReplay {
 
         private void evaluateAt(double t) {
             track.predictTo(t);
+            nodes.add(new int[] {track.markSmoothingNode()});
             FilterSnapshot s = track.snapshot();
             double refEast = reference.eastAt(t);
             double refNorth = reference.northAt(t);
@@ -289,9 +358,64 @@ public final class OutageReplay {
             lastEstNorth = estNorth;
             lastRefEastFinal = refEast;
             lastRefNorthFinal = refNorth;
+            refs.add(new double[] {t, refEast, refNorth});
             if (trace != null) {
-                trace.add(new TracePoint(t, estEast, estNorth, refEast, refNorth, err, radius));
+                trace.add(new TracePoint(t, estEast, estNorth, refEast, refNorth, err, radius, Double.NaN, Double.NaN,
+                        Double.NaN, Double.NaN));
             }
+        }
+
+        /** Ends the forward part at the window's end; the branch goes on with the fixes after it. */
+        void endForward() {
+            forward = finish();
+            fixesUsedAtEnd = track.snapshot().counts().get(FilterCounter.FIXES_USED);
+        }
+
+        /** Smooths the branch and returns the window's score with both estimates. */
+        WindowScore smooth() {
+            long fixesAfter = track.snapshot().counts().get(FilterCounter.FIXES_USED) - fixesUsedAtEnd;
+            track.smootherLog().finish();
+            SmoothedTrack st = RtsSmoother.smooth(track.smootherLog());
+            double maxErr = 0.0;
+            double lastErr = Double.NaN;
+            int inside = 0;
+            int n = 0;
+            double neesSum = 0.0;
+            for (int i = 0; i < nodes.size(); i++) {
+                int node = nodes.get(i)[0];
+                if (!st.hasState(node)) {
+                    continue;
+                }
+                SmoothedState sm = st.state(node);
+                double estEast = sm.eastM();
+                double estNorth = sm.northM();
+                if (reference.atAntenna()) {
+                    double c = Math.cos(sm.yawRad());
+                    double sn = Math.sin(sm.yawRad());
+                    estEast += profile.leverArmForwardM() * c - profile.leverArmLeftM() * sn;
+                    estNorth += profile.leverArmForwardM() * sn + profile.leverArmLeftM() * c;
+                }
+                double[] ref = refs.get(i);
+                double de = estEast - ref[1];
+                double dn = estNorth - ref[2];
+                double err = Math.hypot(de, dn);
+                double a = sm.covEastEastM2();
+                double b = sm.covEastNorthM2();
+                double c = sm.covNorthNorthM2();
+                double nees = (c * de * de - 2.0 * b * de * dn + a * dn * dn) / (a * c - b * b);
+                neesSum += nees;
+                inside += nees <= Ellipse95.SCALE_2DOF_95 ? 1 : 0;
+                n++;
+                maxErr = Math.max(maxErr, err);
+                lastErr = err;
+                if (trace != null) {
+                    TracePoint p = trace.get(i);
+                    trace.set(i, new TracePoint(p.t(), p.eastM(), p.northM(), p.refEastM(), p.refNorthM(), p.errorM(),
+                            p.radius95M(), estEast, estNorth, err, Radius95.of(a, b, c)));
+                }
+            }
+            return forward.withSmoothed(new WindowScore.Smoothed(lastErr, n == 0 ? Double.NaN : maxErr,
+                    n == 0 ? Double.NaN : (double) inside / n, n == 0 ? Double.NaN : neesSum / n, (int) fixesAfter));
         }
 
         WindowScore finish() {

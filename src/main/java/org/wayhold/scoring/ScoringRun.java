@@ -86,11 +86,21 @@ public final class ScoringRun {
      * @param vehicle    the vehicle profile to use (name in the configuration)
      * @param keepTraces keep the evaluation points of every window (for plots)
      * @param threads    worker threads (>= 1)
+     * @param smoothTailS seconds after each window whose fixes the smoothed gap fill uses (s, >= 0)
      */
     public record Options(WindowPlan.Schedule schedule, double minAidedS, double evalStepS, String vehicle,
-                          boolean keepTraces, int threads) {
+                          boolean keepTraces, int threads, double smoothTailS) {
+
+        /** With the default smoothing tail ({@link OutageReplay#DEFAULT_SMOOTH_TAIL_S}). */
+        public Options(WindowPlan.Schedule schedule, double minAidedS, double evalStepS, String vehicle,
+                       boolean keepTraces, int threads) {
+            this(schedule, minAidedS, evalStepS, vehicle, keepTraces, threads, OutageReplay.DEFAULT_SMOOTH_TAIL_S);
+        }
 
         public Options {
+            if (!(smoothTailS >= 0.0) || Double.isInfinite(smoothTailS)) {
+                throw new IllegalArgumentException("smooth_tail: must be a non-negative number of s, was " + smoothTailS);
+            }
             if (!(minAidedS >= 0.0) || Double.isInfinite(minAidedS)) {
                 throw new IllegalArgumentException("min_aided: must be a non-negative number of s, was " + minAidedS);
             }
@@ -302,7 +312,8 @@ public final class ScoringRun {
                 real.add(p.realGapWindows.get(i));
             }
         }
-        OutageReplay replay = new OutageReplay(s, s.profileFor(options.vehicle()), null, options.evalStepS());
+        OutageReplay replay = new OutageReplay(s, s.profileFor(options.vehicle()), null, options.evalStepS(),
+                options.smoothTailS());
         OutageReplay.Result r = replay.runFrom(p.samples, starts, p.track, options.keepTraces(),
                 listener::samplesDone);
         List<WindowScore> windows = new ArrayList<>();

@@ -25,11 +25,61 @@ package org.wayhold.scoring;
  * @param finalNorthM      estimated north at {@code finalT} (m)
  * @param refEastM         reference east at {@code finalT} (m)
  * @param refNorthM        reference north at {@code finalT} (m)
+ * @param smoothed         the smoothed gap fill of the same window, {@link Smoothed#NONE} until smoothed
  */
 public record WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
                           double errorPct, double inside95, double meanNees, double finalNees, double timeToAlertS,
                           double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
                           double crossTrackErrorM, double endEastM, double endNorthM, int samples,
                           double finalT, double finalEastM, double finalNorthM, double refEastM,
-                          double refNorthM) {
+                          double refNorthM, Smoothed smoothed) {
+
+    public WindowScore {
+        java.util.Objects.requireNonNull(smoothed, "smoothed");
+    }
+
+    /** The forward scores alone, before the window is smoothed. */
+    public WindowScore(OutageWindow window, double distanceM, double finalErrorM, double maxErrorM,
+                       double errorPct, double inside95, double meanNees, double finalNees, double timeToAlertS,
+                       double timeToUnreliableS, boolean missedAlert, double alongTrackErrorM,
+                       double crossTrackErrorM, double endEastM, double endNorthM, int samples,
+                       double finalT, double finalEastM, double finalNorthM, double refEastM,
+                       double refNorthM) {
+        this(window, distanceM, finalErrorM, maxErrorM, errorPct, inside95, meanNees, finalNees, timeToAlertS,
+                timeToUnreliableS, missedAlert, alongTrackErrorM, crossTrackErrorM, endEastM, endNorthM, samples, finalT,
+                finalEastM, finalNorthM, refEastM, refNorthM, Smoothed.NONE);
+    }
+
+    /** The same forward scores with the smoothed gap fill. */
+    public WindowScore withSmoothed(Smoothed s) {
+        return new WindowScore(window, distanceM, finalErrorM, maxErrorM, errorPct, inside95, meanNees, finalNees,
+                timeToAlertS, timeToUnreliableS, missedAlert, alongTrackErrorM, crossTrackErrorM, endEastM, endNorthM,
+                samples, finalT, finalEastM, finalNorthM, refEastM, refNorthM, s);
+    }
+
+    /**
+     * The smoothed worst in-window error over the forward final error (unitless): how much of the
+     * drift the fixes after the window take back. NaN when either is missing or the forward final
+     * error is zero.
+     */
+    public double gapFillRatio() {
+        return finalErrorM > 0.0 ? smoothed.maxErrorM() / finalErrorM : Double.NaN;
+    }
+
+    /**
+     * The Rauch-Tung-Striebel smoothed estimate of a window, evaluated at the same times as the forward
+     * one: the window's fixes withheld, the fixes after it used.
+     *
+     * @param finalErrorM horizontal error at the last evaluation (m), NaN when none
+     * @param maxErrorM   largest horizontal error in the window (m), NaN when none
+     * @param inside95    fraction of evaluations with the reference inside the smoothed 95% ellipse (0..1)
+     * @param meanNees    mean normalised estimation error squared (unitless)
+     * @param fixesAfter  fixes the filter used after the window, within the smoothing tail (count): with
+     *                    none the smoothed estimate is only the forward one
+     */
+    public record Smoothed(double finalErrorM, double maxErrorM, double inside95, double meanNees, int fixesAfter) {
+
+        /** Not smoothed. */
+        public static final Smoothed NONE = new Smoothed(Double.NaN, Double.NaN, Double.NaN, Double.NaN, 0);
+    }
 }
