@@ -1,5 +1,6 @@
 package org.wayhold.accuracy;
 
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -7,7 +8,11 @@ import java.util.Map;
 import org.wayhold.fusion.DriveFusion;
 import org.wayhold.fusion.FusedDrive;
 import org.wayhold.sample.Sample;
+import org.wayhold.scoring.LengthSummary;
 import org.wayhold.scoring.ReferenceTrack;
+import org.wayhold.scoring.ScoringRun;
+import org.wayhold.scoring.WindowPlan;
+import org.wayhold.scoring.WindowScore;
 import org.wayhold.settings.Settings;
 import org.wayhold.simulate.DriveSimulator;
 import org.wayhold.simulate.Scenario;
@@ -51,6 +56,7 @@ public final class SmoothingStudyMain {
         } else {
             System.out.println(RealDrives.absentMessage());
         }
+        gapFill(seed0, drives);
         Pool tunnels = new Pool();
         for (int i = 0; i < drives; i++) {
             SimulatedDrive d = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(minutes)
@@ -69,6 +75,48 @@ public final class SmoothingStudyMain {
             }
             pool.print("sim " + sc.label() + " pooled");
         }
+    }
+
+    /** Gap fill: score windows of 60, 90 and 120 s, forward and smoothed, on the real and simulated drives. */
+    private static void gapFill(long seed0, int drives) {
+        List<ScoringRun.LogSource> real = new ArrayList<>();
+        if (RealDrives.present()) {
+            for (String d : new String[] {"0027_real", "0034_real"}) {
+                real.add(HonestyStudyMain.source(d, RealDrives.read("kitti_10_03_drive_" + d)));
+            }
+            printGapFill("real drives (every 30 s)", ScoringRun.run(real, DEFAULTS,
+                    new ScoringRun.Options(new WindowPlan.Schedule(LENGTHS, 0, 30, 0, 0), 30, 0.1, "default", false, 2),
+                    ScoringRun.Listener.NONE));
+        }
+        List<ScoringRun.LogSource> sims = new ArrayList<>();
+        for (int i = 0; i < drives; i++) {
+            sims.add(HonestyStudyMain.source("sim-" + (seed0 + i), DriveSimulator.simulate(SimulationSettings.defaults()
+                    .withMinutes(20), seed0 + i).samples()));
+        }
+        printGapFill("simulated drives (every 120 s)", ScoringRun.run(sims, DEFAULTS,
+                new ScoringRun.Options(new WindowPlan.Schedule(LENGTHS, 0, 120, 0, 0), 60, 0.1, "default", false, 2),
+                ScoringRun.Listener.NONE));
+    }
+
+    private static final double[] LENGTHS = {60, 90, 120};
+    private static final List<ScoringRun.NamedSettings> DEFAULTS = List.of(
+            new ScoringRun.NamedSettings("default", "built-in defaults", Settings.defaults()));
+
+    private static void printGapFill(String what, List<ScoringRun.LogScores> logs) {
+        List<WindowScore> all = new ArrayList<>();
+        for (ScoringRun.LogScores l : logs) {
+            all.addAll(l.configs().get(0).windows());
+        }
+        for (double len : LENGTHS) {
+            LengthSummary s = LengthSummary.of(len, all.stream().filter(w -> w.window().lengthS() == len).toList());
+            System.out.printf(Locale.ROOT, "%s %3.0f s: n=%d forward final median %.2f m; smoothed max median %.2f m, "
+                            + "inside95 %.3f (forward %.3f); gap-fill ratio median %.3f%n", what, len, s.count(),
+                    s.medianFinalErrorM(), s.medianSmoothedMaxErrorM(), s.smoothedInside95(), s.inside95(),
+                    s.medianGapFillRatio());
+        }
+        LengthSummary pooled = LengthSummary.of(0, all);
+        System.out.printf(Locale.ROOT, "%s 60-120 s pooled: n=%d gap-fill ratio median %.3f, smoothed inside95 %.3f%n",
+                what, pooled.count(), pooled.medianGapFillRatio(), pooled.smoothedInside95());
     }
 
     private static SmoothingHonesty.Figures[] print(String name, FusedDrive f, ReferenceTrack ref) {
