@@ -43,6 +43,9 @@ public final class RtsSmoother {
     private final DMatrixRMaj dp = new DMatrixRMaj(SIZE, SIZE);
     private final DMatrixRMaj jdp = new DMatrixRMaj(SIZE, SIZE);
     private final DMatrixRMaj correction = new DMatrixRMaj(SIZE, SIZE);
+    private final DMatrixRMaj work = new DMatrixRMaj(SIZE, SIZE);
+    private final DMatrixRMaj cm = new DMatrixRMaj(SIZE, SIZE);
+    private final int[] active = new int[SIZE];
     private final LinearSolverDense<DMatrixRMaj> cholesky = LinearSolverFactory_DDRM.symmPosDef(SIZE);
     private final LinearSolverDense<DMatrixRMaj> pseudoInverse = LinearSolverFactory_DDRM.pseudoInverse(true);
     private int pseudoInverseSteps;
@@ -135,7 +138,6 @@ public final class RtsSmoother {
     /** J = C P^-1 into {@link #j}, from P J' = C'. */
     private void gain(double[] p, double[] cRowMajor) {
         // States held exactly are left out: their rows and columns of P and columns of C are zero.
-        int[] active = new int[SIZE];
         int m = 0;
         for (int i = 0; i < SIZE; i++) {
             if (p[i * SIZE + i] > 0.0) {
@@ -144,7 +146,8 @@ public final class RtsSmoother {
         }
         if (m == SIZE) {
             System.arraycopy(p, 0, pNext.data, 0, NN);
-            CommonOps_DDRM.transpose(new DMatrixRMaj(SIZE, SIZE, true, cRowMajor), cT);
+            System.arraycopy(cRowMajor, 0, cm.data, 0, NN);
+            CommonOps_DDRM.transpose(cm, cT);
             solve(pNext, cT, jT);
             CommonOps_DDRM.transpose(jT, j);
             return;
@@ -175,8 +178,10 @@ public final class RtsSmoother {
     /** X = A^-1 B by Cholesky, or by the pseudo-inverse when A does not factor. */
     private void solve(DMatrixRMaj a, DMatrixRMaj b, DMatrixRMaj x) {
         LinearSolverDense<DMatrixRMaj> chol = a.numRows == SIZE ? cholesky : LinearSolverFactory_DDRM.symmPosDef(a.numRows);
-        // The solvers may modify A; the callers' A is a work copy.
-        if (chol.setA(a.copy())) {
+        // The solver may keep and modify the matrix it is given: give it a work copy.
+        DMatrixRMaj copy = a.numRows == SIZE ? work : new DMatrixRMaj(a.numRows, a.numCols);
+        copy.setTo(a);
+        if (chol.setA(copy)) {
             chol.solve(b, x);
             if (finite(x)) {
                 return;

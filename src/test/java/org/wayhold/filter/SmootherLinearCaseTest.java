@@ -42,7 +42,8 @@ import org.wayhold.settings.VehicleProfile;
  * {@code state()} and {@code covariance()}: the smoother is checked, not the forward model (which
  * {@code LinearCaseVsCommonsMathTest} holds against Commons Math's {@code KalmanFilter}). wayhold takes
  * nodes only every fifth step, so a fix falls sometimes on a node and sometimes between two: the
- * composed cross-covariances and the fixed-point bookkeeping between nodes are what is checked.
+ * composed cross-covariances and the fixed-point bookkeeping between nodes are what is checked. Nodes
+ * are asked for before and after the step's fix: both must be one node, holding the state after it.
  *
  * <p>Uncertain are east, north, the wheel-speed scale (coupled into the position through A) and the
  * GNSS error; two cases: wheel-speed noise at 12 m/s, and a walking scale at 3 m/s. The states held
@@ -135,6 +136,8 @@ class SmootherLinearCaseTest {
             f.setWheelSpeed(cs.wheelMps);
             f.setYawRate(rate);
             ref.predicted(reduce(f.state(), cs.states), reduceCov(f.covariance(), cs.states));
+            // A node asked for before a fix of the same time is the same node, and holds the state after it.
+            int before = step % STEPS_PER_NODE == 0 ? log.mark() : -1;
             if (step % STEPS_PER_FIX == 0) {
                 double t = step * DT_S;
                 errE = fixDecay * errE + Math.sqrt(corr * (1 - fixDecay * fixDecay)) * gaussian(rnd);
@@ -148,6 +151,7 @@ class SmootherLinearCaseTest {
             if (step % STEPS_PER_NODE == 0) {
                 nodeSteps.add(step);
                 nodes.add(log.mark());
+                assertThat(nodes.get(nodes.size() - 1)).isEqualTo(before);
             }
         }
         log.finish();
