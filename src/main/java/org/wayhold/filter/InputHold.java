@@ -22,16 +22,15 @@ final class InputHold {
     static final double GAP_FACTOR = 3.0;
     /** ... and older than this (s): jitter of a few tens of milliseconds is no gap. */
     static final double GAP_MIN_S = 0.3;
-    /** The usual interval assumed from one reading, before a second shows the real one (s). */
-    private static final double FIRST_INTERVAL_S = 0.1;
-
     private InputHold() {
     }
 
     /** Records a wheel-speed reading at the state's time (m/s, signed). */
     static void recordWheelSpeed(FilterState s, double speedMps) {
-        s.set(Slot.PREVIOUS_WHEEL_SPEED_MPS, s.get(Slot.WHEEL_SPEED_MPS));
-        s.set(Slot.PREVIOUS_WHEEL_SPEED_T_REL, s.get(Slot.WHEEL_SPEED_T_REL));
+        // The first reading is its own predecessor at the same time: no trend and no interval yet.
+        boolean first = !s.is(Slot.HAS_WHEEL_SPEED);
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_MPS, first ? speedMps : s.get(Slot.WHEEL_SPEED_MPS));
+        s.set(Slot.PREVIOUS_WHEEL_SPEED_T_REL, first ? s.get(Slot.T_REL) : s.get(Slot.WHEEL_SPEED_T_REL));
         s.set(Slot.WHEEL_SPEED_MPS, speedMps);
         s.set(Slot.WHEEL_SPEED_T_REL, s.get(Slot.T_REL));
         s.set(Slot.HAS_WHEEL_SPEED, true);
@@ -65,8 +64,9 @@ final class InputHold {
 
     /** Records a yaw-rate reading at the state's time (rad/s, counter-clockwise positive). */
     static void recordYawRate(FilterState s, double rateRadPerS) {
-        s.set(Slot.PREVIOUS_YAW_RATE_RAD_PER_S, s.get(Slot.YAW_RATE_RAD_PER_S));
-        s.set(Slot.PREVIOUS_YAW_RATE_T_REL, s.get(Slot.YAW_RATE_T_REL));
+        boolean first = !s.is(Slot.HAS_YAW_RATE);
+        s.set(Slot.PREVIOUS_YAW_RATE_RAD_PER_S, first ? rateRadPerS : s.get(Slot.YAW_RATE_RAD_PER_S));
+        s.set(Slot.PREVIOUS_YAW_RATE_T_REL, first ? s.get(Slot.T_REL) : s.get(Slot.YAW_RATE_T_REL));
         s.set(Slot.YAW_RATE_RAD_PER_S, rateRadPerS);
         s.set(Slot.YAW_RATE_T_REL, s.get(Slot.T_REL));
         s.set(Slot.HAS_YAW_RATE, true);
@@ -90,29 +90,35 @@ final class InputHold {
                 s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), tMidRel);
     }
 
-    /** The interval between the last two wheel-speed readings (s), a default before there are two. */
-    static double wheelIntervalS(FilterState s) {
-        return interval(s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL));
+    /**
+     * The interval between the last two wheel-speed readings (s); before there are two, the nominal
+     * interval of the configured rate ({@code filter.wheel_speed_rate_hz}).
+     */
+    static double wheelIntervalS(FilterState s, double nominalS) {
+        return interval(s.get(Slot.WHEEL_SPEED_T_REL), s.get(Slot.PREVIOUS_WHEEL_SPEED_T_REL), nominalS);
     }
 
-    /** The interval between the last two yaw-rate readings (s), a default before there are two. */
-    static double yawRateIntervalS(FilterState s) {
-        return interval(s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_T_REL));
+    /**
+     * The interval between the last two yaw-rate readings (s); before there are two, the nominal
+     * interval of the configured rate ({@code filter.gyro_rate_hz}).
+     */
+    static double yawRateIntervalS(FilterState s, double nominalS) {
+        return interval(s.get(Slot.YAW_RATE_T_REL), s.get(Slot.PREVIOUS_YAW_RATE_T_REL), nominalS);
     }
 
     /** How long the wheel-speed stream has been silent past its usual interval (s), 0 when it is not. */
-    static double wheelGapS(FilterState s, double tRel) {
-        return gap(tRel, s.get(Slot.WHEEL_SPEED_T_REL), wheelIntervalS(s));
+    static double wheelGapS(FilterState s, double tRel, double nominalS) {
+        return gap(tRel, s.get(Slot.WHEEL_SPEED_T_REL), wheelIntervalS(s, nominalS));
     }
 
     /** How long the yaw-rate stream has been silent past its usual interval (s), 0 when it is not. */
-    static double yawRateGapS(FilterState s, double tRel) {
-        return gap(tRel, s.get(Slot.YAW_RATE_T_REL), yawRateIntervalS(s));
+    static double yawRateGapS(FilterState s, double tRel, double nominalS) {
+        return gap(tRel, s.get(Slot.YAW_RATE_T_REL), yawRateIntervalS(s, nominalS));
     }
 
-    private static double interval(double newestT, double previousT) {
+    private static double interval(double newestT, double previousT, double nominalS) {
         double dt = newestT - previousT;
-        return dt > 0.0 ? dt : FIRST_INTERVAL_S;
+        return dt > 0.0 ? dt : nominalS;
     }
 
     private static double gap(double tRel, double newestT, double intervalS) {

@@ -455,7 +455,7 @@ public final class NavigationFilter {
         if (!hasWheel || !hasRate) {
             r |= Reason.ODOMETRY_MISSING.bit();
         }
-        if ((hasWheel && InputHold.wheelGapS(s, t) > 0.0) || (hasRate && InputHold.yawRateGapS(s, t) > 0.0)) {
+        if ((hasWheel && processNoise.wheelGapS(s, t) > 0.0) || (hasRate && processNoise.yawRateGapS(s, t) > 0.0)) {
             r |= Reason.ODOMETRY_INTERRUPTED.bit();
         }
         if (s.is(Slot.CREEPING)) {

@@ -24,7 +24,8 @@ final class FilterFixtures {
                 d.initialYawSigmaRad(), d.initialGyroBiasSigmaRadPerS(), d.initialSpeedScaleSigma(),
                 d.gnssFloorM(), d.gnssRangeErrorM(), gnssDefaultSigmaM, null, correlatedShare, correlationTimeS,
                 d.gnssVelocityMinSpeedMps(), d.gnssSpeedSigmaMps(), d.gnssCourseSigmaDeg(), d.standstillAfterS(),
-                d.headingInitMinDistanceM(), 0.0, 0.0, 0.0, 0.0, d.wheelSpeedZeroBelowMps(), d.minTurnRadiusM(), 0.0);
+                d.headingInitMinDistanceM(), 0.0, 0.0, 0.0, 0.0, d.wheelSpeedZeroBelowMps(), d.minTurnRadiusM(), 0.0,
+                0.0);
     }
 
     /** No sensor noise, no random walks, no correlated GNSS error: pure dead reckoning. */
