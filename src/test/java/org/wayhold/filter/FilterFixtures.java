@@ -37,6 +37,11 @@ final class FilterFixtures {
         return new NavigationFilter(settings, gating, OutageSettings.defaults(), profile);
     }
 
+    static NavigationFilter filter(FilterSettings settings, GatingSettings gating, OutageSettings outage,
+                                   VehicleProfile profile) {
+        return new NavigationFilter(settings, gating, outage, profile);
+    }
+
     /** A position-only fix; latitude and longitude are unused because the test passes ENU directly. */
     static GnssFix fix(double t, double sigmaHM) {
         return GnssFix.position(t, 0.0, 0.0, sigmaHM);
