@@ -159,7 +159,8 @@ final class KeyTable {
     static GatingSettings gating(Keys<GatingSettings> s) {
         return new GatingSettings(
                 s.number("chi_square_probability", GatingSettings::chiSquareProbability),
-                s.integer("reacquire_fixes", GatingSettings::reacquireFixes));
+                s.integer("reacquire_fixes", GatingSettings::reacquireFixes),
+                s.number("reacquire_span_s", GatingSettings::reacquireSpanS));
     }
 
     static OutageSettings outage(Keys<OutageSettings> s) {

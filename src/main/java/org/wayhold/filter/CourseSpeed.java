@@ -34,12 +34,12 @@ final class CourseSpeed {
     }
 
     /**
-     * The wheel speed is averaged over at least this long before it is compared with a GNSS speed (s):
-     * long enough to span several readings of a sensor that counts teeth, short enough that the speed
-     * changes little under normal acceleration.
+     * The steadier wheel speed a reading is checked against comes from two spans of wheel distance at
+     * least this long each (s), {@link InputHold#wheelSpeedNowMps}: long enough to span several
+     * readings of a sensor that counts teeth.
      */
     static final double MEAN_WINDOW_S = 0.2;
-    /** ... and over at most this long (s): a slower stream gives no comparable speed. */
+    /** ... and at most this long each (s): a slower stream gives no comparable speed. */
     static final double MAX_MEAN_WINDOW_S = 0.5;
 
     /**
@@ -54,16 +54,25 @@ final class CourseSpeed {
         if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
-        double wheel = InputHold.meanWheelSpeedMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
+        // The wheel speed now: the readings' line at this instant, exact for an exact sensor. A sensor
+        // that counts teeth jumps by a tooth per reading, which the wheel distance over the last spans
+        // does not ({@link InputHold#wheelSpeedNowMps}); how far the reading strays from that
+        // steadier value is added to the reading's own noise, so a coarse sensor weighs as little as it
+        // deserves without being configured as coarse.
+        double wheel = InputHold.wheelSpeedAt(s, s.get(FilterState.Slot.T_REL));
+        double steady = InputHold.wheelSpeedNowMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
+        double stray = Double.isNaN(steady) ? 0.0 : wheel - steady;
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        if (Double.isNaN(wheel) || fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
+        if (fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
                 || Math.abs(s.get(FilterState.Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
             return;
         }
         double[] x = s.x;
         double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
                 / fix.speedMps();
-        double speedSigma = settings.gnssSpeedSigmaMps();
+        double wheelSigma = settings.wheelSpeedNoiseMps();
+        double speedVar = settings.gnssSpeedSigmaMps() * settings.gnssSpeedSigmaMps()
+                + x[SPEED_SCALE] * x[SPEED_SCALE] * (wheelSigma * wheelSigma + stray * stray);
         double unbiased = s.get(FilterState.Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
         double omega = x[GYRO_SCALE] * unbiased;
         double fwd = x[LEVER_FORWARD];
@@ -91,7 +100,7 @@ final class CourseSpeed {
         u.r[0] = courseSigma * courseSigma;
         u.r[1] = 0.0;
         u.r[2] = 0.0;
-        u.r[3] = speedSigma * speedSigma;
+        u.r[3] = speedVar;
         double measuredYaw = Angles.headingDegToYawRad(fix.courseDeg());
         u.nu[0] = Angles.wrapPi(measuredYaw - (x[YAW] + Math.atan2(b, a)));
         u.nu[1] = fix.speedMps() - n;

@@ -32,7 +32,8 @@ import org.wayhold.filter.FilterState.Slot;
  * reflections fix after fix), the two disagree, and either may be wrong: fixes among buildings
  * wander, and an odometry glitch turns the heading. Both make the same first impression, so neither is
  * believed over the other: the missing variance, d'd / 2 less what was claimed, is added both to the
- * fixes that follow (fading with {@link #FADE_S} once they agree again) and to the variances of
+ * fixes that follow (fading with {@link #FADE_S} once they agree again) and, when fixes were used within
+ * the last {@link #MIN_SPAN_S} (so they may have pulled the estimate along), to the variances of
  * position and yaw. Each side then admits the whole disagreement, the estimate settles between them
  * with a covariance that covers either being wrong, and the next fixes settle which was. Fixes that
  * failed never join the trail, so the long test keeps measuring against the last fix that was right.
@@ -140,9 +141,13 @@ final class FixConsistency {
         if (shortfall > extra) {
             extra = shortfall;
         }
-        if (dist > 0.0) {
+        // Fixes used within the shortest span may have pulled the estimate along with them.
+        boolean steered = t - s.get(Slot.LAST_USED_FIX_T_REL) < MIN_SPAN_S;
+        if (dist > 0.0 && steered) {
             // The odometry may be the one at fault: a heading error over the span, and the position
-            // error it left.
+            // error it left. Or the fixes used lately may have pulled the estimate by the disagreement.
+            // When none was used lately (a probation after a gap holds them back), the estimate is the
+            // odometry's alone and the fixes carry the doubt.
             s.p[YAW * SIZE + YAW] += shortfall / (dist * dist);
             s.p[EAST * SIZE + EAST] += shortfall;
             s.p[NORTH * SIZE + NORTH] += shortfall;
