@@ -41,6 +41,8 @@ final class CourseSpeed {
     static final double MEAN_WINDOW_S = 0.2;
     /** ... and at most this long each (s): a slower stream gives no comparable speed. */
     static final double MAX_MEAN_WINDOW_S = 0.5;
+    /** A reading further than this many of its sigmas from the steadier speed is not used as it is. */
+    static final double STRAY_SIGMAS = 4.0;
 
     /**
      * Corrects the state with the fix's course and speed when it carries both and they apply.
@@ -54,14 +56,16 @@ final class CourseSpeed {
         if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
-        // The wheel speed now: the readings' line at this instant, exact for an exact sensor. A sensor
-        // that counts teeth jumps by a tooth per reading, which the wheel distance over the last spans
-        // does not ({@link InputHold#wheelSpeedNowMps}); how far the reading strays from that
-        // steadier value is added to the reading's own noise, so a coarse sensor weighs as little as it
-        // deserves without being configured as coarse.
-        double wheel = InputHold.wheelSpeedAt(s, s.get(FilterState.Slot.T_REL));
+        // The wheel speed now. A reading that agrees with the wheel distance over the last spans
+        // (InputHold.wheelSpeedNowMps) to within its configured noise is used as it is: exact for an
+        // exact sensor, and current while the vehicle accelerates. One that strays further comes from a
+        // sensor coarser than configured - one that counts teeth jumps by a tooth per reading - and the
+        // steadier speed from the distance stands in for it.
+        double reading = InputHold.wheelSpeedAt(s, s.get(FilterState.Slot.T_REL));
         double steady = InputHold.wheelSpeedNowMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
-        double stray = Double.isNaN(steady) ? 0.0 : wheel - steady;
+        double wheelSigma = settings.wheelSpeedNoiseMps();
+        double wheel = Double.isNaN(steady) || Math.abs(reading - steady) <= STRAY_SIGMAS * wheelSigma
+                ? reading : steady;
         double minSpeed = settings.gnssVelocityMinSpeedMps();
         if (fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
                 || Math.abs(s.get(FilterState.Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
@@ -70,9 +74,8 @@ final class CourseSpeed {
         double[] x = s.x;
         double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
                 / fix.speedMps();
-        double wheelSigma = settings.wheelSpeedNoiseMps();
         double speedVar = settings.gnssSpeedSigmaMps() * settings.gnssSpeedSigmaMps()
-                + x[SPEED_SCALE] * x[SPEED_SCALE] * (wheelSigma * wheelSigma + stray * stray);
+                + x[SPEED_SCALE] * x[SPEED_SCALE] * wheelSigma * wheelSigma;
         double unbiased = s.get(FilterState.Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
         double omega = x[GYRO_SCALE] * unbiased;
         double fwd = x[LEVER_FORWARD];
