@@ -32,9 +32,10 @@ import org.wayhold.filter.FilterState.Slot;
  * reflections fix after fix), the two disagree, and either may be wrong: fixes among buildings
  * wander, and an odometry glitch turns the heading. Both make the same first impression, so neither is
  * believed over the other: the missing variance, d'd / 2 less what was claimed, is added both to the
- * fixes that follow (fading with {@link #FADE_S} once they agree again) and, when fixes were used within
- * the last {@link #MIN_SPAN_S} (so they may have pulled the estimate along), to the variances of
- * position and yaw. Each side then admits the whole disagreement, the estimate settles between them
+ * fixes that follow (fading with {@link #FADE_S} once they agree again) and, when the estimate may have
+ * followed them (fixes were used within the last {@link #MIN_SPAN_S} and this one lies inside the
+ * estimate's gate), to the variances of position and yaw. A fix far outside the estimate's gate that
+ * also disagrees with the odometry is wrong on two counts: the estimate keeps to the odometry. Each side then admits the whole disagreement, the estimate settles between them
  * with a covariance that covers either being wrong, and the next fixes settle which was. Fixes that
  * failed never join the trail, so the long test keeps measuring against the last fix that was right.
  */
@@ -70,9 +71,11 @@ final class FixConsistency {
      * earlier inconsistency, raised by this fix's own when it disagrees. Marks the fix as failed (it
      * will not join the trail) when it disagrees.
      *
-     * @param whiteVar the fix's white variance per axis before any addition (m^2)
+     * @param whiteVar       the fix's white variance per axis before any addition (m^2)
+     * @param estimateAgrees whether the fix lies inside the gate of the estimate without any addition:
+     *                       then the estimate may have followed the fixes and share their error
      */
-    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar) {
+    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar, boolean estimateAgrees) {
         double t = s.get(Slot.T_REL);
         double extra = s.get(Slot.INCONSISTENCY_VAR_M2);
         double since = t - s.get(Slot.INCONSISTENT_T_REL);
@@ -141,13 +144,13 @@ final class FixConsistency {
         if (shortfall > extra) {
             extra = shortfall;
         }
-        // Fixes used within the shortest span may have pulled the estimate along with them.
-        boolean steered = t - s.get(Slot.LAST_USED_FIX_T_REL) < MIN_SPAN_S;
+        // The estimate shares the doubt only if it may have followed the fixes: fixes were used lately
+        // and this one agrees with it. A fix the estimate's own gate rejects, or one after a gap whose
+        // fixes are held back, leaves an estimate that is the odometry's, and the fixes carry the doubt.
+        boolean steered = t - s.get(Slot.LAST_USED_FIX_T_REL) < MIN_SPAN_S && estimateAgrees;
         if (dist > 0.0 && steered) {
-            // The odometry may be the one at fault: a heading error over the span, and the position
-            // error it left. Or the fixes used lately may have pulled the estimate by the disagreement.
-            // When none was used lately (a probation after a gap holds them back), the estimate is the
-            // odometry's alone and the fixes carry the doubt.
+            // The odometry may be the one at fault (a heading error over the span, and the position
+            // error it left), or the fixes used lately pulled the estimate along with their error.
             s.p[YAW * SIZE + YAW] += shortfall / (dist * dist);
             s.p[EAST * SIZE + EAST] += shortfall;
             s.p[NORTH * SIZE + NORTH] += shortfall;

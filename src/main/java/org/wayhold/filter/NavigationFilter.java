@@ -348,7 +348,12 @@ public final class NavigationFilter {
             s.set(Slot.ANCHOR_VAR_M2, var);
             return alignment.align(s, fix, eastM, northM, var);
         }
-        double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var));
+        // Whether the estimate agrees with the fix as the fix claims itself to be, before any doubt
+        // the consistency test adds.
+        double plainNis = PositionFix.innovation(s.x, s.p, s.get(Slot.WHEEL_SPEED_MPS), update, eastM, northM,
+                gnssNoise.whiteVarM2(var));
+        double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var),
+                plainNis <= reacquisition.gateThreshold());
         s.set(Slot.FIX_WEAK, extra > 0.0 || sigma > WEAK_FIX_FACTOR * reportedSigmaM(fix));
         var += extra;
         s.set(Slot.CORRELATED_VAR_M2, gnssNoise.correlatedVarM2(var));
