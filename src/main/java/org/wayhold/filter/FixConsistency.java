@@ -72,10 +72,14 @@ final class FixConsistency {
      * will not join the trail) when it disagrees.
      *
      * @param whiteVar       the fix's white variance per axis before any addition (m^2)
+     * @param correlatedVar  the variance of the receiver's correlated error per axis the fix claims,
+     *                       before any addition (m^2): the test must not let an earlier doubt explain
+     *                       the disagreement it measures
      * @param estimateAgrees whether the fix lies inside the gate of the estimate without any addition:
      *                       then the estimate may have followed the fixes and share their error
      */
-    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar, boolean estimateAgrees) {
+    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar, double correlatedVar,
+                           boolean estimateAgrees) {
         double t = s.get(Slot.T_REL);
         double extra = s.get(Slot.INCONSISTENCY_VAR_M2);
         double since = t - s.get(Slot.INCONSISTENT_T_REL);
@@ -117,7 +121,7 @@ final class FixConsistency {
                     + Math.max(s.p[LEVER_LEFT * SIZE + LEVER_LEFT], 0.0));
             double lagVar = 0.5 * (lagE * lagE + lagN * lagN) * Math.max(s.p[GNSS_LATENCY * SIZE + GNSS_LATENCY], 0.0);
             double gnssVar = whiteVar + old[5]
-                    + 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-dt / correlationTimeS))
+                    + 2.0 * correlatedVar * (1.0 - Math.exp(-dt / correlationTimeS))
                     + leverVar + lagVar;
             double odometryVar = d * d * relVar;
             double var = gnssVar + odometryVar;
@@ -188,9 +192,15 @@ final class FixConsistency {
         s.set(Slot.TRAIL_COUNT, Math.min(count + 1, FilterState.TRAIL_LENGTH));
     }
 
-    /** Forgets the trail: after a reset the odometry's path is no fair test. */
+    /** Drops the doubt added to fixes: fixes that agree with each other and with the odometry are taken again. */
+    static void forgive(FilterState s) {
+        s.set(Slot.INCONSISTENCY_VAR_M2, 0.0);
+    }
+
+    /** Forgets the trail and the doubt: after a reset the odometry's path is no fair test. */
     static void clear(FilterState s) {
         s.set(Slot.TRAIL_COUNT, 0);
+        forgive(s);
     }
 
     /**

@@ -353,11 +353,12 @@ public final class NavigationFilter {
         double plainNis = PositionFix.innovation(s.x, s.p, s.get(Slot.WHEEL_SPEED_MPS), update, eastM, northM,
                 gnssNoise.whiteVarM2(var));
         double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var),
-                plainNis <= reacquisition.gateThreshold());
+                gnssNoise.correlatedVarM2(var), plainNis <= reacquisition.gateThreshold());
         s.set(Slot.FIX_WEAK, extra > 0.0 || sigma > WEAK_FIX_FACTOR * reportedSigmaM(fix));
-        var += extra;
+        // The doubt goes to this fix alone, never to the correlated error states: a disagreement they
+        // were allowed to hold would be parked there instead of showing in the position's covariance.
         s.set(Slot.CORRELATED_VAR_M2, gnssNoise.correlatedVarM2(var));
-        double whiteVar = gnssNoise.whiteVarM2(var);
+        double whiteVar = gnssNoise.whiteVarM2(var) + extra;
         height.update(s, fix, upM, sigma);
         double t = s.get(Slot.T_REL);
         if (Reacquisition.inProbation(s) && t - s.get(Slot.PROBATION_SINCE_T_REL) > REACQUIRE_PATIENCE_S
@@ -365,11 +366,15 @@ public final class NavigationFilter {
             InnovationMonitor.widen(s, PATIENCE_WIDENING);
         }
         double wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        // The NIS at the accuracy the fix claims decides how far a jump is; the NIS with the doubt the
+        // consistency test added decides whether the fix may correct the state through the gate.
+        double claimedWhiteVar = gnssNoise.whiteVarM2(var);
+        double claimedNis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, claimedWhiteVar);
         double nis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
         s.set(Slot.LAST_NIS, nis);
         double nuEast = update.nu[0];
         double nuNorth = update.nu[1];
-        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, whiteVar,
+        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, claimedNis, whiteVar,
                 Alignment.calibrationPlausible(s), !s.is(Slot.FIX_FAILED));
         double omega = s.is(Slot.STANDSTILL) ? 0.0
                 : s.x[GYRO_SCALE] * (s.get(Slot.YAW_RATE_RAD_PER_S) - s.x[GYRO_BIAS]);
@@ -383,11 +388,15 @@ public final class NavigationFilter {
                 InnovationMonitor.checkGnssError(s);
             }
             case REACQUIRE -> {
-                if (nis > reacquisition.gateThreshold()) {
+                // Fixes that agree with each other and with the odometry are taken at the accuracy they
+                // claim: an earlier doubt must not hide the jump they reveal from the covariance.
+                FixConsistency.forgive(s);
+                whiteVar = claimedWhiteVar;
+                if (claimedNis > reacquisition.gateThreshold()) {
                     Reacquisition.widenForJump(s, nuEast, nuNorth,
                             s.get(Slot.ODOMETER_M) - s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M));
-                    PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
                 }
+                PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
                 PositionFix.freezeUnobservable(update, omega, s.x[SPEED_SCALE] * wheel);
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;

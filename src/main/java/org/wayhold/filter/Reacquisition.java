@@ -82,16 +82,20 @@ final class Reacquisition {
      * @param s                    the state (probation and held fixes modified)
      * @param nuEastM              east innovation (m)
      * @param nuNorthM             north innovation (m)
-     * @param nis                  its normalised innovation squared (unitless)
+     * @param nis                  its normalised innovation squared (unitless), with any doubt added to the fix
+     * @param claimedNis           the same at the accuracy the fix claims: how far a jump is
      * @param whiteVar             the fix's white variance per axis (m^2)
      * @param calibrationPlausible whether the calibration states could survive a reset
      * @param consistent           whether the fix agrees with the odometry's path ({@link FixConsistency}):
      *                             fixes that agree with each other but not with the odometry are
      *                             never taken by a reacquisition or a reset, only through the gate
      */
-    Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
+    Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double claimedNis, double whiteVar,
                    boolean calibrationPlausible, boolean consistent) {
-        if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
+        // A gap makes any probation one after a gap: one gated fix before it must not turn the fixes
+        // after it into fixes that only need to pass the gate.
+        if (s.whole(Slot.PROBATION) != Probation.AFTER_GAP.ordinal()
+                && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
             begin(s, Probation.AFTER_GAP);
         }
         boolean passes = nis <= gateThreshold;
@@ -116,7 +120,7 @@ final class Reacquisition {
         }
         boolean agreed = s.whole(Slot.PENDING_COUNT) >= reacquireFixes
                 && (reacquireFixes == 1 || s.get(Slot.T_REL) - s.pending[0][4] >= reacquireSpanS);
-        if (agreed && (nis > RESET_NIS || !calibrationPlausible)) {
+        if (agreed && (claimedNis > RESET_NIS || !calibrationPlausible)) {
             end(s);
             return Verdict.RESET;
         }
