@@ -138,9 +138,11 @@ public record FilterSettings(
     /**
      * Built-in defaults, sized for production-grade wheel-speed and yaw-rate sensors of a passenger car
      * and a standalone GNSS receiver (values from common practice): a yaw-rate sensor's scale factor
-     * within about 2 %; 1 % of the rate for misalignment and body motion; a sideslip of about 0.01 rad
-     * per m/s^2 at the rear axle (a 1500 kg car with about 80 kN/rad of rear cornering stiffness, from
-     * memory of the single-track model); wheel-speed sensors silent below about 0.3 m/s; a rear-axle
+     * within about 2 %; 1 % of the rate for misalignment and body motion; a 1-sigma of 0.005 rad per
+     * m/s^2 for the sideslip the model leaves out, about half of the 0.005-0.01 rad per m/s^2 a
+     * passenger car's rear axle slips by (a 1500 kg car with 80-150 kN/rad of rear cornering stiffness,
+     * from memory of the single-track model; on the real drives 0.005 and 0.01 cover the heading
+     * equally); wheel-speed sensors silent below about 0.3 m/s; a rear-axle
      * turn radius of at least about 4.5 m; and a standalone receiver's error at least about half its HDOP
      * in metres (a user range error of 0.5 m is about the best a standalone receiver reaches); a rolling
      * radius that grows by about 0.6 % from standstill to 30 m/s (radial tyres grow by roughly 0.5-1 %
@@ -157,7 +159,7 @@ public record FilterSettings(
                 3.0, 0.15, 3.0,
                 0.5, 5.0,
                 0.02, 1.0e-5, 0.01,
-                0.01, 0.3, 4.5, 0.5,
+                0.005, 0.3, 4.5, 0.5,
                 0.006);
     }
 }
