@@ -30,8 +30,9 @@ import org.wayhold.settings.ServerSettings;
  * its rate allows gets 429 before its body is read ({@link IngestRate}).
  *
  * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
- * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
- * cannot write, the reply is 503 and the client must send the batch again.
+ * and applied once its record is durable (write-ahead, see {@code VehicleSession}); the reply waits for
+ * every chunk submitted. When the journal cannot write, the chunks it refused are not applied and the
+ * reply is 503: the client must send the batch again.
  */
 final class SampleIngest {
 
@@ -93,6 +94,15 @@ final class SampleIngest {
         BlankLines blanks = format == Format.NDJSON ? new BlankLines(body) : null;
         Batch batch = new Batch(vehicleId, blanks);
         try {
+            return read(format, body, blanks, batch);
+        } finally {
+            // Whatever ended the request, no submitted chunk is left queued on the session unapplied.
+            batch.close();
+        }
+    }
+
+    private byte[] read(Format format, InputStream body, BlankLines blanks, Batch batch) {
+        try {
             if (format == Format.NDJSON) {
                 reader.read(new BoundedBody(blanks, limits.maxBodyBytes()), batch);
             } else {
@@ -117,11 +127,18 @@ final class SampleIngest {
         return batch.reply();
     }
 
-    /** Collects lines, submits full chunks and keeps the tallies of one request. */
-    private final class Batch implements SampleSink {
+    /** A chunk handed to the session, with what its tally needs once it is applied. */
+    private record Submitted(SessionRegistry.Submission submission, int[] types, long[] lines) {
+    }
+
+    /**
+     * Collects lines, submits full chunks and keeps the tallies of one request. Closing it waits for every
+     * chunk submitted, so that none is left queued on the session whatever ends the request.
+     */
+    private final class Batch implements SampleSink, AutoCloseable {
         private final String vehicleId;
         private final BlankLines blanks;
-        private final List<SessionRegistry.Submission> submitted = new ArrayList<>();
+        private final List<Submitted> submitted = new ArrayList<>();
         private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
         private long[] chunkLines = new long[CHUNK_SAMPLES];
         private final List<LineError> pending = new ArrayList<>();
@@ -174,42 +191,69 @@ final class SampleIngest {
         void flush() {
             if (!chunk.isEmpty()) {
                 rate.charge(vehicleId, chunk.size());
+                int[] types = new int[chunk.size()];
+                for (int i = 0; i < types.length; i++) {
+                    types[i] = typeIndex(chunk.get(i));
+                }
                 SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
-                submitted.add(s);
-                tally(s.admissions());
+                submitted.add(new Submitted(s, types, java.util.Arrays.copyOf(chunkLines, types.length)));
                 chunk.clear();
             }
-            pending.sort(Comparator.comparingLong(LineError::line));
-            for (LineError e : pending) {
-                if (listed.size() < MAX_LISTED_REJECTIONS) {
-                    listed.add(e);
-                }
-            }
-            pending.clear();
+            keepFirstRejections();
         }
 
         /**
-         * Waits until every chunk submitted so far is in the journal: no reply, success or problem,
-         * reports samples as accepted before they are durable. A chunk the journal could not write
-         * turns the reply into 503.
+         * Keeps the {@link #MAX_LISTED_REJECTIONS} rejections with the lowest line numbers seen so far
+         * (chunks report theirs once applied, after later lines were read), in bounded memory.
+         */
+        private void keepFirstRejections() {
+            if (pending.size() > 2 * MAX_LISTED_REJECTIONS) {
+                pending.sort(Comparator.comparingLong(LineError::line));
+                pending.subList(MAX_LISTED_REJECTIONS, pending.size()).clear();
+            }
+        }
+
+        /**
+         * Waits until every chunk submitted so far is durable and applied, and tallies it: no reply,
+         * success or problem, reports samples as accepted before they are durable. A chunk the journal
+         * could not write (not applied) turns the reply into 503, and so does a vehicle quarantined
+         * meanwhile; every chunk is waited for first.
          */
         void awaitRecorded() {
-            for (SessionRegistry.Submission s : submitted) {
+            RuntimeException problem = null;
+            for (Submitted s : submitted) {
                 try {
-                    s.awaitRecorded();
+                    tally(s, s.submission().admissions());
                 } catch (IOException e) {
-                    throw HttpProblem.journalUnavailable();
+                    problem = problem != null ? problem : HttpProblem.journalUnavailable();
+                } catch (RuntimeException e) {
+                    problem = problem != null ? problem : e;
                 }
             }
             submitted.clear();
+            keepFirstRejections();
+            if (problem != null) {
+                throw problem;
+            }
         }
 
-        private void tally(List<Admission> admissions) {
+        @Override
+        public void close() {
+            if (!submitted.isEmpty()) {
+                try {
+                    awaitRecorded();
+                } catch (RuntimeException e) {
+                    // The request already ends with another problem.
+                }
+            }
+        }
+
+        private void tally(Submitted chunkOf, List<Admission> admissions) {
             long[] byTypeAccepted = new long[TYPES.length];
             long[] byTypeDuplicate = new long[TYPES.length];
             for (int i = 0; i < admissions.size(); i++) {
                 Admission a = admissions.get(i);
-                int type = typeIndex(chunk.get(i));
+                int type = chunkOf.types()[i];
                 switch (a.kind()) {
                     case APPLIED -> {
                         accepted++;
@@ -222,7 +266,7 @@ final class SampleIngest {
                     }
                     case REJECTED -> {
                         rejectedCount++;
-                        pending.add(new LineError(chunkLines[i], a.reason()));
+                        pending.add(new LineError(chunkOf.lines()[i], a.reason()));
                         metrics.rejected(TYPES[type], ServiceMetrics.reasonClass(a.reason()));
                     }
                 }
@@ -234,6 +278,9 @@ final class SampleIngest {
         }
 
         byte[] reply() {
+            pending.sort(Comparator.comparingLong(LineError::line));
+            listed.addAll(pending.subList(0, Math.min(pending.size(), MAX_LISTED_REJECTIONS)));
+            pending.clear();
             return PoseJson.document(128 + 96 * listed.size(), g -> {
                 g.writeStartObject();
                 g.writeNumberField("accepted", accepted);

@@ -1,21 +1,20 @@
 package org.wayhold.journal;
 
 import java.io.ByteArrayInputStream;
-import java.io.ByteArrayOutputStream;
 import java.io.Closeable;
 import java.io.DataInputStream;
-import java.io.DataOutputStream;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.OptionalLong;
+import java.util.LinkedHashMap;
+import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.Executors;
 import java.util.concurrent.ScheduledExecutorService;
 import java.util.concurrent.TimeUnit;
-import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicLong;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.geo.Geodetic;
@@ -23,6 +22,7 @@ import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionLimitException;
 import org.wayhold.session.SessionLog;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleQuarantinedException;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.Settings;
@@ -36,11 +36,16 @@ import org.wayhold.settings.Settings;
  * last snapshot and closes the journal once serving has stopped.
  *
  * <p>Why recovery is exact: the registry records each batch exactly as it handed it to
- * {@link VehicleSession#submit}, under the session's lock, so the journal holds each vehicle's batches in
- * application order; a session is deterministic, so applying the same batches to its snapshot rebuilds
- * the same state. A snapshot captures each session under its lock together with the journal's next
- * sequence at that moment: every earlier record of that vehicle is in the captured state and every
+ * {@link VehicleSession#submit}, under the session's lock, and the session applies it only once the
+ * record is durable, in the order recorded (write-ahead); so the journal holds each vehicle's batches
+ * in application order, and a session is deterministic, so applying the same batches to its snapshot
+ * rebuilds the same state. A snapshot captures each session under its lock with the sequence number of
+ * the last record it applied: every earlier record of that vehicle is in the captured state and every
  * later one is not.
+ *
+ * <p>Faults: a vehicle whose snapshot entry or journal records cannot be applied is quarantined and
+ * every other vehicle is restored; a snapshot that fails for any reason (even running out of memory) is
+ * reported in {@link #status()} and the log and tried again at the next interval.
  *
  * <p>Thread-safety: all methods may be called from any thread; snapshots are serialised.
  */
@@ -49,14 +54,21 @@ public final class SessionJournal implements Closeable {
     /**
      * What the journal is doing, for an admin view.
      *
-     * @param failure           kind of the write failure that stopped the journal (the log has the
+     * @param writable          true while batches are written (false while a write failure lasts)
+     * @param failure           kind of the write failure that makes writes refused now (the log has the
      *                          cause), or null
+     * @param failedForS        wall time since writes started being refused (s), NaN while they are not
+     * @param writeFailures     times writes started being refused since the start (count)
+     * @param snapshotFailures  snapshots that failed since the start (count)
      * @param lastSnapshotAgeS  wall time since the last snapshot of this process (s), NaN before the first
-     * @param lastSnapshotError the last periodic snapshot's failure, or null when it succeeded
+     * @param lastSnapshotError the last snapshot's failure, or null when it succeeded
      */
-    public record Status(Path dir, boolean writable, String failure, Journal.RecoveryReport recovery,
-                         long nextSeq, long snapshotsWritten, double lastSnapshotAgeS, String lastSnapshotError) {
+    public record Status(Path dir, boolean writable, String failure, double failedForS, long writeFailures,
+                         Journal.RecoveryReport recovery, long nextSeq, long snapshotsWritten, long snapshotFailures,
+                         double lastSnapshotAgeS, String lastSnapshotError) {
     }
+
+    private static final Logger LOG = LoggerFactory.getLogger(SessionJournal.class);
 
     private final Path dir;
     private final JournalSettings settings;
@@ -66,7 +78,7 @@ public final class SessionJournal implements Closeable {
     private final Object snapshotLock = new Object();
     private ScheduledExecutorService snapshots;
     private volatile long snapshotsWritten;
-    private final java.util.concurrent.atomic.AtomicLong snapshotFailures = new java.util.concurrent.atomic.AtomicLong();
+    private final AtomicLong snapshotFailures = new AtomicLong();
     private volatile long lastSnapshotNanos;
     private volatile String lastSnapshotError;
     private volatile boolean closed;
@@ -80,27 +92,39 @@ public final class SessionJournal implements Closeable {
         this.recovery = recovery;
     }
 
+    /** {@link #open(Path, Settings, Geodetic, JournalFiles)} on the operating system's file system. */
+    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin) throws IOException {
+        return open(dir, settings, configuredOrigin, JournalFiles.SYSTEM);
+    }
+
     /**
-     * Opens the journal in {@code dir} (created when absent), restores every session it holds into a new
-     * registry and makes that registry record into it.
+     * Opens the journal in {@code dir} (created when absent; its lock is taken, so a second service on
+     * the same directory is refused), restores every session it holds into a new registry and makes that
+     * registry record into it.
      *
      * @param settings         the sessions' settings; {@code journal} configures the files
      * @param configuredOrigin ENU origin for every session instead of its first fix, or null
-     * @throws IOException when the directory cannot be read or written, or a snapshot does not fit these
-     *                     settings
+     * @param files            how the journal writes its files (tests inject failures here)
+     * @throws IOException when the directory cannot be read or written, another service holds it, or it
+     *                     holds more sessions than {@code server.max_sessions}
      */
-    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin) throws IOException {
-        Journal journal = Journal.open(dir, settings.journal());
-        AtomicBoolean failureLogged = new AtomicBoolean();
+    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin, JournalFiles files)
+            throws IOException {
+        Journal journal = Journal.open(dir, settings.journal(), files);
         SessionRegistry sessions = new SessionRegistry(settings, configuredOrigin, new SessionLog() {
             @Override
-            public CompletableFuture<?> batch(String vehicleId, List<? extends Sample> samples) {
-                return logFirstFailure(journal.append(vehicleId, samples), failureLogged);
+            public CompletableFuture<Long> batch(String vehicleId, List<? extends Sample> samples) {
+                return journal.append(vehicleId, samples);
             }
 
             @Override
-            public CompletableFuture<?> delete(String vehicleId) {
-                return logFirstFailure(journal.appendDelete(vehicleId), failureLogged);
+            public CompletableFuture<Long> delete(String vehicleId) {
+                return journal.appendDelete(vehicleId);
+            }
+
+            @Override
+            public long nextSequence() {
+                return journal.nextSeq();
             }
         });
         Journal.RecoveryReport report;
@@ -118,53 +142,60 @@ public final class SessionJournal implements Closeable {
         return new SessionJournal(dir, settings.journal(), journal, sessions, report);
     }
 
-    private static final Logger LOG = LoggerFactory.getLogger(SessionJournal.class);
-
-    /** Logs the journal's first write failure with its cause; every later append fails the same way. */
-    private static CompletableFuture<Long> logFirstFailure(CompletableFuture<Long> appended, AtomicBoolean logged) {
-        appended.whenComplete((seq, error) -> {
-            if (error != null && logged.compareAndSet(false, true)) {
-                LOG.error("journal: a write failed; writes are refused with 503 until a restart", error);
-            }
-        });
-        return appended;
-    }
-
     /** Applies what recovery reads, bypassing the log (it is already in the journal). */
     private record Restorer(SessionRegistry sessions) implements Journal.RecoveryTarget {
         @Override
-        public void restore(String vehicleId, byte[] snapshot) {
+        public void restore(String vehicleId, byte[] snapshot) throws IOException {
+            restore(vehicleId, snapshot, -1);
+        }
+
+        @Override
+        public void restore(String vehicleId, byte[] snapshot, long lastSeq) throws IOException {
+            // A fresh session: an earlier attempt for this vehicle may have left a partial one.
+            sessions.remove(vehicleId);
+            VehicleSession s = create(vehicleId);
             try {
-                VehicleSession s = sessions.getOrCreate(vehicleId).session();
-                s.readSnapshot(new DataInputStream(new ByteArrayInputStream(snapshot)));
+                s.readSnapshot(new DataInputStream(new ByteArrayInputStream(snapshot)), lastSeq);
             } catch (IOException e) {
-                // Not an IOException on purpose: the journal would fall back to an older snapshot on top of
-                // the sessions already restored from this one. A snapshot whose bytes passed their
-                // checksum but do not fit the session is a settings or version mismatch: stop and say so.
-                throw new UncheckedIOException(new IOException("snapshot of vehicle '" + vehicleId
-                        + "' does not fit this version or these settings: " + e.getMessage(), e));
-            } catch (SessionLimitException e) {
-                throw tooMany(e);
+                // Bytes that passed their checksum but do not make this vehicle's session (a settings or
+                // version mismatch, a defect): recovery rebuilds it another way or quarantines it.
+                sessions.remove(vehicleId);
+                throw e;
             }
         }
 
-        private static UncheckedIOException tooMany(SessionLimitException e) {
-            return new UncheckedIOException(new IOException("the journal holds more sessions than "
-                    + "server.max_sessions allows (" + e.getMessage() + "); raise the limit to restore them", e));
+        private VehicleSession create(String vehicleId) {
+            try {
+                return sessions.getOrCreate(vehicleId).session();
+            } catch (SessionLimitException e) {
+                // Not a fault of the data but of the settings: stop and say so.
+                throw new UncheckedIOException(new IOException("the journal holds more sessions than "
+                        + "server.max_sessions allows (" + e.getMessage() + "); raise the limit to restore them", e));
+            }
         }
 
         @Override
         public void replay(String vehicleId, List<Sample> batch, long seq) {
+            VehicleSession s = create(vehicleId);
+            if (s.quarantineReason().isPresent()) {
+                return;
+            }
             try {
-                sessions.getOrCreate(vehicleId).session().submit(batch);
-            } catch (SessionLimitException e) {
-                throw tooMany(e);
+                s.replay(batch, seq);
+            } catch (VehicleQuarantinedException e) {
+                LOG.error("journal: vehicle '{}' quarantined while its journal was replayed: {}", vehicleId,
+                        e.reason(), e.getCause());
             }
         }
 
         @Override
         public void delete(String vehicleId, long seq) {
             sessions.remove(vehicleId);
+        }
+
+        @Override
+        public void quarantine(String vehicleId, String reason) {
+            create(vehicleId).quarantine(reason);
         }
     }
 
@@ -173,7 +204,7 @@ public final class SessionJournal implements Closeable {
         return sessions;
     }
 
-    /** What {@link #open} restored and cut. */
+    /** What {@link #open} restored, read around and lost. */
     public Journal.RecoveryReport recovery() {
         return recovery;
     }
@@ -192,44 +223,54 @@ public final class SessionJournal implements Closeable {
         snapshots.scheduleWithFixedDelay(this::snapshotQuietly, periodMs, periodMs, TimeUnit.MILLISECONDS);
     }
 
+    /**
+     * One scheduled snapshot. Whatever it throws is caught, even an Error such as running out of memory:
+     * a scheduled task that throws is never run again, and the journal still holds everything, so only
+     * the bound on replay time is lost until the next snapshot succeeds.
+     */
     private void snapshotQuietly() {
         try {
             snapshot();
-        } catch (IOException | RuntimeException e) {
-            // The journal still holds everything; only the bound on replay time is lost until the next one.
-            lastSnapshotError = e.toString();
-            snapshotFailures.incrementAndGet();
+        } catch (Throwable e) {
+            snapshotFailed(e);
         }
     }
 
+    private void snapshotFailed(Throwable e) {
+        lastSnapshotError = e.toString();
+        snapshotFailures.incrementAndGet();
+        LOG.error("journal {}: a snapshot failed, tried again in {} s (the journal still holds everything)", dir,
+                settings.snapshotIntervalS(), e);
+    }
+
     /**
-     * Writes a snapshot of every session now and lets the journal drop segments it makes unnecessary.
+     * Writes a snapshot of every session now, streamed to disk one session at a time, and lets the
+     * journal drop segments it makes unnecessary.
      *
      * @return the number of sessions in the snapshot
      */
     public int snapshot() throws IOException {
         synchronized (snapshotLock) {
-            // Read first: any record numbered below it belongs to a session captured below, or to a session
-            // deleted before it was captured (whose deletion record then comes later).
+            // Read first: any record numbered below it belongs to a session captured below (applied, or
+            // numbered above what it applied), or to a session deleted before it was captured.
             long floor = journal.nextSeq();
-            List<Journal.SessionSnapshot> captured = new ArrayList<>();
+            Map<String, VehicleSession> byId = new LinkedHashMap<>();
             for (VehicleSession s : sessions.sessions()) {
-                String id = s.vehicleId();
-                ByteArrayOutputStream bytes = new ByteArrayOutputStream(64 * 1024);
-                // Every record of this vehicle so far was queued under the session's lock, so it is numbered
-                // below the number read under it; every later one will be numbered at or above it.
-                OptionalLong at = s.writeSnapshot(new DataOutputStream(bytes), () -> journal.nextSeq() - 1);
-                if (at.isEmpty()) {
-                    continue;
-                }
-                long lastSeq = at.getAsLong();
-                captured.add(new Journal.SessionSnapshot(id, lastSeq, bytes.toByteArray()));
+                byId.put(s.vehicleId(), s);
             }
-            journal.writeSnapshot(floor, captured);
+            int[] written = new int[1];
+            journal.writeSnapshot(floor, new ArrayList<>(byId.keySet()), (id, out) -> {
+                VehicleSession.Captured c = byId.get(id).writeSnapshot(out);
+                if (c == null) {
+                    return null;
+                }
+                written[0]++;
+                return new Journal.SnapshotEntry(c.lastSeq(), c.quarantineReason());
+            });
             snapshotsWritten++;
             lastSnapshotNanos = System.nanoTime();
             lastSnapshotError = null;
-            return captured.size();
+            return written[0];
         }
     }
 
@@ -243,7 +284,7 @@ public final class SessionJournal implements Closeable {
         return journal.bytesWritten();
     }
 
-    /** Periodic snapshots that failed since the start (each is retried at the next interval). */
+    /** Snapshots that failed since the start (each is retried at the next interval). */
     public long snapshotFailures() {
         return snapshotFailures.get();
     }
@@ -252,15 +293,17 @@ public final class SessionJournal implements Closeable {
     public Status status() {
         IOException failure = journal.failure().orElse(null);
         long last = lastSnapshotNanos;
-        return new Status(dir, failure == null && !closed, failure == null ? null : failure.getClass().getSimpleName(),
-                recovery,
-                journal.nextSeq(), snapshotsWritten, snapshotsWritten == 0 ? Double.NaN
-                : (System.nanoTime() - last) / 1e9, lastSnapshotError);
+        return new Status(dir, journal.writable() && !closed,
+                failure == null ? (closed ? "closed" : null) : failure.getClass().getSimpleName(),
+                journal.failedForS(), journal.writeFailures(), recovery, journal.nextSeq(), snapshotsWritten,
+                snapshotFailures.get(), snapshotsWritten == 0 ? Double.NaN : (System.nanoTime() - last) / 1e9,
+                lastSnapshotError);
     }
 
     /**
-     * Stops the snapshots, takes a last one (so the next start replays nothing) unless the journal has
-     * failed, and closes the journal. Call after serving has stopped.
+     * Stops the snapshots, takes a last one (so the next start replays nothing) and closes the journal,
+     * which releases the directory. Call after serving has stopped. The journal is closed even when the
+     * last snapshot fails; that failure is then thrown.
      */
     @Override
     public void close() throws IOException {
@@ -278,11 +321,12 @@ public final class SessionJournal implements Closeable {
             if (snapshots != null) {
                 snapshots.awaitTermination(30, TimeUnit.SECONDS);
             }
-            if (journal.failure().isEmpty()) {
-                snapshot();
-            }
+            snapshot();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
+        } catch (IOException | RuntimeException | Error e) {
+            snapshotFailed(e);
+            throw e;
         } finally {
             journal.close();
         }

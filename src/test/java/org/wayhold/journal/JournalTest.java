@@ -197,10 +197,11 @@ class JournalTest {
         assertThat(j.appendDelete("a")).isCompletedExceptionally();
     }
 
-    /** Size of one batch record on disk: 8 header bytes and the payload. */
+    /** Size of one batch record on disk: 8 header bytes and the payload, which starts with its sequence number. */
     private static long recordBytes(List<Sample> batch) throws IOException {
         ByteArrayOutputStream bytes = new ByteArrayOutputStream();
         DataOutputStream out = new DataOutputStream(bytes);
+        out.writeLong(0L);
         out.writeByte(1);
         out.writeUTF("a");
         out.writeInt(batch.size());
