@@ -117,8 +117,11 @@ public final class Soak {
             int offsetIndex = firstAtOrAfter(times, times[0] + k % (int) lapS);
             Tally tally = new Tally(id);
             tallies.add(tally);
+            // In kill mode the vehicles post at phases spread over the period, as independent rigs would, so
+            // that a kill finds requests in flight; otherwise all post together.
+            long phaseNanos = killEvery == null ? 0 : (1_000_000_000L / postHz) * k / vehicles;
             tasks.add(new VehicleFeed(client, base, token, id, lines, times, lapS, offsetIndex, postHz, speed, endNanos,
-                    tally));
+                    tally, phaseNanos));
         }
         for (int d = 0; d < dashboards; d++) {
             tasks.add(new Dashboard(client, base, token, vehicles, endNanos, 1000L + d));
@@ -139,9 +142,12 @@ public final class Soak {
         if (server != null) {
             long periodNanos = (long) (Double.parseDouble(killEvery) * 1e9);
             long startNanos = System.nanoTime();
+            SplittableRandom jitter = new SplittableRandom(20_261_205L);
             for (long at = startNanos + periodNanos; at < endNanos - 5_000_000_000L; at += periodNanos) {
                 sleepUntil(at);
                 heap.add(String.format(Locale.ROOT, "before_kill_%d %s", kills.size() + 1, server.heapAfterGcMib()));
+                // Anywhere in a posting period after the forced GC, under load.
+                sleepUntil(System.nanoTime() + 1_000_000_000L + jitter.nextLong(1_000_000_000L / postHz));
                 kills.add(killAndCheck(server, tallies, token, (System.nanoTime() - startNanos) / 1e9, sums));
             }
         }
@@ -296,17 +302,21 @@ public final class Soak {
         }
 
         synchronized void checkpoint() {
-            while (paused) {
-                parked++;
-                notifyAll();
-                try {
+            if (!paused) {
+                return;
+            }
+            // Counted once per stay: a thread woken while still paused waits again without notifying, so
+            // that a hundred parked threads do not wake each other in turn.
+            parked++;
+            notifyAll();
+            try {
+                while (paused) {
                     wait();
-                } catch (InterruptedException e) {
-                    Thread.currentThread().interrupt();
-                    return;
-                } finally {
-                    parked--;
                 }
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            } finally {
+                parked--;
             }
         }
 
@@ -459,9 +469,10 @@ public final class Soak {
     /** One vehicle: posts the drive in slices of 1/M s, looping with shifted times, paced on wall time. */
     private record VehicleFeed(HttpClient client, URI base, String token, String id, List<String> lines,
                                double[] times, double lapS, int startIndex, int postHz, double speed,
-                               long endNanos, Tally tally) implements Runnable {
+                               long endNanos, Tally tally, long phaseNanos) implements Runnable {
         @Override
         public void run() {
+            sleepUntil(System.nanoTime() + phaseNanos);
             URI uri = base.resolve("/v1/vehicles/" + id + "/samples");
             double sliceS = speed / postHz;
             long periodNanos = 1_000_000_000L / postHz;

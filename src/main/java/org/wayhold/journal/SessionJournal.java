@@ -209,7 +209,12 @@ public final class SessionJournal implements Closeable {
         return recovery;
     }
 
-    /** Starts snapshots every {@code journal.snapshot_interval_s} of wall time on a background thread. */
+    /**
+     * Starts snapshots every {@code journal.snapshot_interval_s} of wall time on a background thread,
+     * the first one at once when this start had to replay journal records: a service that crashes
+     * more often than the interval would otherwise never write a snapshot, and replay a longer journal
+     * at every start.
+     */
     public synchronized void startSnapshots() {
         if (snapshots != null || closed) {
             return;
@@ -220,7 +225,8 @@ public final class SessionJournal implements Closeable {
             return t;
         });
         long periodMs = Math.max(1, Math.round(settings.snapshotIntervalS() * 1000.0));
-        snapshots.scheduleWithFixedDelay(this::snapshotQuietly, periodMs, periodMs, TimeUnit.MILLISECONDS);
+        long firstMs = recovery.recordsReplayed() > 0 ? 0 : periodMs;
+        snapshots.scheduleWithFixedDelay(this::snapshotQuietly, firstMs, periodMs, TimeUnit.MILLISECONDS);
     }
 
     /**

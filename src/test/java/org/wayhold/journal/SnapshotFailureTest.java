@@ -126,6 +126,29 @@ class SnapshotFailureTest {
         assertThat(restored).containsExactly("s0", "s1", "s2", "s3");
     }
 
+    /**
+     * Rule: a start that had to replay journal records takes a snapshot at once, so that a service that
+     * crashes more often than the snapshot interval does not replay a longer journal at every start.
+     */
+    @Test
+    void aStartThatReplayedRecordsTakesASnapshotAtOnce() throws Exception {
+        try (Journal j = Journal.open(dir, JournalSettings.defaults())) {
+            j.recover(new NoRecovery());
+            for (int i = 0; i < 5; i++) {
+                Journal.await(j.append("van-a", A.get(i)));
+            }
+        }
+        try (SessionJournal j = SessionJournal.open(dir, snapshotEvery(3600), null)) {
+            assertThat(j.recovery().recordsReplayed()).isEqualTo(5);
+            j.startSnapshots();
+            await(() -> j.status().snapshotsWritten() == 1);
+        }
+        try (SessionJournal j = SessionJournal.open(dir, snapshotEvery(3600), null)) {
+            assertThat(j.recovery().recordsReplayed()).isZero();
+            assertThat(j.recovery().sessionsFromSnapshot()).isEqualTo(1);
+        }
+    }
+
     private static class NoRecovery implements Journal.RecoveryTarget {
         @Override
         public void restore(String vehicleId, byte[] snapshot) {
