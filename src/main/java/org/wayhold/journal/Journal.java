@@ -92,6 +92,8 @@ public final class Journal implements Closeable {
     private long refusedFromSeq = -1;
     private volatile long failedSinceNanos;
 
+    /** The lowest sequence number not yet written or refused; only the writer advances it. */
+    private final AtomicLong firstPending = new AtomicLong();
     private final AtomicLong recordsWritten = new AtomicLong();
     private final AtomicLong bytesWritten = new AtomicLong();
     private final AtomicLong writeFailures = new AtomicLong();
@@ -226,6 +228,7 @@ public final class Journal implements Closeable {
         synchronized (appendLock) {
             nextSeq = r.nextSeq();
         }
+        firstPending.set(nextSeq);
         segmentPath = dir.resolve(name(SEGMENT_PREFIX, nextSeq, SEGMENT_SUFFIX));
         segment = createSegment(segmentPath, nextSeq);
         segmentBytes = segment.size();
@@ -339,6 +342,14 @@ public final class Journal implements Closeable {
         return bytesWritten.get();
     }
 
+    /**
+     * Every record numbered below this one has been written (and forced) or refused, and its future is
+     * complete: a session captured after reading it has applied every record of its own below it.
+     */
+    public long firstPendingSeq() {
+        return firstPending.get();
+    }
+
     /** The sequence number the next append will get. */
     public long nextSeq() {
         synchronized (appendLock) {
@@ -436,6 +447,9 @@ public final class Journal implements Closeable {
         for (int i = from; i < to; i++) {
             group.get(i).done.complete(group.get(i).seq);
         }
+        if (to > from) {
+            firstPending.set(group.get(to - 1).seq + 1);
+        }
     }
 
     private void startRefusing(long firstRefusedSeq, IOException cause) {
@@ -457,6 +471,9 @@ public final class Journal implements Closeable {
         for (Pending p : group) {
             lastRefusedSeq = Math.max(lastRefusedSeq, p.seq);
             p.done.completeExceptionally(cause);
+        }
+        if (!group.isEmpty()) {
+            firstPending.set(Math.max(firstPending.get(), group.get(group.size() - 1).seq + 1));
         }
     }
 
@@ -579,7 +596,7 @@ public final class Journal implements Closeable {
         for (SessionSnapshot s : sessions) {
             ids.add(s.vehicleId());
         }
-        writeSnapshot(floorSeq, ids, (id, out) -> {
+        writeSnapshot(floorSeq, floorSeq, ids, (id, out) -> {
             SessionSnapshot s = sessions.get(ids.indexOf(id));
             out.write(s.state());
             return new SnapshotEntry(s.lastSeq(), null);
@@ -593,13 +610,15 @@ public final class Journal implements Closeable {
      * within the retention limits. On any failure the temporary file is removed and the journal is as
      * it was.
      *
-     * @param floorSeq   {@link #nextSeq()} read before the first session was captured: every record
-     *                   before it belongs to a session in the snapshot or to one deleted before it
-     * @param vehicleIds the sessions to write, in this order
-     * @param source     writes each session's state, with the sequence of the last record it holds
+     * @param floorSeq        {@link #nextSeq()} read before the first session was captured: every record
+     *                        before it belongs to a session in the snapshot or to one deleted before it
+     * @param firstPendingSeq {@link #firstPendingSeq()} read before the first session was captured (at
+     *                        most {@code floorSeq}): a recovery from this snapshot needs no record before it
+     * @param vehicleIds      the sessions to write, in this order
+     * @param source          writes each session's state, with the sequence of the last record it holds
      */
-    public synchronized void writeSnapshot(long floorSeq, List<String> vehicleIds, SnapshotSource source)
-            throws IOException {
+    public synchronized void writeSnapshot(long floorSeq, long firstPendingSeq, List<String> vehicleIds,
+                                           SnapshotSource source) throws IOException {
         Path target = dir.resolve(name(SNAPSHOT_PREFIX, floorSeq, SNAPSHOT_SUFFIX));
         Path tmp = dir.resolve(target.getFileName() + ".tmp");
         boolean done = false;
@@ -607,7 +626,7 @@ public final class Journal implements Closeable {
             try (FileChannel ch = files.open(tmp, EnumSet.of(StandardOpenOption.CREATE, StandardOpenOption.WRITE,
                     StandardOpenOption.TRUNCATE_EXISTING))) {
                 OutputStream out = new BufferedOutputStream(Channels.newOutputStream(ch), 64 * 1024);
-                SnapshotFile.Writer w = new SnapshotFile.Writer(out, floorSeq);
+                SnapshotFile.Writer w = new SnapshotFile.Writer(out, floorSeq, Math.min(floorSeq, firstPendingSeq));
                 for (String id : vehicleIds) {
                     w.entry(id, source);
                 }
@@ -642,14 +661,18 @@ public final class Journal implements Closeable {
     private void applyRetention(long floorSeq) throws IOException {
         Recovery.Listing listing = Recovery.listing(dir);
         List<Path> snapshots = listing.snapshots();
-        long keptFloor = snapshots.size() < 2 ? 0
-                : Math.min(floorSeq, seqOf(snapshots.get(snapshots.size() - 2), SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX));
+        Path older = snapshots.size() < 2 ? null : snapshots.get(snapshots.size() - 2);
         boolean deleted = false;
-        for (Path p : snapshots) {
-            if (seqOf(p, SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX) < keptFloor) {
-                deleted |= Files.deleteIfExists(p);
+        if (older != null) {
+            long olderFloor = seqOf(older, SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX);
+            for (Path p : snapshots) {
+                if (seqOf(p, SNAPSHOT_PREFIX, SNAPSHOT_SUFFIX) < Math.min(floorSeq, olderFloor)) {
+                    deleted |= Files.deleteIfExists(p);
+                }
             }
         }
+        // A recovery from the older kept snapshot needs the records from its first pending one on.
+        long keptFloor = older == null ? 0 : Math.min(floorSeq, SnapshotFile.firstNeededSeq(older));
         List<Path> segments = listing.segments();
         long total = 0;
         for (Path p : segments) {

@@ -45,7 +45,8 @@ import org.wayhold.sample.SampleCodec;
  *       cut and nothing is reported lost. Damage anywhere else is read around and left in place, and
  *       damage at the very end of the journal that is more than one record is cut and reported.</li>
  *   <li>A loss is reported only where a snapshot does not cover it: records older than what the
- *       snapshot in use holds were not needed.</li>
+ *       snapshot in use holds were not needed. Segments whose records are all older than that are not
+ *       read at all, so a start reads what it replays and not everything retention keeps.</li>
  * </ul>
  */
 final class Recovery {
@@ -73,6 +74,8 @@ final class Recovery {
     private final Map<String, Long> rebuiltFrom = new LinkedHashMap<>();
     private final Map<Path, Object> checkedSnapshots = new HashMap<>();
     private long floor;
+    /** Records from here to the floor may have been pending when the snapshot was taken. */
+    private long firstPending;
     private int fromSnapshot;
     private long replayed;
     private long samples;
@@ -129,7 +132,7 @@ final class Recovery {
         restoreSnapshots(listing.snapshots());
         long firstAvailable = listing.segments().isEmpty() ? Long.MAX_VALUE
                 : Journal.seqOf(listing.segments().get(0), Journal.SEGMENT_PREFIX, Journal.SEGMENT_SUFFIX);
-        neededFrom = floor;
+        neededFrom = Math.min(floor, firstPending);
         for (Map.Entry<String, Long> e : rebuiltFrom.entrySet()) {
             if (e.getValue() < firstAvailable && e.getValue() < floor) {
                 String reason = "its snapshot entry could not be used and the journal no longer holds its records"
@@ -185,6 +188,7 @@ final class Recovery {
             return;
         }
         floor = index.floorSeq();
+        firstPending = index.firstPendingSeq();
         List<Path> older = snapshots.subList(0, primary);
         for (SnapshotFile.Entry e : index.entries()) {
             String problem = use(index, e);
@@ -272,6 +276,16 @@ final class Recovery {
             long nameSeq = Journal.seqOf(path, Journal.SEGMENT_PREFIX, Journal.SEGMENT_SUFFIX);
             long upper = k + 1 < segments.size()
                     ? Journal.seqOf(segments.get(k + 1), Journal.SEGMENT_PREFIX, Journal.SEGMENT_SUFFIX) : Long.MAX_VALUE;
+            if (upper <= neededFrom) {
+                // Every record of it is older than anything the restored state needs: not read at all, so
+                // the start takes the time of what it replays, not of everything retention keeps.
+                continue;
+            }
+            if (expected < 0) {
+                // The first segment read: what the restored state needs before it is missing.
+                gap(neededFrom, nameSeq - 1, path, true);
+                expected = nameSeq;
+            }
             boolean last = k == segments.size() - 1;
             byte[] bytes = Files.readAllBytes(path);
             int pos = 0;

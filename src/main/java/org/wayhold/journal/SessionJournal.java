@@ -260,12 +260,14 @@ public final class SessionJournal implements Closeable {
             // Read first: any record numbered below it belongs to a session captured below (applied, or
             // numbered above what it applied), or to a session deleted before it was captured.
             long floor = journal.nextSeq();
+            // Every record below it is written or refused: a session captured below holds its own.
+            long firstPending = journal.firstPendingSeq();
             Map<String, VehicleSession> byId = new LinkedHashMap<>();
             for (VehicleSession s : sessions.sessions()) {
                 byId.put(s.vehicleId(), s);
             }
             int[] written = new int[1];
-            journal.writeSnapshot(floor, new ArrayList<>(byId.keySet()), (id, out) -> {
+            journal.writeSnapshot(floor, firstPending, new ArrayList<>(byId.keySet()), (id, out) -> {
                 VehicleSession.Captured c = byId.get(id).writeSnapshot(out);
                 if (c == null) {
                     return null;

@@ -45,7 +45,14 @@ final class SnapshotFile {
     }
 
     /** A checked snapshot file: its floor and entries, in file order. */
-    record Index(Path path, long floorSeq, List<Entry> entries) {
+    /**
+     * @param floorSeq        the journal's next sequence number when the snapshot began
+     * @param firstPendingSeq every record numbered below it was written (or refused) before any session
+     *                        was captured, so each session's state holds its own records below it; the
+     *                        records from it to the floor may have been waiting to be written, and are
+     *                        applied after the state when they are this session's
+     */
+    record Index(Path path, long floorSeq, long firstPendingSeq, List<Entry> entries) {
         Entry find(String vehicleId) {
             for (Entry e : entries) {
                 if (e.vehicleId().equals(vehicleId)) {
@@ -63,11 +70,12 @@ final class SnapshotFile {
         private final DataOutputStream entryData = new DataOutputStream(entry);
         private int count;
 
-        Writer(OutputStream out, long floorSeq) throws IOException {
+        Writer(OutputStream out, long floorSeq, long firstPendingSeq) throws IOException {
             this.out = out;
             entryData.writeByte(HEADER);
             entryData.writeInt(MAGIC);
             entryData.writeLong(floorSeq);
+            entryData.writeLong(firstPendingSeq);
             flushFrame();
         }
 
@@ -146,6 +154,7 @@ final class SnapshotFile {
             long size = ch.size();
             long pos = 0;
             long floor = -1;
+            long firstPending = -1;
             List<Entry> entries = new ArrayList<>();
             boolean ended = false;
             while (pos < size) {
@@ -162,6 +171,7 @@ final class SnapshotFile {
                         throw new IOException("not a snapshot of this format");
                     }
                     floor = in.readLong();
+                    firstPending = in.readLong();
                     continue;
                 }
                 switch (kind) {
@@ -189,7 +199,24 @@ final class SnapshotFile {
             if (!ended) {
                 throw new IOException(floor < 0 ? "empty" : "cut short: no end frame");
             }
-            return new Index(path, floor, List.copyOf(entries));
+            return new Index(path, floor, firstPending, List.copyOf(entries));
+        }
+    }
+
+    /**
+     * The lowest sequence number a recovery from this snapshot may need (its first pending record),
+     * from the header frame alone; 0 when the header cannot be read (then nothing may be deleted).
+     */
+    static long firstNeededSeq(Path path) {
+        try (FileChannel ch = FileChannel.open(path, StandardOpenOption.READ)) {
+            DataInputStream in = new DataInputStream(new java.io.ByteArrayInputStream(frameAt(ch, 0, ch.size())));
+            if (in.readByte() != HEADER || in.readInt() != MAGIC) {
+                return 0;
+            }
+            long floor = in.readLong();
+            return Math.min(floor, in.readLong());
+        } catch (IOException | RuntimeException e) {
+            return 0;
         }
     }
 

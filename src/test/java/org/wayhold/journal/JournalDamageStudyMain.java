@@ -140,7 +140,7 @@ public final class JournalDamageStudyMain {
                 }
                 if (second == SECONDS / 2) {
                     floor = j.nextSeq();
-                    j.writeSnapshot(floor, new ArrayList<>(live.keySet()), (id, out) -> {
+                    j.writeSnapshot(floor, j.firstPendingSeq(), new ArrayList<>(live.keySet()), (id, out) -> {
                         VehicleSession.Captured c = live.get(id).writeSnapshot(out);
                         return new Journal.SnapshotEntry(c.lastSeq(), c.quarantineReason());
                     });

@@ -150,7 +150,11 @@ class JournalDamageTest {
         assertThat(segments()).as("no segment is set aside or cut").isEqualTo(segs);
     }
 
-    /** Rule: where a snapshot covers the damaged records, nothing is lost (and the damage is noted). */
+    /**
+     * Rule: where a snapshot covers the damaged records, nothing is lost. A segment whose records are all
+     * older than what the snapshot needs is not even read (so a start does not read everything retention
+     * keeps).
+     */
     @Test
     void aFlippedByteInASegmentTheSnapshotCoversLosesNothing() throws IOException {
         fill(100);
@@ -161,7 +165,7 @@ class JournalDamageTest {
         Recorder r = new Recorder();
         Journal.RecoveryReport report = recover(r);
         assertThat(report.lost()).isEmpty();
-        assertThat(report.notes()).anyMatch(n -> n.contains("nothing lost"));
+        assertThat(report.damagedBytes()).as("not read").isZero();
         assertThat(r.restored).containsExactly("a");
         assertThat(r.seqs).first().isEqualTo(100L);
         assertThat(r.seqs).hasSize(BATCHES - 100);
@@ -204,6 +208,71 @@ class JournalDamageTest {
             assertThat(l.cause()).contains("missing");
         });
         assertThat(r.seqs).isEqualTo(allBut(first, last));
+    }
+
+    /**
+     * Rule: damage a snapshot covers loses nothing, also in a segment that is read because it holds
+     * records the snapshot needs: it is noted, not reported lost.
+     */
+    @Test
+    void damageInAReadSegmentBeforeTheSnapshotFloorIsNotedAndLosesNothing() throws IOException {
+        fill(100);
+        Path holdingTheFloor = null;
+        for (Path p : segments()) {
+            List<long[]> f = frames(p);
+            if (f.get(0)[2] < 100 && f.get(f.size() - 1)[2] >= 100) {
+                holdingTheFloor = p;
+            }
+        }
+        assertThat(holdingTheFloor).isNotNull();
+        long[] victim = frames(holdingTheFloor).get(0);
+        assertThat(victim[2]).isLessThan(100);
+        flipAByte(holdingTheFloor, victim[0] + 20);
+        Recorder r = new Recorder();
+        Journal.RecoveryReport report = recover(r);
+        assertThat(report.lost()).isEmpty();
+        assertThat(report.notes()).anyMatch(n -> n.contains("nothing lost"));
+        assertThat(r.seqs).hasSize(BATCHES - 100);
+    }
+
+    /**
+     * Rule: records that were still being written when a snapshot began are not covered by it, though
+     * numbered below its floor: damage to one of them is a loss. Here the snapshot of "a" holds batches
+     * before 97 while 97 to 99 were pending.
+     */
+    @Test
+    void damageToARecordPendingWhenTheSnapshotBeganIsALoss() throws IOException {
+        try (Journal j = Journal.open(dir, SMALL)) {
+            j.recover(new Recorder());
+            for (int k = 0; k < BATCHES; k++) {
+                if (k == 100) {
+                    j.writeSnapshot(100, 97, List.of("a"), (id, out) -> {
+                        out.write(1);
+                        return new Journal.SnapshotEntry(96, null);
+                    });
+                }
+                Journal.await(j.append("a", batch(k)));
+            }
+        }
+        Path holding = null;
+        long[] victim = null;
+        for (Path p : segments()) {
+            for (long[] f : frames(p)) {
+                if (f[2] == 98) {
+                    holding = p;
+                    victim = f;
+                }
+            }
+        }
+        flipAByte(holding, victim[0] + 20);
+        Recorder r = new Recorder();
+        Journal.RecoveryReport report = recover(r);
+        assertThat(report.lost()).singleElement().satisfies(l -> {
+            assertThat(l.fromSeq()).isEqualTo(98);
+            assertThat(l.toSeq()).isEqualTo(98);
+        });
+        assertThat(r.seqs).first().isEqualTo(97L);
+        assertThat(r.seqs).hasSize(BATCHES - 97 - 1);
     }
 
     /** Rule: a deleted segment whose records a snapshot holds loses nothing. */

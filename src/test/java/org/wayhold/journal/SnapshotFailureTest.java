@@ -103,7 +103,7 @@ class SnapshotFailureTest {
         try (Journal j = Journal.open(dir, JournalSettings.defaults(), files)) {
             j.recover(new NoRecovery());
             long start = files.bytesWritten();
-            j.writeSnapshot(j.nextSeq(), List.of("s0", "s1", "s2", "s3"), (id, out) -> {
+            j.writeSnapshot(j.nextSeq(), j.firstPendingSeq(), List.of("s0", "s1", "s2", "s3"), (id, out) -> {
                 writtenBefore.add(files.bytesWritten() - start);
                 out.write(new byte[sessionBytes]);
                 return new Journal.SnapshotEntry(-1, null);
