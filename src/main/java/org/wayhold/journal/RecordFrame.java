@@ -78,6 +78,26 @@ final class RecordFrame {
         return HEADER_BYTES + length;
     }
 
+    /**
+     * True when the frame at {@code pos} is a record of the earlier layout, which had no sequence number:
+     * its checksum matches and its payload starts with a kind (1 or 2), which as the first byte of a
+     * sequence number would mean a number of at least 2^56.
+     */
+    static boolean earlierLayoutAt(byte[] bytes, int pos, int limit) {
+        if (limit - pos < HEADER_BYTES + 1) {
+            return false;
+        }
+        ByteBuffer b = ByteBuffer.wrap(bytes);
+        int length = b.getInt(pos);
+        if (length < 1 || length > limit - pos - HEADER_BYTES || (bytes[pos + HEADER_BYTES] != 1
+                && bytes[pos + HEADER_BYTES] != 2)) {
+            return false;
+        }
+        CRC32C c = new CRC32C();
+        c.update(bytes, pos + HEADER_BYTES, length);
+        return (int) c.getValue() == b.getInt(pos + 4);
+    }
+
     static long seqAt(byte[] bytes, int pos) {
         return ByteBuffer.wrap(bytes).getLong(pos + SEQ_OFFSET);
     }

@@ -288,6 +288,13 @@ final class Recovery {
             }
             boolean last = k == segments.size() - 1;
             byte[] bytes = Files.readAllBytes(path);
+            if (RecordFrame.validAt(bytes, 0, bytes.length, Long.MIN_VALUE, Long.MAX_VALUE) < 0
+                    && RecordFrame.earlierLayoutAt(bytes, 0, bytes.length)) {
+                // Not damage: read as damage, its records would be cut or reported lost. Refuse to start.
+                throw new IOException(path.getFileName() + " in " + dir + " holds records of the journal's earlier"
+                        + " layout (without sequence numbers), which this version does not read; nothing was changed."
+                        + " Keep the directory for the earlier version, or start this one on a new --data directory");
+            }
             int pos = 0;
             while (pos < bytes.length) {
                 int len = RecordFrame.validAt(bytes, pos, bytes.length, Math.max(nameSeq, expected), upper);

@@ -344,6 +344,28 @@ class JournalDamageTest {
         assertThat(r.seqs).isEqualTo(allBut(BATCHES - 1, BATCHES - 1));
     }
 
+    /**
+     * Rule: a segment of the journal's earlier layout (records without sequence numbers) is not taken for
+     * damage and cut: the start is refused with a message that says so, and the file is left as it was.
+     */
+    @Test
+    void aSegmentOfTheEarlierLayoutIsRefusedNotCut() throws IOException {
+        java.io.ByteArrayOutputStream payload = new java.io.ByteArrayOutputStream();
+        java.io.DataOutputStream out = new java.io.DataOutputStream(payload);
+        out.writeByte(1);
+        out.writeUTF("a");
+        out.writeInt(0);
+        byte[] p = payload.toByteArray();
+        java.util.zip.CRC32C c = new java.util.zip.CRC32C();
+        c.update(p);
+        byte[] frame = ByteBuffer.allocate(8 + p.length).putInt(p.length).putInt((int) c.getValue()).put(p).array();
+        Path old = dir.resolve("segment-00000000000000000000.wal");
+        Files.write(old, frame);
+        org.assertj.core.api.Assertions.assertThatThrownBy(() -> recover(new Recorder()))
+                .isInstanceOf(IOException.class).hasMessageContaining("earlier layout");
+        assertThat(Files.readAllBytes(old)).isEqualTo(frame);
+    }
+
     /** Rule: files in the directory that are not the journal's are ignored with a note, never fatal. */
     @Test
     void strayFilesAreIgnoredWithANote() throws IOException {
