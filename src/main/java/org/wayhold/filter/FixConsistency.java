@@ -33,8 +33,8 @@ import org.wayhold.filter.FilterState.Slot;
  * wander, and an odometry glitch turns the heading. Both make the same first impression, so neither is
  * believed over the other: the missing variance, d'd / 2 less what was claimed, is added both to the
  * fixes that follow (fading with {@link #FADE_S} once they agree again) and, when the estimate may have
- * followed them (fixes were used within the last {@link #MIN_SPAN_S} and this one lies inside the
- * estimate's gate), to the variances of position and yaw. A fix far outside the estimate's gate that
+ * followed them (fixes were used at full weight within the last {@link #MIN_SPAN_S} and this one lies
+ * inside the estimate's gate), to the variances of position and yaw. A fix far outside the estimate's gate that
  * also disagrees with the odometry is wrong on two counts: the estimate keeps to the odometry. Each side then admits the whole disagreement, the estimate settles between them
  * with a covariance that covers either being wrong, and the next fixes settle which was. Fixes that
  * failed never join the trail, so the long test keeps measuring against the last fix that was right.
@@ -148,10 +148,10 @@ final class FixConsistency {
         if (shortfall > extra) {
             extra = shortfall;
         }
-        // The estimate shares the doubt only if it may have followed the fixes: fixes were used lately
-        // and this one agrees with it. A fix the estimate's own gate rejects, or one after a gap whose
+        // The estimate shares the doubt only if it may have followed the fixes: fixes were used at their
+        // full weight lately (not with an earlier doubt added) and this one agrees with it. A fix the estimate's own gate rejects, or one after a gap whose
         // fixes are held back, leaves an estimate that is the odometry's, and the fixes carry the doubt.
-        boolean steered = t - s.get(Slot.LAST_USED_FIX_T_REL) < MIN_SPAN_S && estimateAgrees;
+        boolean steered = t - s.get(Slot.LAST_TRUSTED_FIX_T_REL) < MIN_SPAN_S && estimateAgrees;
         if (dist > 0.0 && steered) {
             // The odometry may be the one at fault (a heading error over the span, and the position
             // error it left), or the fixes used lately pulled the estimate along with their error.

@@ -385,7 +385,11 @@ public final class NavigationFilter {
                     return GnssOutcome.Kind.GATED;
                 }
                 InnovationMonitor.record(s, nis);
-                InnovationMonitor.checkGnssError(s);
+                if (extra == 0.0) {
+                    // While the fixes are in doubt, a correlated error estimate that grows with them says
+                    // the fixes are off, which is known, not that the position drifted.
+                    InnovationMonitor.checkGnssError(s);
+                }
             }
             case REACQUIRE -> {
                 // Fixes that agree with each other and with the odometry are taken at the accuracy they
@@ -416,6 +420,9 @@ public final class NavigationFilter {
                 return GnssOutcome.Kind.GATED;
             }
             default -> throw new IllegalStateException("unhandled verdict " + verdict);
+        }
+        if (whiteVar == claimedWhiteVar) {
+            s.set(Slot.LAST_TRUSTED_FIX_T_REL, s.get(Slot.T_REL));
         }
         courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
         consistency.record(s, eastM, northM, whiteVar);
