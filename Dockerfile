@@ -35,7 +35,7 @@ VOLUME ["/var/lib/wayhold"]
 USER wayhold
 WORKDIR /var/lib/wayhold
 EXPOSE 8470
-# Healthy while GET /health answers "ok" (it says "degraded" once the journal cannot write).
+# Healthy while GET /health answers 200: the service takes writes (503 while the journal cannot write).
 # Set WAYHOLD_PORT when the command is given another --port.
 HEALTHCHECK --interval=30s --timeout=5s --start-period=30s --retries=3 CMD ["/opt/wayhold/healthcheck.sh"]
 ENTRYPOINT ["java", "-jar", "/opt/wayhold/wayhold.jar"]

@@ -6,18 +6,27 @@
 # every vehicle streams in real time x SPEED) while D dashboards poll poses, for T minutes. Reports
 # accepted samples, errors, latency p50/p99 and the server's heap after a full GC at start and end.
 #
-# Usage: bench/soak.sh [-n N=50] [-m M=5] [-t T_MINUTES=2] [-d D=4] [-s SPEED=1] [-x XMX=512m]
-# Bounds: N <= 500, M <= 50, T <= 30 min, D <= 100, SPEED <= 100. Needs a JDK (jcmd) on PATH.
+# With -k S the server is killed with SIGKILL every S seconds and started again on the same --data
+# directory (by bench/Soak.java, which then checks that every vehicle holds exactly the samples its
+# acknowledged replies applied, plus at most those of requests whose reply never came, and reads the heap
+# after a full GC at the start, before every kill and at the end).
+#
+# Usage: bench/soak.sh [-n N=50] [-m M=5] [-t T_MINUTES=2] [-d D=4] [-s SPEED=1] [-x XMX=512m] [-k S]
+# Bounds: N <= 500, M <= 50, T <= 30 min, D <= 100, SPEED <= 100, S >= 10. Needs a JDK (jcmd) on PATH.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-N=50; M=5; T=2; D=4; SPEED=1; XMX=512m
-while getopts "n:m:t:d:s:x:" opt; do
+N=50; M=5; T=2; D=4; SPEED=1; XMX=512m; KILL=0
+while getopts "n:m:t:d:s:x:k:" opt; do
   case $opt in
     n) N=$OPTARG ;; m) M=$OPTARG ;; t) T=$OPTARG ;; d) D=$OPTARG ;; s) SPEED=$OPTARG ;; x) XMX=$OPTARG ;;
-    *) sed -n '2,12p' "$0"; exit 2 ;;
+    k) KILL=$OPTARG ;;
+    *) sed -n '2,17p' "$0"; exit 2 ;;
   esac
 done
+if [[ "$KILL" != 0 ]] && (( KILL < 10 )); then
+  echo "-k: at least 10 s between kills, was $KILL" >&2; exit 2
+fi
 
 LOG=sample-logs/two-tunnels.ndjson.gz
 if [[ ! -f target/wayhold.jar ]]; then
@@ -30,6 +39,22 @@ TOKEN="soak-$(head -c 18 /dev/urandom | base64 | tr -dc 'A-Za-z0-9')"
 DATA_ARGS=()
 if java -jar target/wayhold.jar serve --help 2>/dev/null | grep -q -- '--data'; then
   DATA_ARGS=(--data "$WORK/data")
+fi
+
+if [[ "$KILL" != 0 ]]; then
+  trap 'rm -rf "$WORK"' EXIT
+  printf '%s\n' java -Xmx"$XMX" -jar target/wayhold.jar serve --config "$WORK/none.yaml" --bind 127.0.0.1 \
+    --port "$PORT" --data "$WORK/data" >"$WORK/server.cmd"
+  START=$(date +%s)
+  WAYHOLD_WRITE_TOKENS="$TOKEN" SOAK_KILL_EVERY_S="$KILL" SOAK_SERVER_CMD="$WORK/server.cmd" \
+    SOAK_SERVER_LOG="$WORK/server.out" java bench/Soak.java "http://127.0.0.1:$PORT" "$LOG" "$N" "$M" "$T" "$D" \
+    "$SPEED" "$TOKEN" | tee "$WORK/client.out"
+  echo "wall_s $(( $(date +%s) - START ))"
+  echo "journal_bytes_on_disk $(du -sb "$WORK/data" | cut -f1)"
+  echo "server_starts $(grep -c 'wayhold serving on' "$WORK/server.out")"
+  echo "server_log_errors $(grep -c -E 'Exception|ERROR' "$WORK/server.out" || true)"
+  grep -m 5 -E 'Exception|ERROR|LOST|QUARANTINED' "$WORK/server.out" || true
+  exit 0
 fi
 
 WAYHOLD_WRITE_TOKENS="$TOKEN" java -Xmx"$XMX" -jar target/wayhold.jar serve --config "$WORK/none.yaml" \

@@ -21,6 +21,7 @@ import org.wayhold.ingest.UnknownFields;
 import org.wayhold.sample.Sample;
 import org.wayhold.session.LogReplay;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import picocli.CommandLine.Command;
@@ -33,8 +34,10 @@ import picocli.CommandLine.Spec;
  * {@code wayhold serve}: runs the HTTP service until SIGTERM or Ctrl-C, optionally replaying a recorded
  * log into one vehicle so that poses (and an outage) can be watched with no logging rig attached.
  *
- * <p>Start-up: the journal in {@code --data DIR} is recovered (every session restored, a torn tail
- * cut) and reported before the connector accepts a request. Every accepted batch and deletion is in the
+ * <p>Start-up: the journal in {@code --data DIR} is locked (a second service on the same directory
+ * exits with a message naming the holder's process id), recovered (every session restored, damage read
+ * around, a torn last record cut) and reported, with any acknowledged records that could not be
+ * restored and any vehicle quarantined, before the connector accepts a request. Every accepted batch and deletion is in the
  * journal before its reply; snapshots every {@code journal.snapshot_interval_s} bound what a restart
  * replays.
  *
@@ -131,7 +134,7 @@ final class ServeCommand implements Callable<Integer> {
         LogReplay replayer = null;
         Thread replayThread = null;
         if (replay != null) {
-            replayer = new LogReplay(log, speed, batch -> sessions.submit(vehicle, batch));
+            replayer = new LogReplay(log, speed, batch -> replayBatch(sessions, batch, err));
             replayThread = new Thread(replayer, "replay-" + vehicle);
             replayThread.setDaemon(true);
             replayThread.start();
@@ -148,12 +151,18 @@ final class ServeCommand implements Callable<Integer> {
                 finalReplayer.stop();
                 finalReplayThread.interrupt();
             }
-            service.stop();
+            try {
+                service.stop();
+            } catch (Throwable e) {
+                out.println("http: stopping failed: " + e);
+            }
             // After the last request: the final snapshot holds everything, so the next start replays nothing.
+            // Whatever the snapshot throws (even running out of memory), the journal is closed and the
+            // directory released, and the hook ends normally.
             try {
                 journal.close();
                 out.println("journal: closed with a snapshot of " + sessions.size() + " sessions");
-            } catch (IOException | RuntimeException e) {
+            } catch (Throwable e) {
                 out.println("journal: closing failed: " + e);
             }
             out.println("wayhold stopped");
@@ -164,7 +173,10 @@ final class ServeCommand implements Callable<Integer> {
         return 0;
     }
 
-    /** One line of what was restored and, when anything was cut or set aside, one line per note. */
+    /**
+     * One line of what was restored; then whether anything acknowledged was lost (and which records), the
+     * vehicles quarantined, and one line per note (cuts, damage read around, fallbacks, ignored files).
+     */
     private void printRecovery(PrintWriter out, SessionJournal journal, double seconds) {
         Journal.RecoveryReport r = journal.recovery();
         out.printf(Locale.ROOT, "journal %s: restored %d sessions (%d from the snapshot at record %d, "
@@ -172,10 +184,33 @@ final class ServeCommand implements Callable<Integer> {
                         + " in %.3f s%n",
                 data, journal.sessions().size(), r.sessionsFromSnapshot(), r.snapshotFloorSeq(), r.recordsReplayed(),
                 r.samplesReplayed(), r.recordsSkipped(), r.bytesCut(), seconds);
+        if (r.lost().isEmpty()) {
+            out.println("journal: nothing acknowledged was lost");
+        }
+        for (Journal.Loss loss : r.lost()) {
+            out.println("journal: LOST " + loss.describe());
+        }
+        for (VehicleSession s : journal.sessions().sessions()) {
+            s.quarantineReason().ifPresent(reason -> out.println("journal: vehicle '" + s.vehicleId()
+                    + "' is QUARANTINED (its requests are answered 503 until it is deleted): " + reason));
+        }
         for (String note : r.notes()) {
             out.println("journal: " + note);
         }
         out.flush();
+    }
+
+    /**
+     * One batch of the replay, applied once durable like a request's. A batch the journal refuses is
+     * skipped (the replay is a demonstration; the log says why).
+     */
+    private void replayBatch(SessionRegistry sessions, List<Sample> batch, PrintWriter err) {
+        try {
+            sessions.submit(vehicle, batch).awaitRecorded();
+        } catch (IOException | RuntimeException e) {
+            err.println("replay: a batch was not applied: " + e.getMessage());
+            err.flush();
+        }
     }
 
     private Settings withOverrides(Settings s) {

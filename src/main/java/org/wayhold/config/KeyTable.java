@@ -152,13 +152,15 @@ final class KeyTable {
                 s.number("sideslip_rad_per_mps2", FilterSettings::sideslipRadPerMps2),
                 s.number("wheel_speed_zero_below_mps", FilterSettings::wheelSpeedZeroBelowMps),
                 s.number("min_turn_radius_m", FilterSettings::minTurnRadiusM),
-                s.number("gnss_hdop_floor_m", FilterSettings::gnssHdopFloorM));
+                s.number("gnss_hdop_floor_m", FilterSettings::gnssHdopFloorM),
+                s.number("rolling_radius_growth_at_30_mps", FilterSettings::rollingRadiusGrowthAt30Mps));
     }
 
     static GatingSettings gating(Keys<GatingSettings> s) {
         return new GatingSettings(
                 s.number("chi_square_probability", GatingSettings::chiSquareProbability),
-                s.integer("reacquire_fixes", GatingSettings::reacquireFixes));
+                s.integer("reacquire_fixes", GatingSettings::reacquireFixes),
+                s.number("reacquire_span_s", GatingSettings::reacquireSpanS));
     }
 
     static OutageSettings outage(Keys<OutageSettings> s) {

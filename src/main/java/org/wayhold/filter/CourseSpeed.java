@@ -34,13 +34,15 @@ final class CourseSpeed {
     }
 
     /**
-     * The wheel speed is averaged over at least this long before it is compared with a GNSS speed (s):
-     * long enough to span several readings of a sensor that counts teeth, short enough that the speed
-     * changes little under normal acceleration.
+     * The steadier wheel speed a reading is checked against comes from two spans of wheel distance at
+     * least this long each (s), {@link InputHold#wheelSpeedNowMps}: long enough to span several
+     * readings of a sensor that counts teeth.
      */
     static final double MEAN_WINDOW_S = 0.2;
-    /** ... and over at most this long (s): a slower stream gives no comparable speed. */
+    /** ... and at most this long each (s): a slower stream gives no comparable speed. */
     static final double MAX_MEAN_WINDOW_S = 0.5;
+    /** A reading further than this many of its sigmas from the steadier speed is not used as it is. */
+    static final double STRAY_SIGMAS = 4.0;
 
     /**
      * Corrects the state with the fix's course and speed when it carries both and they apply.
@@ -54,16 +56,26 @@ final class CourseSpeed {
         if (!fix.hasSpeed() || !fix.hasCourse() || s.is(FilterState.Slot.STANDSTILL)) {
             return;
         }
-        double wheel = InputHold.meanWheelSpeedMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
+        // The wheel speed now. A reading that agrees with the wheel distance over the last spans
+        // (InputHold.wheelSpeedNowMps) to within its configured noise is used as it is: exact for an
+        // exact sensor, and current while the vehicle accelerates. One that strays further comes from a
+        // sensor coarser than configured - one that counts teeth jumps by a tooth per reading - and the
+        // steadier speed from the distance stands in for it.
+        double reading = InputHold.wheelSpeedAt(s, s.get(FilterState.Slot.T_REL));
+        double steady = InputHold.wheelSpeedNowMps(s, MEAN_WINDOW_S, MAX_MEAN_WINDOW_S);
+        double wheelSigma = settings.wheelSpeedNoiseMps();
+        double wheel = Double.isNaN(steady) || Math.abs(reading - steady) <= STRAY_SIGMAS * wheelSigma
+                ? reading : steady;
         double minSpeed = settings.gnssVelocityMinSpeedMps();
-        if (Double.isNaN(wheel) || fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
+        if (fix.speedMps() < minSpeed || Math.abs(wheel) < MOVING_SPEED_MPS
                 || Math.abs(s.get(FilterState.Slot.WHEEL_SPEED_MPS)) < MOVING_SPEED_MPS) {
             return;
         }
         double[] x = s.x;
         double courseSigma = Math.toRadians(settings.gnssCourseSigmaDeg()) * Math.max(minSpeed, 1e-3)
                 / fix.speedMps();
-        double speedSigma = settings.gnssSpeedSigmaMps();
+        double speedVar = settings.gnssSpeedSigmaMps() * settings.gnssSpeedSigmaMps()
+                + x[SPEED_SCALE] * x[SPEED_SCALE] * wheelSigma * wheelSigma;
         double unbiased = s.get(FilterState.Slot.YAW_RATE_RAD_PER_S) - x[GYRO_BIAS];
         double omega = x[GYRO_SCALE] * unbiased;
         double fwd = x[LEVER_FORWARD];
@@ -91,7 +103,7 @@ final class CourseSpeed {
         u.r[0] = courseSigma * courseSigma;
         u.r[1] = 0.0;
         u.r[2] = 0.0;
-        u.r[3] = speedSigma * speedSigma;
+        u.r[3] = speedVar;
         double measuredYaw = Angles.headingDegToYawRad(fix.courseDeg());
         u.nu[0] = Angles.wrapPi(measuredYaw - (x[YAW] + Math.atan2(b, a)));
         u.nu[1] = fix.speedMps() - n;

@@ -23,7 +23,7 @@ import java.util.Arrays;
 public final class FilterState {
 
     /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
-    static final int FORMAT = 4;
+    static final int FORMAT = 5;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
@@ -80,6 +80,8 @@ public final class FilterState {
         ODOMETER_M(0.0),
         /** Time of the last fix that corrected or started the state (s since epoch). */
         LAST_USED_FIX_T_REL(Double.NaN),
+        /** Time of the last fix used at the accuracy it claims, with no doubt added (s since epoch). */
+        LAST_TRUSTED_FIX_T_REL(Double.NaN),
         /** Time of the last fix received (s since epoch). */
         LAST_FIX_T_REL(Double.NaN),
         /** Odometer at the last used fix (m). */

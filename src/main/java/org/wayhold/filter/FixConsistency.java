@@ -32,8 +32,10 @@ import org.wayhold.filter.FilterState.Slot;
  * reflections fix after fix), the two disagree, and either may be wrong: fixes among buildings
  * wander, and an odometry glitch turns the heading. Both make the same first impression, so neither is
  * believed over the other: the missing variance, d'd / 2 less what was claimed, is added both to the
- * fixes that follow (fading with {@link #FADE_S} once they agree again) and to the variances of
- * position and yaw. Each side then admits the whole disagreement, the estimate settles between them
+ * fixes that follow (fading with {@link #FADE_S} once they agree again) and, when the estimate may have
+ * followed them (fixes were used at full weight within the last {@link #MIN_SPAN_S} and this one lies
+ * inside the estimate's gate), to the variances of position and yaw. A fix far outside the estimate's gate that
+ * also disagrees with the odometry is wrong on two counts: the estimate keeps to the odometry. Each side then admits the whole disagreement, the estimate settles between them
  * with a covariance that covers either being wrong, and the next fixes settle which was. Fixes that
  * failed never join the trail, so the long test keeps measuring against the last fix that was right.
  */
@@ -69,9 +71,15 @@ final class FixConsistency {
      * earlier inconsistency, raised by this fix's own when it disagrees. Marks the fix as failed (it
      * will not join the trail) when it disagrees.
      *
-     * @param whiteVar the fix's white variance per axis before any addition (m^2)
+     * @param whiteVar       the fix's white variance per axis before any addition (m^2)
+     * @param correlatedVar  the variance of the receiver's correlated error per axis the fix claims,
+     *                       before any addition (m^2): the test must not let an earlier doubt explain
+     *                       the disagreement it measures
+     * @param estimateAgrees whether the fix lies inside the gate of the estimate without any addition:
+     *                       then the estimate may have followed the fixes and share their error
      */
-    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar) {
+    double extraVarianceM2(FilterState s, double eastM, double northM, double whiteVar, double correlatedVar,
+                           boolean estimateAgrees) {
         double t = s.get(Slot.T_REL);
         double extra = s.get(Slot.INCONSISTENCY_VAR_M2);
         double since = t - s.get(Slot.INCONSISTENT_T_REL);
@@ -113,7 +121,7 @@ final class FixConsistency {
                     + Math.max(s.p[LEVER_LEFT * SIZE + LEVER_LEFT], 0.0));
             double lagVar = 0.5 * (lagE * lagE + lagN * lagN) * Math.max(s.p[GNSS_LATENCY * SIZE + GNSS_LATENCY], 0.0);
             double gnssVar = whiteVar + old[5]
-                    + 2.0 * s.get(Slot.CORRELATED_VAR_M2) * (1.0 - Math.exp(-dt / correlationTimeS))
+                    + 2.0 * correlatedVar * (1.0 - Math.exp(-dt / correlationTimeS))
                     + leverVar + lagVar;
             double odometryVar = d * d * relVar;
             double var = gnssVar + odometryVar;
@@ -140,9 +148,13 @@ final class FixConsistency {
         if (shortfall > extra) {
             extra = shortfall;
         }
-        if (dist > 0.0) {
-            // The odometry may be the one at fault: a heading error over the span, and the position
-            // error it left.
+        // The estimate shares the doubt only if it may have followed the fixes: fixes were used at their
+        // full weight lately (not with an earlier doubt added) and this one agrees with it. A fix the estimate's own gate rejects, or one after a gap whose
+        // fixes are held back, leaves an estimate that is the odometry's, and the fixes carry the doubt.
+        boolean steered = t - s.get(Slot.LAST_TRUSTED_FIX_T_REL) < MIN_SPAN_S && estimateAgrees;
+        if (dist > 0.0 && steered) {
+            // The odometry may be the one at fault (a heading error over the span, and the position
+            // error it left), or the fixes used lately pulled the estimate along with their error.
             s.p[YAW * SIZE + YAW] += shortfall / (dist * dist);
             s.p[EAST * SIZE + EAST] += shortfall;
             s.p[NORTH * SIZE + NORTH] += shortfall;
@@ -180,9 +192,15 @@ final class FixConsistency {
         s.set(Slot.TRAIL_COUNT, Math.min(count + 1, FilterState.TRAIL_LENGTH));
     }
 
-    /** Forgets the trail: after a reset the odometry's path is no fair test. */
+    /** Drops the doubt added to fixes: fixes that agree with each other and with the odometry are taken again. */
+    static void forgive(FilterState s) {
+        s.set(Slot.INCONSISTENCY_VAR_M2, 0.0);
+    }
+
+    /** Forgets the trail and the doubt: after a reset the odometry's path is no fair test. */
     static void clear(FilterState s) {
         s.set(Slot.TRAIL_COUNT, 0);
+        forgive(s);
     }
 
     /**

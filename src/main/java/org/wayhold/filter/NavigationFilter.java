@@ -379,11 +379,17 @@ public final class NavigationFilter {
             s.set(Slot.ANCHOR_VAR_M2, var);
             return alignment.align(s, fix, eastM, northM, var);
         }
-        double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var));
+        // Whether the estimate agrees with the fix as the fix claims itself to be, before any doubt
+        // the consistency test adds.
+        double plainNis = PositionFix.innovation(s.x, s.p, s.get(Slot.WHEEL_SPEED_MPS), update, eastM, northM,
+                gnssNoise.whiteVarM2(var));
+        double extra = consistency.extraVarianceM2(s, eastM, northM, gnssNoise.whiteVarM2(var),
+                gnssNoise.correlatedVarM2(var), plainNis <= reacquisition.gateThreshold());
         s.set(Slot.FIX_WEAK, extra > 0.0 || sigma > WEAK_FIX_FACTOR * reportedSigmaM(fix));
-        var += extra;
+        // The doubt goes to this fix alone, never to the correlated error states: a disagreement they
+        // were allowed to hold would be parked there instead of showing in the position's covariance.
         s.set(Slot.CORRELATED_VAR_M2, gnssNoise.correlatedVarM2(var));
-        double whiteVar = gnssNoise.whiteVarM2(var);
+        double whiteVar = gnssNoise.whiteVarM2(var) + extra;
         height.update(s, fix, upM, sigma);
         double t = s.get(Slot.T_REL);
         if (Reacquisition.inProbation(s) && t - s.get(Slot.PROBATION_SINCE_T_REL) > REACQUIRE_PATIENCE_S
@@ -391,11 +397,15 @@ public final class NavigationFilter {
             InnovationMonitor.widen(s, PATIENCE_WIDENING);
         }
         double wheel = s.get(Slot.WHEEL_SPEED_MPS);
+        // The NIS at the accuracy the fix claims decides how far a jump is; the NIS with the doubt the
+        // consistency test added decides whether the fix may correct the state through the gate.
+        double claimedWhiteVar = gnssNoise.whiteVarM2(var);
+        double claimedNis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, claimedWhiteVar);
         double nis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
         s.set(Slot.LAST_NIS, nis);
         double nuEast = update.nu[0];
         double nuNorth = update.nu[1];
-        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, whiteVar,
+        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, claimedNis, whiteVar,
                 Alignment.calibrationPlausible(s), !s.is(Slot.FIX_FAILED));
         double omega = s.is(Slot.STANDSTILL) ? 0.0
                 : s.x[GYRO_SCALE] * (s.get(Slot.YAW_RATE_RAD_PER_S) - s.x[GYRO_BIAS]);
@@ -406,14 +416,22 @@ public final class NavigationFilter {
                     return GnssOutcome.Kind.GATED;
                 }
                 InnovationMonitor.record(s, nis);
-                InnovationMonitor.checkGnssError(s);
+                if (extra == 0.0) {
+                    // While the fixes are in doubt, a correlated error estimate that grows with them says
+                    // the fixes are off, which is known, not that the position drifted.
+                    InnovationMonitor.checkGnssError(s);
+                }
             }
             case REACQUIRE -> {
-                if (nis > reacquisition.gateThreshold()) {
+                // Fixes that agree with each other and with the odometry are taken at the accuracy they
+                // claim: an earlier doubt must not hide the jump they reveal from the covariance.
+                FixConsistency.forgive(s);
+                whiteVar = claimedWhiteVar;
+                if (claimedNis > reacquisition.gateThreshold()) {
                     Reacquisition.widenForJump(s, nuEast, nuNorth,
                             s.get(Slot.ODOMETER_M) - s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M));
-                    PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
                 }
+                PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
                 PositionFix.freezeUnobservable(update, omega, s.x[SPEED_SCALE] * wheel);
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;
@@ -433,6 +451,9 @@ public final class NavigationFilter {
                 return GnssOutcome.Kind.GATED;
             }
             default -> throw new IllegalStateException("unhandled verdict " + verdict);
+        }
+        if (whiteVar == claimedWhiteVar) {
+            s.set(Slot.LAST_TRUSTED_FIX_T_REL, s.get(Slot.T_REL));
         }
         courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
         consistency.record(s, eastM, northM, whiteVar);
@@ -486,7 +507,7 @@ public final class NavigationFilter {
         if (!hasWheel || !hasRate) {
             r |= Reason.ODOMETRY_MISSING.bit();
         }
-        if ((hasWheel && InputHold.wheelGapS(s, t) > 0.0) || (hasRate && InputHold.yawRateGapS(s, t) > 0.0)) {
+        if ((hasWheel && processNoise.wheelGapS(s, t) > 0.0) || (hasRate && processNoise.yawRateGapS(s, t) > 0.0)) {
             r |= Reason.ODOMETRY_INTERRUPTED.bit();
         }
         if (s.is(Slot.CREEPING)) {

@@ -35,7 +35,8 @@ import org.wayhold.settings.FilterSettings;
  * {@code filter.sideslip_rad_per_mps2} times the lateral acceleration times the speed, correlated over
  * {@link #SIDESLIP_CORRELATION_S}, across the direction of travel. Random walks drive the gyro bias
  * and the two scale factors; the wheel-speed scale's variance is kept above what tyre growth between
- * the speed it was learnt at and the current speed may change it by ({@link #TYRE_GROWTH}). The Gauss-Markov driving noise
+ * the speed it was learnt at and the current speed may change it by
+ * ({@code filter.rolling_radius_growth_at_30_mps}). The Gauss-Markov driving noise
  * keeps the GNSS error's steady-state variance (Brown and Hwang, 4th ed., sec. 4.2).
  */
 final class ProcessNoise {
@@ -48,13 +49,8 @@ final class ProcessNoise {
     static final double MAX_ACCELERATION_MPS2 = 3.0;
     /** Largest change of yaw rate per second an interrupted yaw-rate stream may hide (rad/s^2). */
     static final double MAX_YAW_ACCELERATION_RAD_PER_S2 = 0.5;
-    /**
-     * Tyre growth: the rolling radius grows with the square of the speed, by up to about 0.75 % at
-     * {@link #TYRE_GROWTH_REFERENCE_MPS} (common practice: 0.5-1 % from town to motorway speed). A scale
-     * learnt at one speed may thus be off at another by this share of (v^2 - v_learnt^2) / v_ref^2.
-     */
-    static final double TYRE_GROWTH = 0.0075;
-    static final double TYRE_GROWTH_REFERENCE_MPS = 33.0;
+    /** The speed {@code filter.rolling_radius_growth_at_30_mps} is given at (m/s). */
+    static final double TYRE_GROWTH_REFERENCE_MPS = 30.0;
 
     private final double wheelVar;
     private final double gyroVar;
@@ -63,6 +59,9 @@ final class ProcessNoise {
     private final double biasWalk2;
     private final double scaleWalk2;
     private final double gyroScaleWalk2;
+    private final double wheelNominalIntervalS;
+    private final double yawRateNominalIntervalS;
+    private final double tyreGrowth;
 
     ProcessNoise(FilterSettings settings) {
         this.wheelVar = settings.wheelSpeedNoiseMps() * settings.wheelSpeedNoiseMps();
@@ -75,6 +74,19 @@ final class ProcessNoise {
         this.scaleWalk2 = rwScale * rwScale;
         double rwGyroScale = settings.gyroScaleRandomWalkPerSqrtS();
         this.gyroScaleWalk2 = rwGyroScale * rwGyroScale;
+        this.wheelNominalIntervalS = 1.0 / settings.wheelSpeedRateHz();
+        this.yawRateNominalIntervalS = 1.0 / settings.gyroRateHz();
+        this.tyreGrowth = settings.rollingRadiusGrowthAt30Mps();
+    }
+
+    /** Seconds the wheel-speed stream has been silent past its usual interval, 0 when it is not. */
+    double wheelGapS(FilterState s, double tRel) {
+        return InputHold.wheelGapS(s, tRel, wheelNominalIntervalS);
+    }
+
+    /** Seconds the yaw-rate stream has been silent past its usual interval, 0 when it is not. */
+    double yawRateGapS(FilterState s, double tRel) {
+        return InputHold.yawRateGapS(s, tRel, yawRateNominalIntervalS);
     }
 
     /**
@@ -100,15 +112,15 @@ final class ProcessNoise {
                 double creeping = Math.max(dtS, tRel - s.get(Slot.LAST_TURN_AT_REST_T_REL));
                 wheelDensity = creepSigmaMps * creepSigmaMps * creeping;
             } else {
-                double age = InputHold.wheelGapS(s, tRel);
+                double age = wheelGapS(s, tRel);
                 double drift = MAX_ACCELERATION_MPS2 * age;
-                wheelDensity = wheelVar * InputHold.wheelIntervalS(s) + drift * drift * age;
+                wheelDensity = wheelVar * InputHold.wheelIntervalS(s, wheelNominalIntervalS) + drift * drift * age;
             }
             addOuter(p, inputJac, 0, wheelDensity / dtS);
             double rate = s.get(Slot.YAW_RATE_RAD_PER_S);
             double change = 0.5 * (rate - s.get(Slot.PREVIOUS_YAW_RATE_RAD_PER_S));
-            double interval = InputHold.yawRateIntervalS(s);
-            double age = InputHold.yawRateGapS(s, tRel);
+            double interval = InputHold.yawRateIntervalS(s, yawRateNominalIntervalS);
+            double age = yawRateGapS(s, tRel);
             double drift = MAX_YAW_ACCELERATION_RAD_PER_S2 * age;
             double gyroDensity = (gyroVar + change * change) * interval
                     + rateProportional2 * rate * rate * RATE_ERROR_CORRELATION_S + drift * drift * age;
@@ -127,7 +139,9 @@ final class ProcessNoise {
         }
         p[GYRO_BIAS * SIZE + GYRO_BIAS] += biasWalk2 * dtS;
         p[SPEED_SCALE * SIZE + SPEED_SCALE] += scaleWalk2 * dtS;
-        double growth = TYRE_GROWTH * (speedMps * speedMps - learntSpeedMps * learntSpeedMps)
+        // The rolling radius grows with the square of the speed, so a scale learnt at one speed may be
+        // off at another by this share of (v^2 - v_learnt^2) / v_ref^2.
+        double growth = tyreGrowth * (speedMps * speedMps - learntSpeedMps * learntSpeedMps)
                 / (TYRE_GROWTH_REFERENCE_MPS * TYRE_GROWTH_REFERENCE_MPS);
         if (p[SPEED_SCALE * SIZE + SPEED_SCALE] < growth * growth) {
             // Raising one variance keeps P positive semi-definite.

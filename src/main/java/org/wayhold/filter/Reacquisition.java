@@ -16,8 +16,10 @@ import org.wayhold.settings.OutageSettings;
  *
  * <p>A fix inside the chi-square gate corrects the state. After a gap (no used fix for longer than
  * {@code outage.gap_s}) or after a gated fix, fixes are held until {@code gating.reacquire_fixes}
- * consecutive ones agree with each other, so a single outlier or erratic multipath cannot yank the
- * pose; then the newest is applied, after {@link #widenForJump} has moved the covariance to cover the
+ * consecutive ones agree with each other over at least {@code gating.reacquire_span_s}, so a single
+ * outlier or erratic multipath cannot yank the pose, nor can the fixes just out of a tunnel that
+ * reflections offset alike: as the vehicle moves on, the odometry shows them to disagree with the later
+ * fixes; then the newest is applied, after {@link #widenForJump} has moved the covariance to cover the
  * jump when it lies outside the gate, so a filter that drifted further than its covariance admits is
  * pulled back and says so. Agreeing fixes further than {@link #RESET_NIS} outside the covariance (or
  * with an implausible calibration) restart position and yaw instead.
@@ -53,12 +55,14 @@ final class Reacquisition {
     private final double gateThreshold;
     private final double gapS;
     private final int reacquireFixes;
+    private final double reacquireSpanS;
     private final double correlationTimeS;
 
     Reacquisition(GatingSettings gating, OutageSettings outage, double correlationTimeS) {
         this.gateThreshold = ChiSquare.quantile2Dof(gating.chiSquareProbability());
         this.gapS = outage.gapS();
         this.reacquireFixes = gating.reacquireFixes();
+        this.reacquireSpanS = gating.reacquireSpanS();
         this.correlationTimeS = correlationTimeS;
     }
 
@@ -78,16 +82,20 @@ final class Reacquisition {
      * @param s                    the state (probation and held fixes modified)
      * @param nuEastM              east innovation (m)
      * @param nuNorthM             north innovation (m)
-     * @param nis                  its normalised innovation squared (unitless)
+     * @param nis                  its normalised innovation squared (unitless), with any doubt added to the fix
+     * @param claimedNis           the same at the accuracy the fix claims: how far a jump is
      * @param whiteVar             the fix's white variance per axis (m^2)
      * @param calibrationPlausible whether the calibration states could survive a reset
      * @param consistent           whether the fix agrees with the odometry's path ({@link FixConsistency}):
      *                             fixes that agree with each other but not with the odometry are
      *                             never taken by a reacquisition or a reset, only through the gate
      */
-    Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double whiteVar,
+    Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double claimedNis, double whiteVar,
                    boolean calibrationPlausible, boolean consistent) {
-        if (s.whole(Slot.PROBATION) == Probation.NONE.ordinal() && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
+        // A gap makes any probation one after a gap: one gated fix before it must not turn the fixes
+        // after it into fixes that only need to pass the gate.
+        if (s.whole(Slot.PROBATION) != Probation.AFTER_GAP.ordinal()
+                && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
             begin(s, Probation.AFTER_GAP);
         }
         boolean passes = nis <= gateThreshold;
@@ -104,18 +112,19 @@ final class Reacquisition {
         hold(s, nuEastM, nuNorthM, whiteVar);
         if (!consistent) {
             // A receiver that jumped with a reflection gives fixes that agree with each other: only the
-            // odometry can tell, and it says no. They count through the gate alone.
-            if (passes) {
-                end(s);
-                return Verdict.ACCEPT;
-            }
+            // odometry can tell, and it says no. Such fixes never end a probation, even when the
+            // inconsistency's own widening lets them pass the gate: the fixes that end it must agree
+            // with the odometry, or come after the odometry's reach (the consistency test's longest
+            // span) has passed.
             return Verdict.GATED;
         }
-        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes && (nis > RESET_NIS || !calibrationPlausible)) {
+        boolean agreed = s.whole(Slot.PENDING_COUNT) >= reacquireFixes
+                && (reacquireFixes == 1 || s.get(Slot.T_REL) - s.pending[0][4] >= reacquireSpanS);
+        if (agreed && (claimedNis > RESET_NIS || !calibrationPlausible)) {
             end(s);
             return Verdict.RESET;
         }
-        if (s.whole(Slot.PENDING_COUNT) >= reacquireFixes) {
+        if (agreed) {
             end(s);
             return Verdict.REACQUIRE;
         }
@@ -201,10 +210,12 @@ final class Reacquisition {
             }
         }
         if (s.whole(Slot.PENDING_COUNT) == reacquireFixes) {
-            // Full and all agree: shift out the oldest.
-            double[] first = pending[0];
-            System.arraycopy(pending, 1, pending, 0, reacquireFixes - 1);
-            pending[reacquireFixes - 1] = first;
+            // Full and all agree: the oldest stays, so that the agreement spans time; the second
+            // oldest makes room (the only one when a single fix suffices).
+            int out = reacquireFixes == 1 ? 0 : 1;
+            double[] freed = pending[out];
+            System.arraycopy(pending, out + 1, pending, out, reacquireFixes - 1 - out);
+            pending[reacquireFixes - 1] = freed;
             s.set(Slot.PENDING_COUNT, s.whole(Slot.PENDING_COUNT) - 1);
         }
         int held = s.whole(Slot.PENDING_COUNT);

@@ -18,8 +18,9 @@ import org.wayhold.settings.ServerSettings;
  *   <li>Reads (GET, HEAD) need a read token or a write token when {@code server.read_tokens} is not
  *       empty; a writer may always read what it wrote. {@code /metrics} is a read: it tells how many
  *       vehicles there are and how busy the service is.</li>
- *   <li>{@code /health} and {@code /openapi.yaml} are always open: a load balancer probes the first
- *       without secrets, and the second is the public contract and holds no data.</li>
+ *   <li>{@code /health}, {@code /health/live} and {@code /openapi.yaml} are always open: load balancers
+ *       and orchestrators probe the first two without secrets, and the last is the public contract and
+ *       holds no data.</li>
  *   <li>Reads of the live view's own files ({@code /} and its HTML, CSS and JavaScript, see
  *       {@link LiveView}) are open: they hold no data, and the page must load to ask for the token
  *       it then sends on every data request.</li>
@@ -38,7 +39,7 @@ final class BearerTokens {
     /** What a presented token allows. */
     enum Scope { NONE, READ, WRITE }
 
-    private static final List<String> ALWAYS_OPEN = List.of("/health", "/openapi.yaml");
+    private static final List<String> ALWAYS_OPEN = List.of("/health", "/health/live", "/openapi.yaml");
 
     private final byte[][] writeDigests;
     private final byte[][] readDigests;

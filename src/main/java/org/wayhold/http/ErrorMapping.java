@@ -12,6 +12,7 @@ import java.util.function.BiConsumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.session.SessionLimitException;
+import org.wayhold.session.VehicleQuarantinedException;
 
 /**
  * The one place where failures become HTTP responses: RFC 9457 problem details
@@ -19,7 +20,8 @@ import org.wayhold.session.SessionLimitException;
  * (which names the field at fault), {@code instance} (the request path) and, when one field is to blame,
  * the extension member {@code field}.
  *
- * <p>Mapping: {@link HttpProblem} gives its own status; {@link SessionLimitException} is 503; Javalin's
+ * <p>Mapping: {@link HttpProblem} gives its own status; {@link SessionLimitException} and
+ * {@link VehicleQuarantinedException} are 503; Javalin's
  * own {@link HttpResponseException}s keep their status; a path no route matches is 404 and a known path
  * with another method 405 (with {@code Allow}); anything else is 500 with a fixed detail, and its stack
  * trace goes to the server log only. CORS preflights ({@code OPTIONS} with
@@ -70,6 +72,8 @@ final class ErrorMapping {
         routes.exception(HttpProblem.class, (e, ctx) -> reply.accept(ctx, e));
         routes.exception(SessionLimitException.class, (e, ctx) -> reply.accept(ctx,
                 HttpProblem.unavailable("vehicle", "vehicle: " + e.getMessage())));
+        routes.exception(VehicleQuarantinedException.class, (e, ctx) -> reply.accept(ctx,
+                HttpProblem.vehicleQuarantined(e.vehicleId(), e.reason())));
         routes.exception(HttpResponseException.class, (e, ctx) -> {
             if (isPreflight(ctx)) {
                 // No route answers OPTIONS; the CORS plugin has set its headers, the answer is empty.

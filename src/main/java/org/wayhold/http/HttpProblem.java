@@ -134,6 +134,16 @@ final class HttpProblem extends RuntimeException {
                         + " again later (the server log has the cause)");
     }
 
+    /**
+     * 503: the vehicle's session is quarantined (its state could not be trusted); every other vehicle is
+     * served. Deleting the vehicle ends the quarantine and its next sample starts a fresh session.
+     */
+    static HttpProblem vehicleQuarantined(String vehicleId, String reason) {
+        return new HttpProblem(503, "vehicle-quarantined", "Vehicle quarantined", "vehicle",
+                "vehicle: the session of '" + vehicleId + "' is quarantined (" + reason + "); DELETE the vehicle"
+                        + " to start it afresh");
+    }
+
     int status() {
         return status;
     }

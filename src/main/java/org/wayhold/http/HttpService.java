@@ -18,6 +18,7 @@ import org.eclipse.jetty.server.handler.GracefulHandler;
 import org.wayhold.journal.Journal;
 import org.wayhold.journal.SessionJournal;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.ServerSettings;
 
@@ -83,6 +84,7 @@ public final class HttpService implements AutoCloseable {
             SessionJournal j = journal.get();
             restoreReplies(j.recoveredReplies());
             replyLog = j::recordReply;
+            j.keepRepliesFrom(replies::journaled);
         }
         this.uploads = new UploadSlots(server.maxConcurrentUploads());
         SampleIngest ingest = new SampleIngest(sessions, metrics, rate, uploads, replies, replyLog, System::nanoTime,
@@ -92,12 +94,13 @@ public final class HttpService implements AutoCloseable {
     }
 
     /** Puts the replies the journal kept back in the store; one that cannot be read is left out. */
-    private void restoreReplies(List<SessionJournal.RecoveredReply> recovered) {
-        for (SessionJournal.RecoveredReply r : recovered) {
+    private void restoreReplies(List<Journal.KeptReply> recovered) {
+        for (Journal.KeptReply r : recovered) {
             try {
                 IdempotentReplies.Stored s = IdempotentReplies.Stored.decode(r.reply());
                 if (s.vehicleId().equals(r.vehicleId())) {
-                    replies.put(s);
+                    // Still held by its record (or by the snapshots after it): the next snapshot keeps it.
+                    replies.put(s.withJournalSeq(r.seq()));
                 }
             } catch (IOException e) {
                 // Written by another version: a retry with its key is then served like a new request.
@@ -181,32 +184,87 @@ public final class HttpService implements AutoCloseable {
         config.routes.delete("/v1/vehicles/{vehicle}", vehicles::delete);
         config.routes.get("/v1/vehicles", vehicles::list);
         config.routes.get("/health", this::health);
+        config.routes.get("/health/live", this::live);
         config.routes.get("/metrics", ctx -> ctx.contentType("text/plain; version=0.0.4; charset=utf-8")
                 .result(metrics.scrape()));
         config.routes.get("/openapi.yaml", ctx -> ctx.contentType("application/yaml").result(openApiYaml));
     }
 
     /**
-     * Liveness, and with a journal an admin view of it: whether it still writes, what the last start
-     * restored and cut, and the snapshots. {@code status} is {@code degraded} once the journal has
-     * failed (writes are then refused with 503 until a restart).
+     * Readiness, and an admin view: 200 while the service takes writes, 503 while the journal cannot
+     * write (samples would be refused). {@code status} is {@code ok}, or {@code degraded} when anything
+     * needs attention, listed in {@code problems}: {@code journal_not_writable}, {@code journal_records_lost}
+     * (the last start could not restore some acknowledged records; which ones is under
+     * {@code journal.recovery.lost}), {@code vehicles_quarantined} (listed under {@code quarantined}),
+     * {@code snapshot_failing}. A degraded service that is ready still answers 200: it serves, but a
+     * person should look.
      */
     private void health(Context ctx) {
         ctx.header("Cache-Control", "no-store");
         ctx.contentType("application/json");
         Optional<SessionJournal.Status> j = journal.map(SessionJournal::status);
+        List<VehicleSession> quarantined = new ArrayList<>();
+        for (VehicleSession s : sessions.sessions()) {
+            if (s.quarantineReason().isPresent()) {
+                quarantined.add(s);
+            }
+        }
+        List<String> problems = new ArrayList<>();
+        boolean ready = j.map(SessionJournal.Status::writable).orElse(true);
+        if (!ready) {
+            problems.add("journal_not_writable");
+        }
+        if (j.isPresent() && !j.get().recovery().lost().isEmpty()) {
+            problems.add("journal_records_lost");
+        }
+        if (!quarantined.isEmpty()) {
+            problems.add("vehicles_quarantined");
+        }
+        if (j.isPresent() && j.get().lastSnapshotError() != null) {
+            problems.add("snapshot_failing");
+        }
         byte[] json = PoseJson.document(256, g -> {
             g.writeStartObject();
-            g.writeStringField("status", j.map(s -> s.writable() ? "ok" : "degraded").orElse("ok"));
+            g.writeStringField("status", problems.isEmpty() ? "ok" : "degraded");
+            g.writeBooleanField("ready", ready);
+            g.writeArrayFieldStart("problems");
+            for (String p : problems) {
+                g.writeString(p);
+            }
+            g.writeEndArray();
             g.writeNumberField("sessions", sessions.size());
             g.writeNumberField("streams", streams.openCount());
-            g.writeNumberField("uptime_s", Math.round((System.nanoTime() - startedNanos) / 1e6) / 1e3);
+            g.writeNumberField("uptime_s", uptimeS());
+            g.writeArrayFieldStart("quarantined");
+            for (VehicleSession s : quarantined) {
+                g.writeStartObject();
+                g.writeStringField("vehicle", s.vehicleId());
+                g.writeStringField("reason", s.quarantineReason().orElse(""));
+                g.writeEndObject();
+            }
+            g.writeEndArray();
             if (j.isPresent()) {
                 writeJournal(g, j.get());
             }
             g.writeEndObject();
         });
-        ctx.result(json);
+        ctx.status(ready ? 200 : 503).result(json);
+    }
+
+    /** Liveness: 200 whenever the process answers, whatever the journal's state (restarting cannot help it). */
+    private void live(Context ctx) {
+        ctx.header("Cache-Control", "no-store");
+        ctx.contentType("application/json");
+        ctx.result(PoseJson.document(64, g -> {
+            g.writeStartObject();
+            g.writeStringField("status", "ok");
+            g.writeNumberField("uptime_s", uptimeS());
+            g.writeEndObject();
+        }));
+    }
+
+    private double uptimeS() {
+        return Math.round((System.nanoTime() - startedNanos) / 1e6) / 1e3;
     }
 
     private static void writeJournal(JsonGenerator g, SessionJournal.Status s) throws IOException {
@@ -214,8 +272,11 @@ public final class HttpService implements AutoCloseable {
         g.writeObjectFieldStart("journal");
         g.writeBooleanField("writable", s.writable());
         g.writeStringField("failure", s.failure());
+        PoseJson.number(g, "failed_for_s", s.failedForS());
+        g.writeNumberField("write_failures", s.writeFailures());
         g.writeNumberField("next_seq", s.nextSeq());
         g.writeNumberField("snapshots_written", s.snapshotsWritten());
+        g.writeNumberField("snapshot_failures", s.snapshotFailures());
         PoseJson.number(g, "last_snapshot_age_s", s.lastSnapshotAgeS());
         g.writeStringField("last_snapshot_error", s.lastSnapshotError());
         g.writeObjectFieldStart("recovery");
@@ -225,6 +286,20 @@ public final class HttpService implements AutoCloseable {
         g.writeNumberField("samples_replayed", r.samplesReplayed());
         g.writeNumberField("records_skipped", r.recordsSkipped());
         g.writeNumberField("bytes_cut", r.bytesCut());
+        g.writeNumberField("damaged_bytes", r.damagedBytes());
+        g.writeArrayFieldStart("lost");
+        for (Journal.Loss loss : r.lost()) {
+            g.writeStartObject();
+            g.writeNumberField("from_seq", loss.fromSeq());
+            if (loss.toKnown()) {
+                g.writeNumberField("to_seq", loss.toSeq());
+            } else {
+                g.writeNullField("to_seq");
+            }
+            g.writeStringField("cause", loss.cause());
+            g.writeEndObject();
+        }
+        g.writeEndArray();
         g.writeArrayFieldStart("notes");
         for (String note : r.notes()) {
             g.writeString(note);

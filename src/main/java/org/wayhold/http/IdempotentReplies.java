@@ -7,14 +7,17 @@ import java.io.DataOutputStream;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.util.ArrayDeque;
+import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.HashSet;
 import java.util.Iterator;
 import java.util.LinkedHashMap;
+import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.Set;
 import java.util.function.LongSupplier;
+import org.wayhold.journal.Journal;
 
 /**
  * The replies of sample posts that carried an {@code Idempotency-Key}, kept so that a retry of the same
@@ -40,8 +43,16 @@ final class IdempotentReplies {
      * @param bodyDigest   SHA-256 of the request body as received (32 bytes)
      * @param reply        the reply document (UTF-8 JSON) as first sent
      * @param createdMillis wall time the reply was first sent (ms since the epoch)
+     * @param journalSeq   sequence number of the journal record that holds it, -1 when not journaled
+     *                     (not part of {@link #encode}: the record carries its own number)
      */
-    record Stored(String vehicleId, String key, byte[] bodyDigest, byte[] reply, long createdMillis) {
+    record Stored(String vehicleId, String key, byte[] bodyDigest, byte[] reply, long createdMillis,
+                  long journalSeq) {
+
+        /** The same reply, held by journal record {@code seq}. */
+        Stored withJournalSeq(long seq) {
+            return new Stored(vehicleId, key, bodyDigest, reply, createdMillis, seq);
+        }
 
         /** Bytes this entry is charged against the byte bound: the arrays and the strings, roughly. */
         long bytes() {
@@ -68,7 +79,7 @@ final class IdempotentReplies {
             }
         }
 
-        /** Reads what {@link #encode} wrote. */
+        /** Reads what {@link #encode} wrote; the journal sequence is -1 until set. */
         static Stored decode(byte[] data) throws IOException {
             DataInputStream in = new DataInputStream(new ByteArrayInputStream(data));
             int format = in.readByte();
@@ -86,7 +97,7 @@ final class IdempotentReplies {
             }
             byte[] reply = new byte[n];
             in.readFully(reply);
-            return new Stored(vehicleId, key, digest, reply, created);
+            return new Stored(vehicleId, key, digest, reply, created, -1);
         }
     }
 
@@ -185,6 +196,21 @@ final class IdempotentReplies {
                 remove(s);
             }
         }
+    }
+
+    /**
+     * The kept replies that are in the journal, oldest first, as the journal writes them into a snapshot
+     * (so that they outlive the segments a restart no longer reads).
+     */
+    synchronized List<Journal.KeptReply> journaled() {
+        expire();
+        List<Journal.KeptReply> out = new ArrayList<>(all.size());
+        for (Stored s : all.values()) {
+            if (s.journalSeq() >= 0) {
+                out.add(new Journal.KeptReply(s.vehicleId(), s.journalSeq(), s.encode()));
+            }
+        }
+        return out;
     }
 
     /** Replies kept (count). */

@@ -6,11 +6,13 @@ import java.security.DigestInputStream;
 import java.security.MessageDigest;
 import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
 import java.util.Locale;
 import java.util.Optional;
 import java.util.concurrent.CompletableFuture;
+import java.util.function.LongConsumer;
 import java.util.function.LongSupplier;
 import java.util.zip.GZIPInputStream;
 import java.util.zip.ZipException;
@@ -30,7 +32,8 @@ import org.wayhold.settings.ServerSettings;
  * Reads one request body of samples and submits them to a vehicle's session as it reads.
  *
  * <p>The body is read as a stream and never held whole: lines are parsed one at a time, and valid
- * samples go to the session in chunks of {@link #CHUNK_SAMPLES}, so memory stays bounded whatever the
+ * samples go to the session in chunks of {@link #CHUNK_SAMPLES}, at most {@link #CHUNKS_IN_FLIGHT} of them
+ * waiting for the journal at once (a waiting chunk holds its samples), so memory stays bounded whatever the
  * body's size and a dashboard sees a long upload progress. The session is created by the first valid
  * sample, so a body with none leaves no empty session behind. Rejections are kept with their line
  * numbers up to {@code ingest.max_listed_rejections} (the first ones in line order) and only counted
@@ -54,13 +57,20 @@ import org.wayhold.settings.ServerSettings;
  * is recorded in the session log (the journal) before it is sent, so the key survives a restart.
  *
  * <p>Durability: each chunk is recorded in the session log (the journal under {@code serve --data})
- * as it is applied, and no reply is sent before every chunk applied so far is durable; when the journal
- * cannot write, the reply is 503 and the client must send the batch again.
+ * and applied once its record is durable (write-ahead, see {@code VehicleSession}); the reply waits for
+ * every chunk submitted. When the journal cannot write, the chunks it refused are not applied and the
+ * reply is 503: the client must send the batch again.
  */
 final class SampleIngest {
 
     /** Samples per submission to the session (count): large enough to amortise its lock and sort. */
     static final int CHUNK_SAMPLES = 4096;
+
+    /**
+     * Chunks submitted and not yet durable and applied, at most (count): enough that reading goes on
+     * while the journal forces a group, few enough that a long body holds a few chunks, not all of them.
+     */
+    static final int CHUNKS_IN_FLIGHT = 4;
 
     /** The body's media type. */
     enum Format { NDJSON, JSON }
@@ -68,13 +78,24 @@ final class SampleIngest {
     /** The body's content coding (RFC 9110 sec. 8.4.1). */
     enum Encoding { IDENTITY, GZIP }
 
-    /** Where kept replies are made durable; completes once the record is written. */
+    /** Where kept replies are made durable. */
     @FunctionalInterface
     interface ReplyLog {
-        CompletableFuture<?> record(String vehicleId, byte[] storedReply);
+        /**
+         * Records a kept reply.
+         *
+         * @param keep called with the record's sequence number once it is durable (-1 when replies are
+         *             not journaled), and only then: it puts the reply in the store
+         * @return completes once the record is durable and {@code keep} has run, or exceptionally when it
+         *         could not be written (then {@code keep} is not called)
+         */
+        CompletableFuture<?> record(String vehicleId, byte[] storedReply, LongConsumer keep);
 
         /** Keeps replies in memory only. */
-        ReplyLog NONE = (vehicleId, reply) -> CompletableFuture.completedFuture(null);
+        ReplyLog NONE = (vehicleId, reply, keep) -> {
+            keep.accept(-1);
+            return CompletableFuture.completedFuture(null);
+        };
     }
 
     /**
@@ -200,13 +221,15 @@ final class SampleIngest {
                     MessageDigest digest = sha256();
                     byte[] reply = read(post, digest);
                     IdempotentReplies.Stored stored = new IdempotentReplies.Stored(id, key, digest.digest(), reply,
-                            wallMillis.getAsLong());
+                            wallMillis.getAsLong(), -1);
                     try {
-                        SessionLog.await(replyLog.record(id, stored.encode()));
+                        // Kept as the record becomes durable, not after: a snapshot then either finds the
+                        // reply in the store or leaves its record to be read again at the next start.
+                        SessionLog.await(replyLog.record(id, stored.encode(),
+                                seq -> replies.put(stored.withJournalSeq(seq))));
                     } catch (IOException e) {
                         throw HttpProblem.journalUnavailable();
                     }
-                    replies.put(stored);
                     return new Outcome(reply, false);
                 }
             } finally {
@@ -256,6 +279,15 @@ final class SampleIngest {
      */
     private byte[] read(Post post, MessageDigest digest) {
         Batch batch = new Batch(post.vehicleId());
+        try {
+            return read(post, digest, batch);
+        } finally {
+            // Whatever ended the request, no submitted chunk is left queued on the session unapplied.
+            batch.close();
+        }
+    }
+
+    private byte[] read(Post post, MessageDigest digest, Batch batch) {
         try {
             InputStream in = received(post);
             if (digest != null) {
@@ -309,20 +341,26 @@ final class SampleIngest {
         }
     }
 
-    /** Collects lines, submits full chunks and keeps the tallies of one request. */
-    private final class Batch implements SampleSink {
+    /** A chunk handed to the session, with what its tally needs once it is applied. */
+    private record Submitted(SessionRegistry.Submission submission, SampleType[] types, long[] lines) {
+    }
+
+    /**
+     * Collects lines, submits full chunks and keeps the tallies of one request. Closing it waits for every
+     * chunk submitted, so that none is left queued on the session whatever ends the request.
+     */
+    private final class Batch implements SampleSink, AutoCloseable {
         private final String vehicleId;
         private final int maxListed = ingestLimits.maxListedRejections();
-        private final List<SessionRegistry.Submission> submitted = new ArrayList<>();
+        private final List<Submitted> submitted = new ArrayList<>();
         private final List<Sample> chunk = new ArrayList<>(CHUNK_SAMPLES);
         private final long[] chunkLines = new long[CHUNK_SAMPLES];
         /**
-         * Rejections since the last flush that may still be listed. The reader reports lines in order,
-         * so once this holds as many as there is room left in the listing, a later line can never be
-         * among the first listed; those are only counted.
+         * Rejections that may still be among the first {@code ingest.max_listed_rejections} in line order.
+         * A chunk's own rejections (late, ahead) arrive once it is durable and applied, after later lines
+         * were read, so this is trimmed to the lowest lines from time to time rather than kept in order.
          */
         private final List<LineError> pending = new ArrayList<>();
-        private final List<LineError> listed = new ArrayList<>();
         private long samplesRead;
         long accepted;
         long duplicates;
@@ -358,31 +396,33 @@ final class SampleIngest {
         public void reject(LineError e) {
             rejectedCount++;
             metrics.rejected(null, e.reason());
-            if (pending.size() < maxListed - listed.size()) {
+            // The reader reports lines in order, and every chunk submitted holds earlier lines: once
+            // as many are held as can be listed, this later line can never be among the first listed.
+            if (pending.size() < maxListed) {
                 pending.add(e);
             }
         }
 
         void flush() {
             if (!chunk.isEmpty()) {
+                SampleType[] types = new SampleType[chunk.size()];
+                for (int i = 0; i < types.length; i++) {
+                    types[i] = chunk.get(i).type();
+                }
                 SessionRegistry.Submission s = sessions.submit(vehicleId, chunk);
-                submitted.add(s);
+                submitted.add(new Submitted(s, types, Arrays.copyOf(chunkLines, types.length)));
                 // Charged once the session exists: a vehicle refused at server.max_sessions gets no bucket.
                 rate.charge(vehicleId, chunk.size());
                 if (sessions.find(vehicleId).isEmpty()) {
                     // Deleted meanwhile: its bucket must not outlive it.
                     rate.forget(vehicleId);
                 }
-                tally(s.admissions());
                 chunk.clear();
-            }
-            pending.sort(Comparator.comparingLong(LineError::line));
-            for (LineError e : pending) {
-                if (listed.size() < maxListed) {
-                    listed.add(e);
+                if (submitted.size() > CHUNKS_IN_FLIGHT) {
+                    awaitUntilWaiting(CHUNKS_IN_FLIGHT);
                 }
             }
-            pending.clear();
+            keepFirstRejections();
         }
 
         /** Submits what was read and waits until it is durable: before a problem reply. */
@@ -392,28 +432,67 @@ final class SampleIngest {
         }
 
         /**
-         * Waits until every chunk submitted so far is in the journal: no reply, success or problem,
-         * reports samples as accepted before they are durable. A chunk the journal could not write
-         * turns the reply into 503.
+         * Keeps the {@code ingest.max_listed_rejections} rejections with the lowest line numbers seen so far
+         * (chunks report theirs once applied, after later lines were read), in bounded memory.
          */
-        void awaitRecorded() {
-            for (SessionRegistry.Submission s : submitted) {
-                try {
-                    s.awaitRecorded();
-                } catch (IOException e) {
-                    throw HttpProblem.journalUnavailable();
-                }
+        private void keepFirstRejections() {
+            if (pending.size() > 2 * maxListed) {
+                pending.sort(Comparator.comparingLong(LineError::line));
+                pending.subList(maxListed, pending.size()).clear();
             }
-            submitted.clear();
         }
 
-        private void tally(List<Admission> admissions) {
+        /**
+         * Waits until every chunk submitted so far is durable and applied, and tallies it: no reply,
+         * success or problem, reports samples as accepted before they are durable. A chunk the journal
+         * could not write (not applied) turns the reply into 503, and so does a vehicle quarantined
+         * meanwhile; every chunk is waited for first.
+         */
+        void awaitRecorded() {
+            awaitUntilWaiting(0);
+        }
+
+        /**
+         * Waits for the oldest chunks, and tallies them, until at most {@code left} are still waiting;
+         * after a failure, waits for every chunk (so none is left queued unapplied) and throws the first
+         * problem.
+         */
+        private void awaitUntilWaiting(int left) {
+            RuntimeException problem = null;
+            while (submitted.size() > (problem == null ? left : 0)) {
+                Submitted s = submitted.remove(0);
+                try {
+                    tally(s, s.submission().admissions());
+                } catch (IOException e) {
+                    problem = problem != null ? problem : HttpProblem.journalUnavailable();
+                } catch (RuntimeException e) {
+                    problem = problem != null ? problem : e;
+                }
+            }
+            keepFirstRejections();
+            if (problem != null) {
+                throw problem;
+            }
+        }
+
+        @Override
+        public void close() {
+            if (!submitted.isEmpty()) {
+                try {
+                    awaitRecorded();
+                } catch (RuntimeException e) {
+                    // The request already ends with another problem.
+                }
+            }
+        }
+
+        private void tally(Submitted chunkOf, List<Admission> admissions) {
             SampleType[] types = SampleType.values();
             long[] byTypeAccepted = new long[types.length];
             long[] byTypeDuplicate = new long[types.length];
             for (int i = 0; i < admissions.size(); i++) {
                 Admission a = admissions.get(i);
-                SampleType type = chunk.get(i).type();
+                SampleType type = chunkOf.types()[i];
                 switch (a.kind()) {
                     case APPLIED -> {
                         accepted++;
@@ -426,7 +505,7 @@ final class SampleIngest {
                     }
                     case REJECTED -> {
                         rejectedCount++;
-                        pending.add(new LineError(chunkLines[i], a.reason(), a.detail()));
+                        pending.add(new LineError(chunkOf.lines()[i], a.reason(), a.detail()));
                         metrics.rejected(type, a.reason());
                     }
                 }
@@ -438,6 +517,8 @@ final class SampleIngest {
         }
 
         byte[] reply() {
+            pending.sort(Comparator.comparingLong(LineError::line));
+            List<LineError> listed = pending.subList(0, Math.min(pending.size(), maxListed));
             return PoseJson.document(128 + 112 * listed.size(), g -> {
                 g.writeStartObject();
                 g.writeNumberField("accepted", accepted);

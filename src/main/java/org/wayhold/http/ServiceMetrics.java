@@ -39,7 +39,8 @@ import org.wayhold.session.VehicleSession;
  *       {@code unknown} because the line never became a sample - {@code late} or {@code ahead} (outside
  *       the session's time-ordering window), or {@code off_timeline} (far from the other times of a
  *       vehicle's first batch);</li>
- *   <li>{@code wayhold_sessions}: vehicle sessions held;</li>
+ *   <li>{@code wayhold_sessions}: vehicle sessions held; {@code wayhold_sessions_quarantined}: those
+ *       held apart because their state could not be trusted;</li>
  *   <li>{@code wayhold_outages_active}: sessions whose latest pose is in a GNSS outage;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
  *   <li>{@code wayhold_http_request_seconds{method, route, status}}: request latency, with a histogram;</li>
@@ -47,9 +48,10 @@ import org.wayhold.session.VehicleSession;
  *   <li>with a journal ({@code serve --data DIR}): {@code wayhold_journal_records_written_total} and
  *       {@code wayhold_journal_written_bytes_total} (batches and deletions written by this process),
  *       {@code wayhold_journal_snapshots_total}, {@code wayhold_journal_snapshot_failures_total},
- *       {@code wayhold_journal_last_snapshot_age_seconds} (NaN before this process's first snapshot) and
- *       {@code wayhold_journal_write_failed} (1 once a write failed: writes are then refused until a
- *       restart);</li>
+ *       {@code wayhold_journal_last_snapshot_age_seconds} (NaN before this process's first snapshot),
+ *       {@code wayhold_journal_write_failed} (1 while writes fail and batches are refused) and
+ *       {@code wayhold_journal_recovery_lost_ranges} (ranges of records the last start could not
+ *       restore);</li>
  *   <li>the JVM and the process, from Micrometer's binders: {@code jvm_memory_*}, {@code jvm_gc_*},
  *       {@code jvm_threads_*}, {@code jvm_classes_*}, {@code jvm_info}, {@code process_cpu_usage},
  *       {@code process_uptime_seconds}, {@code process_files_open_files}, {@code system_cpu_*}.</li>
@@ -70,6 +72,9 @@ final class ServiceMetrics implements AutoCloseable {
     ServiceMetrics(SessionRegistry sessions, PoseStreams streams, Optional<SessionJournal> journal) {
         Gauge.builder("wayhold.sessions", sessions, SessionRegistry::size)
                 .description("vehicle sessions held").register(registry);
+        Gauge.builder("wayhold.sessions.quarantined", sessions,
+                r -> r.sessions().stream().filter(s -> s.quarantineReason().isPresent()).count())
+                .description("vehicle sessions quarantined (their requests are answered 503)").register(registry);
         Gauge.builder("wayhold.outages.active", sessions, ServiceMetrics::activeOutages)
                 .description("sessions whose latest pose is in a GNSS outage").register(registry);
         Gauge.builder("wayhold.sse.clients", streams, PoseStreams::openCount)
@@ -104,8 +109,12 @@ final class ServiceMetrics implements AutoCloseable {
         Gauge.builder("wayhold.journal.last.snapshot.age", j, x -> x.status().lastSnapshotAgeS()).baseUnit("seconds")
                 .description("wall time since this process's last snapshot (NaN before the first)")
                 .register(registry);
-        Gauge.builder("wayhold.journal.write.failed", j, x -> x.status().failure() == null ? 0 : 1)
-                .description("1 once a journal write failed: writes are refused until a restart").register(registry);
+        Gauge.builder("wayhold.journal.write.failed", j, x -> x.status().writable() ? 0 : 1)
+                .description("1 while journal writes fail and batches are refused (they resume by themselves once"
+                        + " the journal can write)").register(registry);
+        Gauge.builder("wayhold.journal.recovery.lost.ranges", j, x -> x.recovery().lost().size())
+                .description("ranges of journal records the last start could not restore (0 when nothing was lost)")
+                .register(registry);
     }
 
     /** Stops listening to the JVM's garbage collector. */

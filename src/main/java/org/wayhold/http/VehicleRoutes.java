@@ -56,6 +56,7 @@ final class VehicleRoutes {
 
     void postSamples(Context ctx) {
         String id = vehicleId(ctx);
+        sessions.find(id).ifPresent(e -> refuseIfQuarantined(id, e.session()));
         SampleIngest.Format format = SampleIngest.formatOf(ctx.header("Content-Type"));
         SampleIngest.Encoding encoding = SampleIngest.encodingOf(ctx.header("Content-Encoding"));
         String key = idempotencyKey(ctx.header(IDEMPOTENCY_KEY));
@@ -269,10 +270,15 @@ final class VehicleRoutes {
                 Optional<Pose> latest = s.latest();
                 g.writeStartObject();
                 g.writeStringField("vehicle", s.vehicleId());
+                Optional<String> quarantined = s.quarantineReason();
                 SessionStats stats = s.stats();
                 g.writeNumberField("samples", stats.wheelSpeedApplied() + stats.yawRateApplied() + stats.gnssApplied()
                         + stats.referenceApplied());
-                if (latest.isPresent()) {
+                if (quarantined.isPresent()) {
+                    // Its state is not to be trusted: no pose, only that it is held apart and why.
+                    g.writeStringField("quarantined", quarantined.get());
+                }
+                if (latest.isPresent() && quarantined.isEmpty()) {
                     Pose p = latest.get();
                     g.writeStringField("state", p.state().wireName());
                     PoseJson.number(g, "t", p.t());
@@ -300,8 +306,18 @@ final class VehicleRoutes {
         ctx.contentType("application/json").result(json);
     }
 
+    /** The vehicle's session; 404 when it has none, 503 when it is quarantined. */
     private SessionRegistry.Entry entry(String id) {
-        return sessions.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
+        SessionRegistry.Entry e = sessions.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
+        refuseIfQuarantined(id, e.session());
+        return e;
+    }
+
+    private static void refuseIfQuarantined(String id, VehicleSession session) {
+        Optional<String> reason = session.quarantineReason();
+        if (reason.isPresent()) {
+            throw HttpProblem.vehicleQuarantined(id, reason.get());
+        }
     }
 
     String vehicleId(Context ctx) {

@@ -1,21 +1,25 @@
 package org.wayhold.journal;
 
 import java.io.ByteArrayInputStream;
-import java.io.ByteArrayOutputStream;
 import java.io.Closeable;
 import java.io.DataInputStream;
-import java.io.DataOutputStream;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Path;
+import java.util.ArrayDeque;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.List;
-import java.util.OptionalLong;
+import java.util.LinkedHashMap;
+import java.util.Map;
+import java.util.Set;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.Executors;
 import java.util.concurrent.ScheduledExecutorService;
 import java.util.concurrent.TimeUnit;
-import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.function.LongConsumer;
+import java.util.function.Supplier;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.geo.Geodetic;
@@ -23,6 +27,7 @@ import org.wayhold.sample.Sample;
 import org.wayhold.session.SessionLimitException;
 import org.wayhold.session.SessionLog;
 import org.wayhold.session.SessionRegistry;
+import org.wayhold.session.VehicleQuarantinedException;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.Settings;
@@ -36,11 +41,21 @@ import org.wayhold.settings.Settings;
  * last snapshot and closes the journal once serving has stopped.
  *
  * <p>Why recovery is exact: the registry records each batch exactly as it handed it to
- * {@link VehicleSession#submit}, under the session's lock, so the journal holds each vehicle's batches in
- * application order; a session is deterministic, so applying the same batches to its snapshot rebuilds
- * the same state. A snapshot captures each session under its lock together with the journal's next
- * sequence at that moment: every earlier record of that vehicle is in the captured state and every
+ * {@link VehicleSession#submit}, under the session's lock, and the session applies it only once the
+ * record is durable, in the order recorded (write-ahead); so the journal holds each vehicle's batches
+ * in application order, and a session is deterministic, so applying the same batches to its snapshot
+ * rebuilds the same state. A snapshot captures each session under its lock with the sequence number of
+ * the last record it applied: every earlier record of that vehicle is in the captured state and every
  * later one is not.
+ *
+ * <p>Replies kept for retries ({@link #recordReply}) ride along: they are no session state, but a
+ * snapshot carries those still kept ({@link #keepRepliesFrom}) and recovery hands back those of the
+ * snapshot and of the records after it ({@link #recoveredReplies}), so a kept reply outlives the segments
+ * a start no longer reads.
+ *
+ * <p>Faults: a vehicle whose snapshot entry or journal records cannot be applied is quarantined and
+ * every other vehicle is restored; a snapshot that fails for any reason (even running out of memory) is
+ * reported in {@link #status()} and the log and tried again at the next interval.
  *
  * <p>Thread-safety: all methods may be called from any thread; snapshots are serialised.
  */
@@ -49,35 +64,42 @@ public final class SessionJournal implements Closeable {
     /**
      * What the journal is doing, for an admin view.
      *
-     * @param failure           kind of the write failure that stopped the journal (the log has the
+     * @param writable          true while batches are written (false while a write failure lasts)
+     * @param failure           kind of the write failure that makes writes refused now (the log has the
      *                          cause), or null
+     * @param failedForS        wall time since writes started being refused (s), NaN while they are not
+     * @param writeFailures     times writes started being refused since the start (count)
+     * @param snapshotFailures  snapshots that failed since the start (count)
      * @param lastSnapshotAgeS  wall time since the last snapshot of this process (s), NaN before the first
-     * @param lastSnapshotError the last periodic snapshot's failure, or null when it succeeded
+     * @param lastSnapshotError the last snapshot's failure, or null when it succeeded
      */
-    public record Status(Path dir, boolean writable, String failure, Journal.RecoveryReport recovery,
-                         long nextSeq, long snapshotsWritten, double lastSnapshotAgeS, String lastSnapshotError) {
+    public record Status(Path dir, boolean writable, String failure, double failedForS, long writeFailures,
+                         Journal.RecoveryReport recovery, long nextSeq, long snapshotsWritten, long snapshotFailures,
+                         double lastSnapshotAgeS, String lastSnapshotError) {
     }
 
-    /** A reply kept for retries that recovery found in the journal ({@link #recordReply}). */
-    public record RecoveredReply(String vehicleId, byte[] reply) {
-    }
+    private static final Logger LOG = LoggerFactory.getLogger(SessionJournal.class);
+
+    /** Where snapshots take kept replies from until {@link #keepRepliesFrom} is called: nowhere. */
+    private static final Supplier<List<Journal.KeptReply>> NO_REPLIES = List::of;
 
     private final Path dir;
     private final JournalSettings settings;
     private final Journal journal;
     private final SessionRegistry sessions;
     private final Journal.RecoveryReport recovery;
-    private final List<RecoveredReply> recoveredReplies;
+    private final List<Journal.KeptReply> recoveredReplies;
+    private volatile Supplier<List<Journal.KeptReply>> keptReplies = NO_REPLIES;
     private final Object snapshotLock = new Object();
     private ScheduledExecutorService snapshots;
     private volatile long snapshotsWritten;
-    private final java.util.concurrent.atomic.AtomicLong snapshotFailures = new java.util.concurrent.atomic.AtomicLong();
+    private final AtomicLong snapshotFailures = new AtomicLong();
     private volatile long lastSnapshotNanos;
     private volatile String lastSnapshotError;
     private volatile boolean closed;
 
     private SessionJournal(Path dir, JournalSettings settings, Journal journal, SessionRegistry sessions,
-                           Journal.RecoveryReport recovery, List<RecoveredReply> recoveredReplies) {
+                           Journal.RecoveryReport recovery, List<Journal.KeptReply> recoveredReplies) {
         this.dir = dir;
         this.settings = settings;
         this.journal = journal;
@@ -86,27 +108,39 @@ public final class SessionJournal implements Closeable {
         this.recoveredReplies = recoveredReplies;
     }
 
+    /** {@link #open(Path, Settings, Geodetic, JournalFiles)} on the operating system's file system. */
+    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin) throws IOException {
+        return open(dir, settings, configuredOrigin, JournalFiles.SYSTEM);
+    }
+
     /**
-     * Opens the journal in {@code dir} (created when absent), restores every session it holds into a new
-     * registry and makes that registry record into it.
+     * Opens the journal in {@code dir} (created when absent; its lock is taken, so a second service on
+     * the same directory is refused), restores every session it holds into a new registry and makes that
+     * registry record into it.
      *
      * @param settings         the sessions' settings; {@code journal} configures the files
      * @param configuredOrigin ENU origin for every session instead of its first fix, or null
-     * @throws IOException when the directory cannot be read or written, or a snapshot does not fit these
-     *                     settings
+     * @param files            how the journal writes its files (tests inject failures here)
+     * @throws IOException when the directory cannot be read or written, another service holds it, or it
+     *                     holds more sessions than {@code server.max_sessions}
      */
-    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin) throws IOException {
-        Journal journal = Journal.open(dir, settings.journal());
-        AtomicBoolean failureLogged = new AtomicBoolean();
+    public static SessionJournal open(Path dir, Settings settings, Geodetic configuredOrigin, JournalFiles files)
+            throws IOException {
+        Journal journal = Journal.open(dir, settings.journal(), files);
         SessionRegistry sessions = new SessionRegistry(settings, configuredOrigin, new SessionLog() {
             @Override
-            public CompletableFuture<?> batch(String vehicleId, List<? extends Sample> samples) {
-                return logFirstFailure(journal.append(vehicleId, samples), failureLogged);
+            public CompletableFuture<Long> batch(String vehicleId, List<? extends Sample> samples) {
+                return journal.append(vehicleId, samples);
             }
 
             @Override
-            public CompletableFuture<?> delete(String vehicleId) {
-                return logFirstFailure(journal.appendDelete(vehicleId), failureLogged);
+            public CompletableFuture<Long> delete(String vehicleId) {
+                return journal.appendDelete(vehicleId);
+            }
+
+            @Override
+            public long nextSequence() {
+                return journal.nextSeq();
             }
         });
         Journal.RecoveryReport report;
@@ -125,50 +159,47 @@ public final class SessionJournal implements Closeable {
         return new SessionJournal(dir, settings.journal(), journal, sessions, report, restorer.replies().list());
     }
 
-    private static final Logger LOG = LoggerFactory.getLogger(SessionJournal.class);
-
-    /** Logs the journal's first write failure with its cause; every later append fails the same way. */
-    private static CompletableFuture<Long> logFirstFailure(CompletableFuture<Long> appended, AtomicBoolean logged) {
-        appended.whenComplete((seq, error) -> {
-            if (error != null && logged.compareAndSet(false, true)) {
-                LOG.error("journal: a write failed; writes are refused with 503 until a restart", error);
-            }
-        });
-        return appended;
-    }
-
     /**
-     * Replies found by recovery, in journal order, dropped when their vehicle's deletion follows and,
-     * oldest first, beyond a byte bound (the service keeps no more than that anyway).
+     * Replies found by recovery, oldest first: each once (the snapshot and a record after it may both
+     * hold one), without those a later deletion of their vehicle voids and, oldest first, beyond a byte
+     * bound (the service keeps no more than that anyway).
      */
-    private static final class Replies {
+    static final class Replies {
         private final long maxBytes;
-        private final java.util.ArrayDeque<RecoveredReply> kept = new java.util.ArrayDeque<>();
+        private final ArrayDeque<Journal.KeptReply> kept = new ArrayDeque<>();
+        private final Set<Long> seqs = new HashSet<>();
         private long bytes;
 
         Replies(long maxBytes) {
             this.maxBytes = maxBytes;
         }
 
-        void add(RecoveredReply r) {
+        void add(Journal.KeptReply r) {
+            if (!seqs.add(r.seq())) {
+                return;
+            }
             kept.addLast(r);
             bytes += r.reply().length;
             while (bytes > maxBytes && !kept.isEmpty()) {
-                bytes -= kept.pollFirst().reply().length;
+                Journal.KeptReply oldest = kept.pollFirst();
+                bytes -= oldest.reply().length;
+                seqs.remove(oldest.seq());
             }
         }
 
-        void voidVehicle(String vehicleId) {
+        /** Drops the vehicle's replies recorded before its deletion, record {@code seq}. */
+        void voidVehicle(String vehicleId, long seq) {
             kept.removeIf(r -> {
-                boolean drop = r.vehicleId().equals(vehicleId);
+                boolean drop = r.vehicleId().equals(vehicleId) && r.seq() < seq;
                 if (drop) {
                     bytes -= r.reply().length;
+                    seqs.remove(r.seq());
                 }
                 return drop;
             });
         }
 
-        List<RecoveredReply> list() {
+        List<Journal.KeptReply> list() {
             return List.copyOf(kept);
         }
     }
@@ -177,48 +208,67 @@ public final class SessionJournal implements Closeable {
     private record Restorer(SessionRegistry sessions, Replies replies) implements Journal.RecoveryTarget {
 
         @Override
-        public void reply(String vehicleId, byte[] reply) {
-            replies.add(new RecoveredReply(vehicleId, reply));
+        public void reply(Journal.KeptReply reply) {
+            replies.add(reply);
         }
 
         @Override
-        public void repliesVoided(String vehicleId) {
-            replies.voidVehicle(vehicleId);
+        public void repliesVoided(String vehicleId, long seq) {
+            replies.voidVehicle(vehicleId, seq);
         }
 
         @Override
-        public void restore(String vehicleId, byte[] snapshot) {
+        public void restore(String vehicleId, byte[] snapshot) throws IOException {
+            restore(vehicleId, snapshot, -1);
+        }
+
+        @Override
+        public void restore(String vehicleId, byte[] snapshot, long lastSeq) throws IOException {
+            // A fresh session: an earlier attempt for this vehicle may have left a partial one.
+            sessions.remove(vehicleId);
+            VehicleSession s = create(vehicleId);
             try {
-                VehicleSession s = sessions.getOrCreate(vehicleId).session();
-                s.readSnapshot(new DataInputStream(new ByteArrayInputStream(snapshot)));
+                s.readSnapshot(new DataInputStream(new ByteArrayInputStream(snapshot)), lastSeq);
             } catch (IOException e) {
-                // Not an IOException on purpose: the journal would fall back to an older snapshot on top of
-                // the sessions already restored from this one. A snapshot whose bytes passed their
-                // checksum but do not fit the session is a settings or version mismatch: stop and say so.
-                throw new UncheckedIOException(new IOException("snapshot of vehicle '" + vehicleId
-                        + "' does not fit this version or these settings: " + e.getMessage(), e));
-            } catch (SessionLimitException e) {
-                throw tooMany(e);
+                // Bytes that passed their checksum but do not make this vehicle's session (a settings or
+                // version mismatch, a defect): recovery rebuilds it another way or quarantines it.
+                sessions.remove(vehicleId);
+                throw e;
             }
         }
 
-        private static UncheckedIOException tooMany(SessionLimitException e) {
-            return new UncheckedIOException(new IOException("the journal holds more sessions than "
-                    + "server.max_sessions allows (" + e.getMessage() + "); raise the limit to restore them", e));
+        private VehicleSession create(String vehicleId) {
+            try {
+                return sessions.getOrCreate(vehicleId).session();
+            } catch (SessionLimitException e) {
+                // Not a fault of the data but of the settings: stop and say so.
+                throw new UncheckedIOException(new IOException("the journal holds more sessions than "
+                        + "server.max_sessions allows (" + e.getMessage() + "); raise the limit to restore them", e));
+            }
         }
 
         @Override
         public void replay(String vehicleId, List<Sample> batch, long seq) {
+            VehicleSession s = create(vehicleId);
+            if (s.quarantineReason().isPresent()) {
+                return;
+            }
             try {
-                sessions.getOrCreate(vehicleId).session().submit(batch);
-            } catch (SessionLimitException e) {
-                throw tooMany(e);
+                s.replay(batch, seq);
+            } catch (VehicleQuarantinedException e) {
+                LOG.error("journal: vehicle '{}' quarantined while its journal was replayed: {}", vehicleId,
+                        e.reason(), e.getCause());
             }
         }
 
         @Override
         public void delete(String vehicleId, long seq) {
             sessions.remove(vehicleId);
+        }
+
+        @Override
+        public void quarantine(String vehicleId, String reason) {
+            create(vehicleId).quarantine(reason);
         }
     }
 
@@ -227,29 +277,47 @@ public final class SessionJournal implements Closeable {
         return sessions;
     }
 
-    /**
-     * Records a reply that the service keeps for retries of a vehicle's request, so that it survives a
-     * restart ({@link #recoveredReplies}); the future completes once it is durable. Call after the
-     * request's batches were recorded.
-     */
-    public CompletableFuture<?> recordReply(String vehicleId, byte[] reply) {
-        return journal.appendReply(vehicleId, reply);
-    }
-
-    /**
-     * The replies recorded by {@link #recordReply} that the journal still holds, oldest first, without
-     * those of vehicles deleted after them; at most {@code ingest.idempotency_max_bytes} of them.
-     */
-    public List<RecoveredReply> recoveredReplies() {
-        return recoveredReplies;
-    }
-
-    /** What {@link #open} restored and cut. */
+    /** What {@link #open} restored, read around and lost. */
     public Journal.RecoveryReport recovery() {
         return recovery;
     }
 
-    /** Starts snapshots every {@code journal.snapshot_interval_s} of wall time on a background thread. */
+    /**
+     * Records a reply that the service keeps for retries of a vehicle's request, so that it survives a
+     * restart ({@link #recoveredReplies}). Call after the request's batches were recorded.
+     *
+     * @param keep called with the record's sequence number once it is durable, before the journal
+     *             counts it as written: it must put the reply where {@link #keepRepliesFrom}'s source
+     *             finds it, so that a snapshot either carries the reply or recovery reads its record
+     * @return completes once the reply is durable and {@code keep} has run
+     */
+    public CompletableFuture<Long> recordReply(String vehicleId, byte[] reply, LongConsumer keep) {
+        return journal.appendReply(vehicleId, reply, keep);
+    }
+
+    /**
+     * The replies that recovery found (those of the snapshot, then the records after it), oldest
+     * first, without those of vehicles deleted after them; at most {@code ingest.idempotency_max_bytes}
+     * of them.
+     */
+    public List<Journal.KeptReply> recoveredReplies() {
+        return recoveredReplies;
+    }
+
+    /**
+     * Where snapshots take the replies kept for retries (oldest first, each with the sequence number
+     * of its record); none until this is called.
+     */
+    public void keepRepliesFrom(Supplier<List<Journal.KeptReply>> source) {
+        keptReplies = source;
+    }
+
+    /**
+     * Starts snapshots every {@code journal.snapshot_interval_s} of wall time on a background thread,
+     * the first one at once when this start had to replay journal records: a service that crashes
+     * more often than the interval would otherwise never write a snapshot, and replay a longer journal
+     * at every start.
+     */
     public synchronized void startSnapshots() {
         if (snapshots != null || closed) {
             return;
@@ -260,51 +328,67 @@ public final class SessionJournal implements Closeable {
             return t;
         });
         long periodMs = Math.max(1, Math.round(settings.snapshotIntervalS() * 1000.0));
-        snapshots.scheduleWithFixedDelay(this::snapshotQuietly, periodMs, periodMs, TimeUnit.MILLISECONDS);
-    }
-
-    private void snapshotQuietly() {
-        try {
-            snapshot();
-        } catch (IOException | RuntimeException e) {
-            // The journal still holds everything; only the bound on replay time is lost until the next one.
-            lastSnapshotError = e.toString();
-            snapshotFailures.incrementAndGet();
-        }
+        long firstMs = recovery.recordsReplayed() > 0 ? 0 : periodMs;
+        snapshots.scheduleWithFixedDelay(this::snapshotQuietly, firstMs, periodMs, TimeUnit.MILLISECONDS);
     }
 
     /**
-     * Writes a snapshot of every session now and lets the journal drop segments it makes unnecessary.
+     * One scheduled snapshot. Whatever it throws is caught, even an Error such as running out of memory:
+     * a scheduled task that throws is never run again, and the journal still holds everything, so only
+     * the bound on replay time is lost until the next snapshot succeeds.
+     */
+    private void snapshotQuietly() {
+        try {
+            snapshot();
+        } catch (Throwable e) {
+            snapshotFailed(e);
+        }
+    }
+
+    private void snapshotFailed(Throwable e) {
+        lastSnapshotError = e.toString();
+        snapshotFailures.incrementAndGet();
+        LOG.error("journal {}: a snapshot failed, tried again in {} s (the journal still holds everything)", dir,
+                settings.snapshotIntervalS(), e);
+    }
+
+    /**
+     * Writes a snapshot of every session now, streamed to disk one session at a time, and lets the
+     * journal drop segments it makes unnecessary.
      *
      * @return the number of sessions in the snapshot
      */
     public int snapshot() throws IOException {
         synchronized (snapshotLock) {
-            // Read first: any record numbered below it belongs to a session captured below, or to a session
-            // deleted before it was captured (whose deletion record then comes later).
+            // Read first: any record numbered below it belongs to a session captured below (applied, or
+            // numbered above what it applied), or to a session deleted before it was captured.
             long floor = journal.nextSeq();
-            List<Journal.SessionSnapshot> captured = new ArrayList<>();
+            // Every record below it is written or refused: a session captured below holds its own.
+            long firstPending = journal.firstPendingSeq();
+            Map<String, VehicleSession> byId = new LinkedHashMap<>();
             for (VehicleSession s : sessions.sessions()) {
-                String id = s.vehicleId();
-                ByteArrayOutputStream bytes = new ByteArrayOutputStream(64 * 1024);
-                // Every record of this vehicle so far was queued under the session's lock, so it is numbered
-                // below the number read under it; every later one will be numbered at or above it.
-                OptionalLong at = s.writeSnapshot(new DataOutputStream(bytes), () -> journal.nextSeq() - 1);
-                if (at.isEmpty()) {
-                    continue;
-                }
-                long lastSeq = at.getAsLong();
-                captured.add(new Journal.SessionSnapshot(id, lastSeq, bytes.toByteArray()));
+                byId.put(s.vehicleId(), s);
             }
-            journal.writeSnapshot(floor, captured);
+            // Read after firstPending: a reply whose record is numbered below it was kept before (see
+            // recordReply); one numbered from it on is read again from its record at recovery.
+            List<Journal.KeptReply> replies = keptReplies.get();
+            int[] written = new int[1];
+            journal.writeSnapshot(floor, firstPending, new ArrayList<>(byId.keySet()), (id, out) -> {
+                VehicleSession.Captured c = byId.get(id).writeSnapshot(out);
+                if (c == null) {
+                    return null;
+                }
+                written[0]++;
+                return new Journal.SnapshotEntry(c.lastSeq(), c.quarantineReason());
+            }, replies);
             snapshotsWritten++;
             lastSnapshotNanos = System.nanoTime();
             lastSnapshotError = null;
-            return captured.size();
+            return written[0];
         }
     }
 
-    /** Records this process has written to the journal (batches and deletions), for metrics. */
+    /** Records this process has written to the journal (batches, deletions and kept replies), for metrics. */
     public long recordsWritten() {
         return journal.recordsWritten();
     }
@@ -314,7 +398,7 @@ public final class SessionJournal implements Closeable {
         return journal.bytesWritten();
     }
 
-    /** Periodic snapshots that failed since the start (each is retried at the next interval). */
+    /** Snapshots that failed since the start (each is retried at the next interval). */
     public long snapshotFailures() {
         return snapshotFailures.get();
     }
@@ -323,15 +407,17 @@ public final class SessionJournal implements Closeable {
     public Status status() {
         IOException failure = journal.failure().orElse(null);
         long last = lastSnapshotNanos;
-        return new Status(dir, failure == null && !closed, failure == null ? null : failure.getClass().getSimpleName(),
-                recovery,
-                journal.nextSeq(), snapshotsWritten, snapshotsWritten == 0 ? Double.NaN
-                : (System.nanoTime() - last) / 1e9, lastSnapshotError);
+        return new Status(dir, journal.writable() && !closed,
+                failure == null ? (closed ? "closed" : null) : failure.getClass().getSimpleName(),
+                journal.failedForS(), journal.writeFailures(), recovery, journal.nextSeq(), snapshotsWritten,
+                snapshotFailures.get(), snapshotsWritten == 0 ? Double.NaN : (System.nanoTime() - last) / 1e9,
+                lastSnapshotError);
     }
 
     /**
-     * Stops the snapshots, takes a last one (so the next start replays nothing) unless the journal has
-     * failed, and closes the journal. Call after serving has stopped.
+     * Stops the snapshots, takes a last one (so the next start replays nothing) and closes the journal,
+     * which releases the directory. Call after serving has stopped. The journal is closed even when the
+     * last snapshot fails; that failure is then thrown.
      */
     @Override
     public void close() throws IOException {
@@ -349,11 +435,12 @@ public final class SessionJournal implements Closeable {
             if (snapshots != null) {
                 snapshots.awaitTermination(30, TimeUnit.SECONDS);
             }
-            if (journal.failure().isEmpty()) {
-                snapshot();
-            }
+            snapshot();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
+        } catch (IOException | RuntimeException | Error e) {
+            snapshotFailed(e);
+            throw e;
         } finally {
             journal.close();
         }

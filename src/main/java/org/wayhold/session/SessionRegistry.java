@@ -32,13 +32,39 @@ public final class SessionRegistry {
     }
 
     /**
-     * What {@link #submit} did: one admission per sample, and the write of the batch to the session log,
-     * which must complete before the batch is acknowledged ({@link #awaitRecorded}).
+     * A batch handed to {@link #submit}: recorded in the session log, and applied to the session once
+     * the record is durable (write-ahead, see {@link VehicleSession}).
      */
-    public record Submission(List<Admission> admissions, CompletableFuture<?> recorded) {
-        /** Waits until the batch is in the session log; IOException when it could not be written. */
+    public final class Submission {
+        private final Entry entry;
+        private final VehicleSession.Applied applied;
+
+        private Submission(Entry entry, VehicleSession.Applied applied) {
+            this.entry = entry;
+            this.applied = applied;
+        }
+
+        /**
+         * Waits until the batch is durable and applied: call it before acknowledging the batch, outside
+         * any lock.
+         *
+         * @return one admission per sample, in the order given
+         * @throws IOException                 when it could not be written; it was not applied
+         * @throws VehicleQuarantinedException when the vehicle's session is quarantined
+         */
+        public List<Admission> admissions() throws IOException {
+            try {
+                return applied.admissions();
+            } catch (IOException e) {
+                // A vehicle's first batch that could not be written leaves no empty session behind.
+                dropIfPristine(entry);
+                throw e;
+            }
+        }
+
+        /** Waits until the batch is durable and applied; see {@link #admissions()}. */
         public void awaitRecorded() throws IOException {
-            SessionLog.await(recorded);
+            admissions();
         }
     }
 
@@ -95,64 +121,94 @@ public final class SessionRegistry {
             if (sessions.size() >= max) {
                 throw new SessionLimitException(max);
             }
-            Entry created = new Entry(new VehicleSession(vehicleId, settings, configuredOrigin),
-                    serials.incrementAndGet());
+            VehicleSession session = new VehicleSession(vehicleId, settings, configuredOrigin);
+            // Every record of the new session will be numbered from here on.
+            session.startAfter(log.nextSequence() - 1);
+            Entry created = new Entry(session, serials.incrementAndGet());
             sessions.put(vehicleId, created);
             return created;
         }
     }
 
     /**
-     * Applies a batch to the vehicle's session (created when absent) and records it in the session log,
-     * both under the session's lock ({@link VehicleSession#submit(List, VehicleSession.BatchRecorder)}), so the log's order per vehicle is the order of application and a
-     * restart that applies the log again rebuilds the same state. The caller waits on
-     * {@link Submission#awaitRecorded} outside any lock before acknowledging.
+     * Records a batch in the session log and queues it on the vehicle's session (created when absent),
+     * under the session's lock ({@link VehicleSession#submit(List, VehicleSession.BatchRecorder)}); it is
+     * applied once the record is durable, so the log's order per vehicle is the order of application and
+     * a restart that applies the log again rebuilds the same state. The caller waits on
+     * {@link Submission#admissions()} outside any lock before acknowledging.
      *
-     * <p>A batch that races a {@link #delete} of its vehicle goes to the session that is registered
-     * once the lock is held, never to a dropped one.
+     * <p>A batch that races a {@link #delete} of its vehicle waits until the deletion is settled and then
+     * goes to the session registered then, never to a dropped one.
      *
-     * @throws SessionLimitException when the vehicle has no session and the registry is full
+     * @throws SessionLimitException       when the vehicle has no session and the registry is full
+     * @throws VehicleQuarantinedException when the vehicle's session is quarantined
      */
     public Submission submit(String vehicleId, List<? extends Sample> batch) {
         while (true) {
             Entry entry = getOrCreate(vehicleId);
             VehicleSession.Applied applied = entry.session().submit(batch, b -> log.batch(vehicleId, b));
             if (applied != null) {
-                return new Submission(applied.admissions(), applied.recorded());
+                return new Submission(entry, applied);
             }
-            // The session was retired by a delete that raced this batch: go to the one registered now.
+            // The session is being deleted: wait until the deletion is durable (then the session is gone)
+            // or has failed (then it takes batches again).
+            entry.session().retirement().join();
         }
     }
 
     /**
-     * Drops the vehicle's session, records the deletion in the session log and tells the removal
-     * listeners; waits (outside the lock) until the deletion is durable.
+     * Records the deletion of the vehicle's session and, once it is durable, drops the session and tells
+     * the removal listeners. Until then the session stays (reads see it; batches wait), and if the
+     * deletion cannot be recorded it stays for good: a deletion answered with an error never takes
+     * effect, before or after a restart.
      *
      * @return true when there was a session to drop
-     * @throws IOException when the deletion could not be recorded (the session is dropped all the same)
+     * @throws IOException when the deletion could not be recorded (the session is kept)
      */
     public boolean delete(String vehicleId) throws IOException {
-        CompletableFuture<?> recorded = null;
-        while (recorded == null) {
+        while (true) {
             Entry entry = sessions.get(vehicleId);
             if (entry == null) {
                 return false;
             }
-            // Logged before the entry leaves the map: a new session of the same id can only be created
-            // afterwards, so its batches follow the deletion in the log. A retired session takes no
-            // more batches, so none can be logged after its deletion.
-            recorded = entry.session().retire(() -> log.delete(vehicleId));
-            if (recorded != null) {
-                synchronized (this) {
-                    sessions.remove(vehicleId, entry);
-                }
+            // Recorded before the entry leaves the map: a new session of the same id can only be created
+            // afterwards, so its batches follow the deletion in the log. A retired session takes no more
+            // batches, so none is recorded after its deletion.
+            CompletableFuture<Long> recorded = entry.session().retire(() -> log.delete(vehicleId));
+            if (recorded == null) {
+                // Another deletion of it is under way: its outcome decides.
+                entry.session().retirement().join();
+                continue;
             }
+            try {
+                SessionLog.await(recorded);
+            } catch (IOException e) {
+                entry.session().settleRetirement(false);
+                throw e;
+            }
+            synchronized (this) {
+                sessions.remove(vehicleId, entry);
+            }
+            entry.session().settleRetirement(true);
+            for (Consumer<String> l : removalListeners) {
+                l.accept(vehicleId);
+            }
+            return true;
         }
+    }
+
+    /** Drops a session that holds nothing: its only batches could not be written. */
+    private void dropIfPristine(Entry entry) {
+        if (!entry.session().retireIfPristine()) {
+            return;
+        }
+        synchronized (this) {
+            sessions.remove(entry.session().vehicleId(), entry);
+        }
+        entry.session().settleRetirement(true);
         for (Consumer<String> l : removalListeners) {
-            l.accept(vehicleId);
+            l.accept(entry.session().vehicleId());
         }
-        SessionLog.await(recorded);
-        return true;
     }
 
     /** The vehicle's session, if it has one. */
@@ -175,6 +231,7 @@ public final class SessionRegistry {
             return false;
         }
         removed.session().retire(() -> SessionLog.DONE);
+        removed.session().settleRetirement(true);
         for (Consumer<String> l : removalListeners) {
             l.accept(vehicleId);
         }

@@ -3,11 +3,13 @@ package org.wayhold.session;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import java.util.ArrayDeque;
 import java.util.List;
 import java.util.Optional;
 import java.util.OptionalLong;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.CopyOnWriteArrayList;
+import java.util.concurrent.ExecutionException;
 import java.util.function.Consumer;
 import java.util.function.LongSupplier;
 import java.util.function.Supplier;
@@ -28,6 +30,21 @@ import org.wayhold.settings.Settings;
  * One vehicle as the service holds it: its {@link VehiclePipeline}, a bounded history of poses and
  * fixes, and listeners of new poses.
  *
+ * <p>Write-ahead: a batch is recorded first and applied only once its record is durable. {@link #submit}
+ * hands the batch to the recorder (the journal) under the session's lock, which numbers it, and queues
+ * it; whoever waits on it ({@link Applied#admissions()}) applies the queued batches whose records are
+ * durable, in the order they were queued, under the lock. A batch whose record failed is dropped
+ * unapplied. So the per-vehicle order of the records is the order of application, and the session never
+ * holds a batch that was not acknowledged: a restart that applies the records again rebuilds exactly
+ * this state, and a batch answered 503 is neither here nor after a restart. (The alternative, applying
+ * first and rolling back when the write fails, would need a copy of the whole state before every batch,
+ * since a late sample re-filters and rewrites the recent history.) Without a journal the recording is
+ * done at once and a batch is applied within {@link #submit}.
+ *
+ * <p>Quarantine: when applying a batch throws, or leaves the filter's state not finite, the session is
+ * quarantined: it keeps the reason, takes no more batches ({@link VehicleQuarantinedException}) and is
+ * shown as such, while every other vehicle goes on. Deleting the vehicle ends it.
+ *
  * <p>Thread-safety: writes and history queries are serialised on a private lock (one writer per
  * vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest. Callers that
  * must record a change in the same order as it is applied (the journal) pass the recording step in,
@@ -35,15 +52,72 @@ import org.wayhold.settings.Settings;
  */
 public final class VehicleSession {
 
-    /** Records an applied batch; runs under the session's lock, must not block on a device. */
+    /** Records a batch before it is applied; runs under the session's lock, must not block on a device. */
     @FunctionalInterface
     public interface BatchRecorder {
-        /** @return completes once the batch is durable */
-        CompletableFuture<?> record(List<? extends Sample> batch);
+        /**
+         * @return completes with the record's sequence number (any negative number when records are not
+         *         numbered) once the batch is durable, or exceptionally when it could not be recorded
+         */
+        CompletableFuture<Long> record(List<? extends Sample> batch);
     }
 
-    /** What {@link #submit} did: one admission per sample, and the recording of the batch. */
-    public record Applied(List<Admission> admissions, CompletableFuture<?> recorded) {
+    /** A batch handed to {@link #submit}: applied once its record is durable. */
+    public static final class Applied {
+        private final VehicleSession session;
+        private final Queued queued;
+
+        private Applied(VehicleSession session, Queued queued) {
+            this.session = session;
+            this.queued = queued;
+        }
+
+        /**
+         * Waits until the batch is recorded and applied.
+         *
+         * @return one admission per sample, in the order given
+         * @throws IOException                 when it could not be recorded; it was not applied
+         * @throws VehicleQuarantinedException when the session was quarantined before or while applying it
+         */
+        public List<Admission> admissions() throws IOException {
+            if (!queued.applied.isDone()) {
+                try {
+                    queued.recorded.get();
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    throw new java.io.InterruptedIOException("interrupted while waiting for the session log");
+                } catch (ExecutionException e) {
+                    // Drained below: the failure reaches the result.
+                }
+                session.drain();
+            }
+            try {
+                return queued.applied.join();
+            } catch (java.util.concurrent.CompletionException e) {
+                Throwable cause = e.getCause();
+                if (cause instanceof IOException io) {
+                    throw io;
+                }
+                if (cause instanceof RuntimeException r) {
+                    throw r;
+                }
+                throw new IOException(String.valueOf(cause), cause);
+            }
+        }
+
+        /** The recording; completes with the record's sequence number once durable. */
+        public CompletableFuture<Long> recorded() {
+            return queued.recorded;
+        }
+    }
+
+    /** A batch waiting for its record to be durable. */
+    private record Queued(List<? extends Sample> samples, CompletableFuture<Long> recorded,
+                          CompletableFuture<List<Admission>> applied) {
+    }
+
+    /** What {@link #writeSnapshot(DataOutput)} wrote: the last record held, or the quarantine reason. */
+    public record Captured(long lastSeq, String quarantineReason) {
     }
 
     /** Version of the layout {@link #writeSnapshot} writes. */
@@ -55,14 +129,23 @@ public final class VehicleSession {
     private final FixLog fixes;
     private final VehiclePipeline pipeline;
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+    private final ArrayDeque<Queued> queue = new ArrayDeque<>();
 
     /** Time of the newest pose given to listeners (s, vehicle clock); not part of the state. */
     private double emittedUpToT = Double.NEGATIVE_INFINITY;
     private Pose lastEmitted;
     private volatile Pose latest;
     private volatile long version;
-    /** True once the registry has dropped this session: it takes no more writes. */
+    /** True once the registry is dropping this session: it takes no more writes. */
     private boolean retired;
+    /** Completes once a retirement is settled (the session dropped, or kept after a failed deletion). */
+    private CompletableFuture<Void> retirement = CompletableFuture.completedFuture(null);
+    /** Why the session is quarantined, or null. */
+    private volatile String quarantine;
+    /** Sequence number of the last record applied (or restored), -1 when none; read under the lock. */
+    private long appliedSeq = -1;
+    /** True once a batch was applied or a state restored. */
+    private boolean holdsState;
 
     /**
      * @param vehicleId        the vehicle's id
@@ -104,7 +187,17 @@ public final class VehicleSession {
     }
 
     /**
-     * Admits a batch of samples, unrecorded (tests, offline tools, journal replay).
+     * Sets the sequence number below which no record is this session's: every record of it will be
+     * numbered above {@code seq} (the journal's next number less one, read when it was created).
+     */
+    void startAfter(long seq) {
+        synchronized (lock) {
+            appliedSeq = seq;
+        }
+    }
+
+    /**
+     * Admits a batch of samples, unrecorded (tests, offline tools).
      *
      * @return one admission per sample, in the order given
      */
@@ -113,44 +206,213 @@ public final class VehicleSession {
         if (applied == null) {
             throw new IllegalStateException("vehicle '" + vehicleId + "': the session was dropped");
         }
-        return applied.admissions();
+        try {
+            return applied.admissions();
+        } catch (IOException e) {
+            throw new java.io.UncheckedIOException(e);
+        }
     }
 
     /**
-     * Admits a batch of samples and, under the same lock, records it, so that the record's order per
-     * vehicle is the order of application.
+     * Applies a batch read back from the journal, with its sequence number (recovery).
      *
-     * @return the admissions and the recording, or null when the session has been retired (the caller
-     *         must submit to the vehicle's current session instead)
+     * @throws VehicleQuarantinedException when the session is quarantined, or is quarantined now because
+     *                                     applying the batch failed
+     */
+    public List<Admission> replay(List<? extends Sample> samples, long seq) {
+        synchronized (lock) {
+            if (quarantine != null) {
+                throw new VehicleQuarantinedException(vehicleId, quarantine, null);
+            }
+            return applyLocked(samples, seq);
+        }
+    }
+
+    /**
+     * Records a batch and queues it to be applied once the record is durable (see the class comment).
+     *
+     * @return the queued batch, or null when the session has been retired (the caller must submit to the
+     *         vehicle's current session instead, once the retirement is settled: {@link #retirement()})
+     * @throws VehicleQuarantinedException when the session is quarantined (nothing is recorded)
      */
     public Applied submit(List<? extends Sample> samples, BatchRecorder recorder) {
         synchronized (lock) {
             if (retired) {
                 return null;
             }
-            if (samples.isEmpty()) {
-                return new Applied(List.of(), SessionLog.DONE);
+            if (quarantine != null) {
+                throw new VehicleQuarantinedException(vehicleId, quarantine, null);
             }
-            List<Admission> result = pipeline.submit(samples);
-            refreshLatest();
-            CompletableFuture<?> recorded = recorder.record(samples);
-            notifyListeners();
-            return new Applied(result, recorded);
+            if (samples.isEmpty()) {
+                return new Applied(this, new Queued(List.of(), SessionLog.DONE,
+                        CompletableFuture.completedFuture(List.of())));
+            }
+            CompletableFuture<Long> recorded = recorder.record(samples);
+            // The caller may reuse its list once this returns; a batch that waits keeps its own copy.
+            List<? extends Sample> kept = recorded.isDone() && queue.isEmpty() ? samples : List.copyOf(samples);
+            Queued q = new Queued(kept, recorded, new CompletableFuture<>());
+            queue.addLast(q);
+            drainLocked();
+            return new Applied(this, q);
         }
     }
 
     /**
-     * Takes no more writes from now on; under the same lock, records the deletion.
+     * Applies the queued batches whose records are done, oldest first; stops at the first one still
+     * being written. Records complete in the order they were made, so a done record's predecessors are
+     * done too.
+     */
+    void drain() {
+        synchronized (lock) {
+            drainLocked();
+        }
+    }
+
+    private void drainLocked() {
+        while (!queue.isEmpty() && queue.peekFirst().recorded().isDone()) {
+            Queued q = queue.pollFirst();
+            long seq;
+            try {
+                seq = q.recorded().join();
+            } catch (java.util.concurrent.CompletionException | java.util.concurrent.CancellationException e) {
+                Throwable cause = e.getCause() != null ? e.getCause() : e;
+                q.applied().completeExceptionally(cause instanceof IOException ? cause
+                        : new IOException(String.valueOf(cause), cause));
+                continue;
+            }
+            if (quarantine != null) {
+                q.applied().completeExceptionally(new VehicleQuarantinedException(vehicleId, quarantine, null));
+                continue;
+            }
+            try {
+                q.applied().complete(applyLocked(q.samples(), seq));
+            } catch (VehicleQuarantinedException e) {
+                q.applied().completeExceptionally(e);
+            }
+        }
+    }
+
+    /**
+     * Applies a durable batch. Anything thrown while applying (a defect, an inconsistent restored state,
+     * even an error such as running out of memory) leaves the state unknown: the session is quarantined
+     * rather than left to serve or journal on from it.
+     */
+    private List<Admission> applyLocked(List<? extends Sample> samples, long seq) {
+        List<Admission> result;
+        try {
+            result = pipeline.submit(samples);
+            String bad = nonFinite(pipeline.snapshot());
+            if (bad != null) {
+                throw new IllegalStateException("the filter's " + bad + " is not finite after the batch");
+            }
+        } catch (Throwable e) {
+            String reason = (seq >= 0 ? "applying journal record " + seq : "applying a batch") + " failed: " + e;
+            quarantine = reason;
+            version++;
+            throw new VehicleQuarantinedException(vehicleId, reason, e);
+        }
+        if (seq >= 0) {
+            appliedSeq = seq;
+        }
+        holdsState = true;
+        refreshLatest();
+        notifyListeners();
+        return result;
+    }
+
+    /**
+     * The first part of the filter's estimate that is not a finite number, or null. Before the filter
+     * is initialised there is no estimate to check.
+     */
+    static String nonFinite(FilterSnapshot s) {
+        if (!s.initialized()) {
+            return null;
+        }
+        double[] values = {s.eastM(), s.northM(), s.yawRad(), s.gyroBiasRadPerS(), s.speedScale(), s.gnssErrEastM(),
+            s.gnssErrNorthM(), s.covEastEastM2(), s.covEastNorthM2(), s.covNorthNorthM2(), s.varYawRad2(),
+            s.varGyroBias(), s.varSpeedScale()};
+        String[] names = {"east", "north", "yaw", "gyro bias", "speed scale", "GNSS error east", "GNSS error north",
+            "east variance", "east-north covariance", "north variance", "yaw variance", "gyro bias variance",
+            "speed scale variance"};
+        for (int i = 0; i < values.length; i++) {
+            if (!Double.isFinite(values[i])) {
+                return names[i] + " (" + values[i] + ")";
+            }
+        }
+        return null;
+    }
+
+    /**
+     * Holds the session apart: it takes no more batches and serves no poses; why is kept and shown.
+     * Used by recovery for a vehicle that cannot be rebuilt.
+     */
+    public void quarantine(String reason) {
+        synchronized (lock) {
+            if (quarantine == null) {
+                quarantine = reason;
+                version++;
+            }
+        }
+    }
+
+    /** Why the session is quarantined, if it is. */
+    public Optional<String> quarantineReason() {
+        return Optional.ofNullable(quarantine);
+    }
+
+    /**
+     * Takes no more writes from now on; under the same lock, records the deletion. Until
+     * {@link #settleRetirement} is called, {@link #retirement()} is pending.
      *
      * @return the recording, or null when the session was already retired
      */
-    public CompletableFuture<?> retire(Supplier<CompletableFuture<?>> recordDeletion) {
+    public CompletableFuture<Long> retire(Supplier<CompletableFuture<Long>> recordDeletion) {
         synchronized (lock) {
             if (retired) {
                 return null;
             }
             retired = true;
+            retirement = new CompletableFuture<>();
             return recordDeletion.get();
+        }
+    }
+
+    /**
+     * Ends a retirement: the session was dropped ({@code dropped}), or its deletion could not be recorded
+     * and it takes writes again.
+     */
+    void settleRetirement(boolean dropped) {
+        CompletableFuture<Void> r;
+        synchronized (lock) {
+            if (!dropped) {
+                retired = false;
+            }
+            r = retirement;
+        }
+        r.complete(null);
+    }
+
+    /** Completes once the current retirement, if any, is settled. */
+    CompletableFuture<Void> retirement() {
+        synchronized (lock) {
+            return retirement;
+        }
+    }
+
+    /**
+     * Retires the session if it has applied nothing and waits for nothing (a first batch that could not
+     * be written), atomically with the check; the caller settles the retirement.
+     *
+     * @return true when it was retired
+     */
+    boolean retireIfPristine() {
+        synchronized (lock) {
+            if (retired || holdsState || !queue.isEmpty() || quarantine != null) {
+                return false;
+            }
+            retired = true;
+            retirement = new CompletableFuture<>();
+            return true;
         }
     }
 
@@ -184,7 +446,11 @@ public final class VehicleSession {
                 continue;
             }
             for (Consumer<Pose> l : listeners) {
-                l.accept(p);
+                try {
+                    l.accept(p);
+                } catch (RuntimeException e) {
+                    // A listener's defect is its own: the batch is applied and recorded all the same.
+                }
             }
             lastEmitted = p;
             emittedUpToT = p.t();
@@ -217,6 +483,7 @@ public final class VehicleSession {
     /** The newest pose at or before {@code tS} from the history. */
     public Optional<Pose> at(double tS) {
         synchronized (lock) {
+            drainLocked();
             return history.at(tS);
         }
     }
@@ -224,6 +491,7 @@ public final class VehicleSession {
     /** Fixes received with fromS <= t <= toS and the filter's decision on each, oldest first. */
     public List<FixRecord> fixes(double fromS, double toS) {
         synchronized (lock) {
+            drainLocked();
             return fixes.between(fromS, toS);
         }
     }
@@ -231,6 +499,7 @@ public final class VehicleSession {
     /** Poses from the history with fromS <= t <= toS. */
     public List<Pose> track(double fromS, double toS) {
         synchronized (lock) {
+            drainLocked();
             return history.between(fromS, toS);
         }
     }
@@ -238,6 +507,7 @@ public final class VehicleSession {
     /** A consistent set of counters for metrics and the vehicle list. */
     public SessionStats stats() {
         synchronized (lock) {
+            drainLocked();
             FilterSnapshot s = pipeline.snapshot();
             return new SessionStats(pipeline.applied(SampleType.WHEEL_SPEED), pipeline.applied(SampleType.YAW_RATE),
                     pipeline.applied(SampleType.GNSS), pipeline.applied(SampleType.REFERENCE), pipeline.duplicates(), pipeline.rejected(), pipeline.rewinds(), s.counts(),
@@ -247,16 +517,17 @@ public final class VehicleSession {
 
     /**
      * Writes the session's whole state (time ordering with its checkpoints, filter, frame, history and
-     * counters), bit for bit, and reads a sequence number under the same lock: every record of this
-     * vehicle made so far was made under the lock, so it lies before that number, and every later one
-     * after. A session built with the same id and settings and given the bytes to
-     * {@link #readSnapshot} continues exactly as this one would; listeners are not part of it.
+     * counters), bit for bit, and reads a sequence number under the same lock. A session built with the
+     * same id and settings and given the bytes to {@link #readSnapshot} continues exactly as this one
+     * would; listeners are not part of it. Batches whose records are durable are applied first; batches
+     * still being recorded are not in the state.
      *
-     * @param sequence read under the lock after writing (the journal's next sequence number, say)
+     * @param sequence read under the lock after writing
      * @return the sequence number, or empty when the session has been retired (nothing was written)
      */
     public OptionalLong writeSnapshot(DataOutput out, LongSupplier sequence) throws IOException {
         synchronized (lock) {
+            drainLocked();
             if (retired) {
                 return OptionalLong.empty();
             }
@@ -271,6 +542,56 @@ public final class VehicleSession {
     }
 
     /**
+     * Writes the session's whole state for a snapshot of all sessions (see
+     * {@link #writeSnapshot(DataOutput, LongSupplier)}), with the sequence number of the last record it
+     * holds; a quarantined session writes nothing and gives its reason. Batches whose records are durable
+     * are applied first.
+     *
+     * @return what was written, or null when the session holds nothing worth keeping (it has applied
+     *         nothing and waits for nothing: any record of it comes after the snapshot's floor)
+     */
+    public Captured writeSnapshot(DataOutput out) throws IOException {
+        synchronized (lock) {
+            drainLocked();
+            if (quarantine != null) {
+                return new Captured(appliedSeq, quarantine);
+            }
+            if (!holdsState && queue.isEmpty()) {
+                return null;
+            }
+            out.writeInt(SNAPSHOT_FORMAT);
+            out.writeUTF(vehicleId);
+            pipeline.writeState(out);
+            history.writeTo(out);
+            fixes.writeTo(out);
+            out.writeLong(version);
+            return new Captured(appliedSeq, null);
+        }
+    }
+
+    /**
+     * Restores a state from a snapshot of all sessions (recovery), knowing the last record it holds.
+     *
+     * @throws IOException when the data is not a snapshot of this vehicle in this format, or does not make
+     *                     a valid state (a filter estimate that is not finite, values out of range)
+     */
+    public void readSnapshot(DataInput in, long lastSeq) throws IOException {
+        synchronized (lock) {
+            try {
+                readSnapshot(in);
+            } catch (RuntimeException e) {
+                // Record constructors validate what they read: a value out of range is a bad entry.
+                throw new IOException("snapshot: " + e.getMessage(), e);
+            }
+            String bad = nonFinite(pipeline.snapshot());
+            if (bad != null) {
+                throw new IOException("snapshot: the filter's " + bad + " is not finite");
+            }
+            appliedSeq = lastSeq;
+        }
+    }
+
+    /**
      * Restores a state written by {@link #writeSnapshot} into this session, which must be new (no
      * sample yet) and built with the same id and settings.
      *
@@ -278,6 +599,7 @@ public final class VehicleSession {
      */
     public void readSnapshot(DataInput in) throws IOException {
         synchronized (lock) {
+            holdsState = true;
             int format = in.readInt();
             if (format != SNAPSHOT_FORMAT) {
                 throw new IOException("snapshot: format " + format + ", expected " + SNAPSHOT_FORMAT);

@@ -8,9 +8,11 @@ import org.wayhold.sample.FixType;
  * Noise model and initial uncertainty of the extended Kalman filter. YAML section {@code filter}.
  *
  * @param wheelSpeedNoiseMps            1-sigma white noise of one wheel-speed reading (m/s)
- * @param wheelSpeedRateHz              nominal wheel-speed sample rate (Hz), turns the per-reading noise into a density
+ * @param wheelSpeedRateHz              nominal wheel-speed sample rate (Hz): the reading interval assumed until
+ *                                      two readings show the real one
  * @param gyroNoiseRadPerS              1-sigma white noise of one yaw-rate reading (rad/s)
- * @param gyroRateHz                    nominal yaw-rate sample rate (Hz), turns the per-reading noise into a density
+ * @param gyroRateHz                    nominal yaw-rate sample rate (Hz): the reading interval assumed until two
+ *                                      readings show the real one
  * @param gyroBiasRandomWalkRadPerSPerSqrtS random walk of the gyro bias (rad/s per sqrt(s))
  * @param speedScaleRandomWalkPerSqrtS  random walk of the wheel-speed scale factor (1 per sqrt(s))
  * @param initialYawSigmaRad            1-sigma of the initial yaw when taken from a GNSS course (rad)
@@ -38,6 +40,9 @@ import org.wayhold.sample.FixType;
  * @param minTurnRadiusM                smallest turn radius of the reference point (m): a vehicle turning at
  *                                      omega moves at least omega times this
  * @param gnssHdopFloorM                a fix's 1-sigma is at least its HDOP times this (m)
+ * @param rollingRadiusGrowthAt30Mps    how much the tyres' rolling radius grows from standstill to 30 m/s,
+ *                                      growing with the square of the speed (unitless): bounds how far a
+ *                                      wheel-speed scale learnt at one speed may be off at another
  */
 public record FilterSettings(
         double wheelSpeedNoiseMps,
@@ -66,7 +71,8 @@ public record FilterSettings(
         double sideslipRadPerMps2,
         double wheelSpeedZeroBelowMps,
         double minTurnRadiusM,
-        double gnssHdopFloorM) {
+        double gnssHdopFloorM,
+        double rollingRadiusGrowthAt30Mps) {
 
     public FilterSettings {
         Check.nonNegative("filter.wheel_speed_noise_mps", wheelSpeedNoiseMps);
@@ -97,6 +103,7 @@ public record FilterSettings(
         Check.positive("filter.wheel_speed_zero_below_mps", wheelSpeedZeroBelowMps);
         Check.positive("filter.min_turn_radius_m", minTurnRadiusM);
         Check.nonNegative("filter.gnss_hdop_floor_m", gnssHdopFloorM);
+        Check.nonNegative("filter.rolling_radius_growth_at_30_mps", rollingRadiusGrowthAt30Mps);
         EnumMap<FixType, Double> scales = new EnumMap<>(FixType.class);
         scales.putAll(defaultFixScale());
         if (gnssFixScale != null) {
@@ -131,11 +138,15 @@ public record FilterSettings(
     /**
      * Built-in defaults, sized for production-grade wheel-speed and yaw-rate sensors of a passenger car
      * and a standalone GNSS receiver (values from common practice): a yaw-rate sensor's scale factor
-     * within about 2 %; 1 % of the rate for misalignment and body motion; a sideslip of about 0.01 rad
-     * per m/s^2 at the rear axle (a 1500 kg car with about 80 kN/rad of rear cornering stiffness, from
-     * memory of the single-track model); wheel-speed sensors silent below about 0.3 m/s; a rear-axle
+     * within about 2 %; 1 % of the rate for misalignment and body motion; a 1-sigma of 0.005 rad per
+     * m/s^2 for the sideslip the model leaves out, about half of the 0.005-0.01 rad per m/s^2 a
+     * passenger car's rear axle slips by (a 1500 kg car with 80-150 kN/rad of rear cornering stiffness,
+     * from memory of the single-track model; on the real drives 0.005 and 0.01 cover the heading
+     * equally); wheel-speed sensors silent below about 0.3 m/s; a rear-axle
      * turn radius of at least about 4.5 m; and a standalone receiver's error at least about half its HDOP
-     * in metres (a user range error of 0.5 m is about the best a standalone receiver reaches).
+     * in metres (a user range error of 0.5 m is about the best a standalone receiver reaches); a rolling
+     * radius that grows by about 0.6 % from standstill to 30 m/s (radial tyres grow by roughly 0.5-1 %
+     * between town and motorway speeds).
      */
     public static FilterSettings defaults() {
         return new FilterSettings(
@@ -148,6 +159,7 @@ public record FilterSettings(
                 3.0, 0.15, 3.0,
                 0.5, 5.0,
                 0.02, 1.0e-5, 0.01,
-                0.01, 0.3, 4.5, 0.5);
+                0.005, 0.3, 4.5, 0.5,
+                0.006);
     }
 }

@@ -156,7 +156,7 @@ class ConfigLoaderTest {
                 0.019, 0.21, 2.2, 2.3,
                 Map.of(FixType.NONE, 11.0, FixType.TWO_D, 2.5, FixType.THREE_D, 1.25, FixType.DGNSS, 0.75,
                         FixType.RTK_FLOAT, 0.35, FixType.RTK_FIXED, 0.15),
-                0.24, 25.0, 2.6, 0.27, 2.8, 2.9, 3.1, 0.02, 1.0e-5, 0.01, 0.01, 0.3, 4.5, 0.5));
+                0.24, 25.0, 2.6, 0.27, 2.8, 2.9, 3.1, 0.02, 1.0e-5, 0.01, 0.005, 0.3, 4.5, 0.5, 0.006));
         assertThat(s.gating().chiSquareProbability()).isEqualTo(0.99);
         assertThat(s.gating().reacquireFixes()).isEqualTo(4);
         assertThat(s.outage().gapS()).isEqualTo(2.5);

@@ -7,6 +7,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
 import org.wayhold.geo.Angles;
+import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.GatingSettings;
 import org.wayhold.settings.VehicleProfile;
 
@@ -131,27 +132,73 @@ class DeadReckoningHandCaseTest {
     }
 
     @Test
-    void standstillHoldsPositionAndYawWhileTheGyroReadsAnOffset() {
-        // Drive 10 s at 10 m/s, then stop; the gyro keeps reading 0.01 rad/s (a bias the filter does not
-        // know). Before the standstill is confirmed (standstill_after_s = 0.5 s by default) the reading is
-        // integrated as a turn; after it, the yaw must not move and the position must not move at all.
+    void aGyroReadingTheBiasCannotExplainAtRestIsACreepAlongAnArc() {
+        // Drive 10 s east at 10 m/s, then the wheels read zero while the gyro reads 0.05 rad/s with its
+        // bias known exactly (variance 0). No bias explains the reading, so the vehicle turns, and a
+        // vehicle that turns moves: it creeps at the middle of what the wheels cannot see, between
+        // omega * min_turn_radius_m (0.05 * 4.5 = 0.225 m/s) and wheel_speed_zero_below_mps (0.3 m/s):
+        // 0.2625 m/s, on a circle of radius 0.2625 / 0.05 = 5.25 m.
         NavigationFilter f = start(0.0, 0.0, 0.0, 0.0, 1.0);
         drive(f, 10.0, 10.0, 0.0, g -> { });
-        drive(f, 11.0, 0.0, 0.01, g -> { });
-        assertThat(f.snapshot().standstill()).isTrue();
-        double[] held = f.state();
-        assertThat(held[StateIndex.EAST]).isCloseTo(100.0, within(1e-9));
-        assertThat(held[StateIndex.NORTH]).isEqualTo(0.0);
+        double omega = 0.05;
+        double[] creepStart = {Double.NaN, 0.0, 0.0, 0.0};
+        double[] worst = {0.0};
+        drive(f, 30.0, 0.0, omega, g -> {
+            double[] x = g.state();
+            boolean creeping = (g.snapshot().reasons() & Reason.CREEPING.bit()) != 0;
+            if (creeping && Double.isNaN(creepStart[0])) {
+                creepStart[0] = g.tRel();
+                creepStart[1] = x[StateIndex.EAST];
+                creepStart[2] = x[StateIndex.NORTH];
+                creepStart[3] = x[StateIndex.YAW];
+            } else if (creeping) {
+                // p(t) = p_c + R (sin(yaw) - sin(yaw_c), cos(yaw_c) - cos(yaw)), yaw = yaw_c + omega dt.
+                double radius = 0.2625 / omega;
+                double yaw = creepStart[3] + omega * (g.tRel() - creepStart[0]);
+                worst[0] = Math.max(worst[0], Math.hypot(
+                        x[StateIndex.EAST] - (creepStart[1] + radius * (Math.sin(yaw) - Math.sin(creepStart[3]))),
+                        x[StateIndex.NORTH] - (creepStart[2] + radius * (Math.cos(creepStart[3]) - Math.cos(yaw)))));
+            }
+        });
+        assertThat(f.snapshot().standstill()).isFalse();
+        // Creeping is decided once the wheels have read zero for standstill_after_s (0.5 s).
+        assertThat(creepStart[0]).isBetween(10.5 - 1e-9, 10.52);
+        // Until then the reading turned the stopped car on the spot: 100 m east, 0.05 rad/s for 0.5 s.
+        assertThat(creepStart[1]).isCloseTo(100.0, within(1e-9));
+        assertThat(creepStart[2]).isEqualTo(0.0);
+        assertThat(creepStart[3]).isBetween(omega * 0.5 - 1e-12, omega * 0.52 + 1e-12);
+        assertThat(worst[0]).as("distance from the arc (m)").isLessThan(1e-9);
+        assertThat(f.state()[StateIndex.YAW]).isCloseTo(omega * 20.0, within(1e-9));
+    }
+
+    @Test
+    void aStandstillTheBiasExplainsHoldsThePositionAndUndoesTheTurnTakenBeforeItWasConfirmed() {
+        // From rest, the wheels read zero while the gyro reads 0.01 rad/s; the bias is unknown with
+        // 1-sigma 0.01 rad/s, so the reading is explained (NIS = 1 against 10.83) once the wheels have
+        // read zero for standstill_after_s (0.5 s). Before that the reading turns the car on the spot by
+        // 0.01 * 0.5 rad - less the bias, so yaw and bias become correlated; the zero-rate updates then
+        // learn the bias (reading noise 0.001 rad/s, prior 0.01) and through that correlation take the
+        // turn back. The position never moves: at zero speed nothing couples it to yaw or bias.
+        FilterSettings settings = FilterFixtures.settings(0.0, 50.0, 0.001, 100.0, 0.0, 0.0, 1.0, 0.0, 30.0);
+        NavigationFilter f = FilterFixtures.filter(settings, GatingSettings.defaults(), VehicleProfile.defaults());
+        double[] p0 = FilterFixtures.diagonal(0.0, 0.0, 0.0, 1e-4, 0.0, 0.0, 0.0);
+        f.initialize(0.0, FilterFixtures.state(20.0, -5.0, 0.3, 0.0, 1.0, 0.0, 0.0), p0);
+        double[] yawBeforeRest = {Double.NaN};
         double[] maxMove = {0.0};
         drive(f, 20.0, 0.0, 0.01, g -> {
             double[] x = g.state();
-            maxMove[0] = Math.max(maxMove[0], Math.max(Math.abs(x[StateIndex.EAST] - held[StateIndex.EAST]),
-                    Math.max(Math.abs(x[StateIndex.NORTH] - held[StateIndex.NORTH]),
-                            Math.abs(x[StateIndex.YAW] - held[StateIndex.YAW]))));
+            maxMove[0] = Math.max(maxMove[0], Math.hypot(x[StateIndex.EAST] - 20.0, x[StateIndex.NORTH] + 5.0));
+            if (Double.isNaN(yawBeforeRest[0]) && g.snapshot().standstill()) {
+                yawBeforeRest[0] = x[StateIndex.YAW];
+            }
         });
+        assertThat(f.snapshot().standstill()).isTrue();
         assertThat(maxMove[0]).isEqualTo(0.0);
-        assertThat(f.snapshot().yawRateRadPerS()).isEqualTo(0.0);
-        // The turn integrated before the standstill was confirmed: 0.01 rad/s over 0.5 s (+ one sample).
-        assertThat(held[StateIndex.YAW]).isBetween(0.01 * 0.5 - 1e-12, 0.01 * 0.51 + 1e-12);
+        // The first confirming reading already learns most of the bias and takes back most of the turn
+        // 0.01 * 0.5 = 0.005 rad; after 20 s of readings (about 1950 updates) the bias is 0.01 to within
+        // about 1e-6 / 1950 / 1e-4 of it, and the remaining turn is 0.5 s times that.
+        assertThat(yawBeforeRest[0] - 0.3).isLessThan(0.005);
+        assertThat(f.state()[StateIndex.GYRO_BIAS]).isCloseTo(0.01, within(1e-6));
+        assertThat(f.state()[StateIndex.YAW]).isCloseTo(0.3, within(1e-5));
     }
 }

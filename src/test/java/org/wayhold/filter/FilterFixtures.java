@@ -24,7 +24,8 @@ final class FilterFixtures {
                 d.initialYawSigmaRad(), d.initialGyroBiasSigmaRadPerS(), d.initialSpeedScaleSigma(),
                 d.gnssFloorM(), d.gnssRangeErrorM(), gnssDefaultSigmaM, null, correlatedShare, correlationTimeS,
                 d.gnssVelocityMinSpeedMps(), d.gnssSpeedSigmaMps(), d.gnssCourseSigmaDeg(), d.standstillAfterS(),
-                d.headingInitMinDistanceM(), 0.0, 0.0, 0.0, 0.0, d.wheelSpeedZeroBelowMps(), d.minTurnRadiusM(), 0.0);
+                d.headingInitMinDistanceM(), 0.0, 0.0, 0.0, 0.0, d.wheelSpeedZeroBelowMps(), d.minTurnRadiusM(), 0.0,
+                0.0);
     }
 
     /** No sensor noise, no random walks, no correlated GNSS error: pure dead reckoning. */
@@ -34,6 +35,11 @@ final class FilterFixtures {
 
     static NavigationFilter filter(FilterSettings settings, GatingSettings gating, VehicleProfile profile) {
         return new NavigationFilter(settings, gating, OutageSettings.defaults(), profile);
+    }
+
+    static NavigationFilter filter(FilterSettings settings, GatingSettings gating, OutageSettings outage,
+                                   VehicleProfile profile) {
+        return new NavigationFilter(settings, gating, outage, profile);
     }
 
     /** A position-only fix; latitude and longitude are unused because the test passes ENU directly. */

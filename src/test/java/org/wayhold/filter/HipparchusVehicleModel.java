@@ -20,16 +20,26 @@ import org.wayhold.settings.FilterSettings;
  * <p>The model is derived on its own rather than copied: the exact constant-turn step is written in
  * chord form (the displacement over an arc of angle theta is the chord v dt sinc(theta/2) along
  * yaw + theta/2, a standard identity of circular motion), where wayhold writes it with
- * sin(theta)/theta and (1 - cos(theta))/theta; the Jacobians are differentiated from that form. The
- * noise follows the formulas the filter documents: a white input of per-reading sigma at rate f has
- * the density sigma^2 / f, so a step of dt adds G G' sigma^2 / (f dt) with G the input sensitivity over
- * the step; the bias and scale random walks add w^2 dt; the Gauss-Markov GNSS error (Brown and Hwang,
- * 4th ed., sec. 4.2) adds sigma_c^2 (1 - exp(-2 dt / tau)), with sigma_c^2 the correlated share of the
- * last fix's variance.
+ * sin(theta)/theta and (1 - cos(theta))/theta; the Jacobians are differentiated from that form, with
+ * theta = g (r - b) dt for gyro scale g, reading r and bias b. The noise follows the formulas the
+ * filter documents:
+ * <ul>
+ *   <li>wheel speed: per-reading variance times the observed reading interval, as a density; a step of
+ *       dt adds G G' density / dt with G the input sensitivity over the step;</li>
+ *   <li>yaw rate: (per-reading variance + (half the change of the last two readings)^2) times the
+ *       observed interval, plus (proportional share x latest reading)^2 x 1 s of correlation;</li>
+ *   <li>sideslip: (sideslip x |v omega| x v)^2 x 1 s x dt across the direction of travel after the step;</li>
+ *   <li>random walks of bias, speed scale and gyro scale: w^2 dt; the Gauss-Markov GNSS error (Brown and
+ *       Hwang, 4th ed., sec. 4.2): sigma_c^2 (1 - exp(-2 dt / tau)), with sigma_c^2 the correlated share
+ *       of the last fix's variance.</li>
+ * </ul>
+ * A fix measures the antenna where it was the latency L earlier: position + R(yaw) (forward, left)
+ * - v L (cos yaw, sin yaw) + GNSS error, v = speed scale x the latest wheel reading.
  *
- * <p>State layout {@link StateIndex} (m, m, rad, rad/s, unitless, m, m); positions in the session's
- * ENU frame, yaw counter-clockwise from east. The antenna sits {@code leverFwdM} forward and
- * {@code leverLeftM} left of the reference point.
+ * <p>State layout {@link StateIndex}; positions in the session's ENU frame, yaw counter-clockwise from
+ * east. Not modelled (the callers keep them inert): the tyre-growth floor on the speed scale's variance
+ * (set {@code rolling_radius_growth_at_30_mps} to 0) and consider states (give the lever arm zero
+ * variance, or keep the turn rate above the threshold that makes it observable).
  */
 public final class HipparchusVehicleModel {
 
@@ -39,29 +49,45 @@ public final class HipparchusVehicleModel {
     private static final int Y = StateIndex.YAW;
     private static final int B = StateIndex.GYRO_BIAS;
     private static final int S = StateIndex.SPEED_SCALE;
+    private static final int G = StateIndex.GYRO_SCALE;
     private static final int GE = StateIndex.GNSS_ERR_EAST;
     private static final int GN = StateIndex.GNSS_ERR_NORTH;
+    private static final int LF = StateIndex.LEVER_FORWARD;
+    private static final int LL = StateIndex.LEVER_LEFT;
+    private static final int LAT = StateIndex.GNSS_LATENCY;
 
-    private final double leverFwdM;
-    private final double leverLeftM;
     private final double correlatedShare;
-    /** Wheel-speed noise density (m^2/s^2 per Hz). */
-    private final double densWheel;
-    /** Gyro noise density (rad^2/s^2 per Hz). */
-    private final double densGyro;
+    private final double wheelVar;
+    private final double gyroVar;
+    private final double proportional;
+    private final double sideslip;
     private final double walkBiasRadPerSPerSqrtS;
     private final double walkScalePerSqrtS;
+    private final double walkGyroScalePerSqrtS;
     private final double tauS;
 
-    public HipparchusVehicleModel(FilterSettings fs, double leverFwdM, double leverLeftM) {
-        this.leverFwdM = leverFwdM;
-        this.leverLeftM = leverLeftM;
+    public HipparchusVehicleModel(FilterSettings fs) {
         this.correlatedShare = fs.gnssCorrelatedShare();
-        this.densWheel = fs.wheelSpeedNoiseMps() * fs.wheelSpeedNoiseMps() / fs.wheelSpeedRateHz();
-        this.densGyro = fs.gyroNoiseRadPerS() * fs.gyroNoiseRadPerS() / fs.gyroRateHz();
+        this.wheelVar = fs.wheelSpeedNoiseMps() * fs.wheelSpeedNoiseMps();
+        this.gyroVar = fs.gyroNoiseRadPerS() * fs.gyroNoiseRadPerS();
+        this.proportional = fs.gyroRateProportionalNoise();
+        this.sideslip = fs.sideslipRadPerMps2();
         this.walkBiasRadPerSPerSqrtS = fs.gyroBiasRandomWalkRadPerSPerSqrtS();
         this.walkScalePerSqrtS = fs.speedScaleRandomWalkPerSqrtS();
+        this.walkGyroScalePerSqrtS = fs.gyroScaleRandomWalkPerSqrtS();
         this.tauS = fs.gnssCorrelationTimeS();
+    }
+
+    /** The same settings without the tyre-growth floor on the speed scale's variance, which this model leaves out. */
+    public static FilterSettings modelledSettings(FilterSettings d) {
+        return new FilterSettings(d.wheelSpeedNoiseMps(), d.wheelSpeedRateHz(), d.gyroNoiseRadPerS(), d.gyroRateHz(),
+                d.gyroBiasRandomWalkRadPerSPerSqrtS(), d.speedScaleRandomWalkPerSqrtS(), d.initialYawSigmaRad(),
+                d.initialGyroBiasSigmaRadPerS(), d.initialSpeedScaleSigma(), d.gnssFloorM(), d.gnssRangeErrorM(),
+                d.gnssDefaultSigmaM(), d.gnssFixScale(), d.gnssCorrelatedShare(), d.gnssCorrelationTimeS(),
+                d.gnssVelocityMinSpeedMps(), d.gnssSpeedSigmaMps(), d.gnssCourseSigmaDeg(), d.standstillAfterS(),
+                d.headingInitMinDistanceM(), d.initialGyroScaleSigma(), d.gyroScaleRandomWalkPerSqrtS(),
+                d.gyroRateProportionalNoise(), d.sideslipRadPerMps2(), d.wheelSpeedZeroBelowMps(), d.minTurnRadiusM(),
+                d.gnssHdopFloorM(), 0.0);
     }
 
     /** The transition F = df/dx and the process noise Q (N x N) of one step. */
@@ -69,13 +95,30 @@ public final class HipparchusVehicleModel {
     }
 
     /**
-     * One step of dt (s) with the given wheel speed (m/s) and yaw rate (rad/s) held over it.
+     * What one step is driven by.
+     *
+     * @param wheelMps          wheel speed over the step (m/s)
+     * @param rateRadPerS       yaw-rate reading over the step (rad/s)
+     * @param latestRateRadPerS the latest yaw-rate reading (rad/s)
+     * @param previousRateRadPerS the one before it (rad/s)
+     * @param wheelIntervalS    interval between the last two wheel readings (s)
+     * @param rateIntervalS     interval between the last two yaw-rate readings (s)
+     * @param corrVarM2         variance of the correlated GNSS error (m^2) the Gauss-Markov noise restores
+     */
+    public record Inputs(double wheelMps, double rateRadPerS, double latestRateRadPerS, double previousRateRadPerS,
+                         double wheelIntervalS, double rateIntervalS, double corrVarM2) {
+    }
+
+    /**
+     * One step of dt (s).
      *
      * @param x the state before the step; modified in place to the state after it
-     * @param corrVarM2 variance of the correlated GNSS error (m^2) that the Gauss-Markov noise restores
      */
-    public Step step(double[] x, double dt, double wheelMps, double rateRadPerS, double corrVarM2) {
-        double theta = (rateRadPerS - x[B]) * dt;
+    public Step step(double[] x, double dt, Inputs in) {
+        double wheelMps = in.wheelMps();
+        double unbiased = in.rateRadPerS() - x[B];
+        double omega = x[G] * unbiased;
+        double theta = omega * dt;
         double v = x[S] * wheelMps;
         double half = 0.5 * theta;
         double sc = sinc(half);
@@ -95,58 +138,90 @@ public final class HipparchusVehicleModel {
         f.setEntry(NO, Y, de);
         f.setEntry(E, S, wheelMps * dt * sc * cu);
         f.setEntry(NO, S, wheelMps * dt * sc * su);
-        // theta = (rate - bias) dt: d/d(bias) = -dt d/d(theta)
-        f.setEntry(E, B, -dt * deDTheta);
-        f.setEntry(NO, B, -dt * dnDTheta);
-        f.setEntry(Y, B, -dt);
+        // d(theta)/d(bias) = -g dt, d(theta)/d(g) = (r - b) dt
+        f.setEntry(E, B, -x[G] * dt * deDTheta);
+        f.setEntry(NO, B, -x[G] * dt * dnDTheta);
+        f.setEntry(Y, B, -x[G] * dt);
+        f.setEntry(E, G, unbiased * dt * deDTheta);
+        f.setEntry(NO, G, unbiased * dt * dnDTheta);
+        f.setEntry(Y, G, unbiased * dt);
         f.setEntry(GE, GE, decay);
         f.setEntry(GN, GN, decay);
-
-        // Q = G_wheel G_wheel' q_wheel / dt + G_rate G_rate' q_gyro / dt + random walks + Gauss-Markov,
-        // with the input sensitivities G over the step in rows (east, north, yaw).
-        double[] gWheel = {x[S] * dt * sc * cu, x[S] * dt * sc * su, 0.0};
-        double[] gRate = {dt * deDTheta, dt * dnDTheta, dt};
-        RealMatrix q = new Array2DRowRealMatrix(N, N);
-        for (int i = 0; i < 3; i++) {
-            for (int j = 0; j < 3; j++) {
-                q.setEntry(i, j, gWheel[i] * gWheel[j] * densWheel / dt + gRate[i] * gRate[j] * densGyro / dt);
-            }
-        }
-        q.setEntry(B, B, walkBiasRadPerSPerSqrtS * walkBiasRadPerSPerSqrtS * dt);
-        q.setEntry(S, S, walkScalePerSqrtS * walkScalePerSqrtS * dt);
-        q.setEntry(GE, GE, corrVarM2 * (1.0 - decay * decay));
-        q.setEntry(GN, GN, corrVarM2 * (1.0 - decay * decay));
 
         x[E] += de;
         x[NO] += dn;
         x[Y] += theta;
         x[GE] *= decay;
         x[GN] *= decay;
+
+        // Input noise G G' density / dt, with the sensitivities G over the step in rows (east, north, yaw).
+        double wheelDensity = wheelVar * in.wheelIntervalS();
+        double change = 0.5 * (in.latestRateRadPerS() - in.previousRateRadPerS());
+        double rateDensity = (gyroVar + change * change) * in.rateIntervalS()
+                + Math.pow(proportional * in.latestRateRadPerS(), 2) * 1.0;
+        double[] gWheel = {x[S] * dt * sc * cu, x[S] * dt * sc * su, 0.0};
+        double[] gRate = {x[G] * dt * deDTheta, x[G] * dt * dnDTheta, x[G] * dt};
+        RealMatrix q = new Array2DRowRealMatrix(N, N);
+        for (int i = 0; i < 3; i++) {
+            for (int j = 0; j < 3; j++) {
+                q.setEntry(i, j, gWheel[i] * gWheel[j] * wheelDensity / dt + gRate[i] * gRate[j] * rateDensity / dt);
+            }
+        }
+        double lateral = sideslip * Math.abs(v * omega) * v;
+        double qSlip = lateral * lateral * 1.0 * dt;
+        double[] normal = {-Math.sin(x[Y]), Math.cos(x[Y])};
+        for (int i = 0; i < 2; i++) {
+            for (int j = 0; j < 2; j++) {
+                q.addToEntry(i, j, qSlip * normal[i] * normal[j]);
+            }
+        }
+        q.setEntry(B, B, walkBiasRadPerSPerSqrtS * walkBiasRadPerSPerSqrtS * dt);
+        q.setEntry(S, S, walkScalePerSqrtS * walkScalePerSqrtS * dt);
+        q.setEntry(G, G, walkGyroScalePerSqrtS * walkGyroScalePerSqrtS * dt);
+        q.setEntry(GE, GE, in.corrVarM2() * (1.0 - decay * decay));
+        q.setEntry(GN, GN, in.corrVarM2() * (1.0 - decay * decay));
         return new Step(f, q);
     }
 
-    /** H = dh/dx (2 x N) of h(x) = position + R(yaw) (forward, left) + GNSS error, at x. */
-    public RealMatrix positionJacobian(double[] x) {
+    /** The antenna position (east, north) a fix measures at state x with the latest wheel reading. */
+    private static double[] antenna(double[] x, double wheelMps) {
         double c = Math.cos(x[Y]);
         double s = Math.sin(x[Y]);
+        double back = x[S] * wheelMps * x[LAT];
+        return new double[] {
+            x[E] + x[LF] * c - x[LL] * s - back * c + x[GE],
+            x[NO] + x[LF] * s + x[LL] * c - back * s + x[GN]};
+    }
+
+    /** H = dh/dx (2 x N) of {@link #antenna} at x. */
+    public RealMatrix positionJacobian(double[] x, double wheelMps) {
+        double c = Math.cos(x[Y]);
+        double s = Math.sin(x[Y]);
+        double v = x[S] * wheelMps;
+        double back = v * x[LAT];
         RealMatrix h = new Array2DRowRealMatrix(2, N);
         h.setEntry(0, E, 1.0);
-        h.setEntry(0, Y, -leverFwdM * s - leverLeftM * c);
+        h.setEntry(0, Y, -x[LF] * s - x[LL] * c + back * s);
+        h.setEntry(0, S, -wheelMps * x[LAT] * c);
         h.setEntry(0, GE, 1.0);
+        h.setEntry(0, LF, c);
+        h.setEntry(0, LL, -s);
+        h.setEntry(0, LAT, -v * c);
         h.setEntry(1, NO, 1.0);
-        h.setEntry(1, Y, leverFwdM * c - leverLeftM * s);
+        h.setEntry(1, Y, x[LF] * c - x[LL] * s - back * c);
+        h.setEntry(1, S, -wheelMps * x[LAT] * s);
         h.setEntry(1, GN, 1.0);
+        h.setEntry(1, LF, s);
+        h.setEntry(1, LL, c);
+        h.setEntry(1, LAT, -v * s);
         return h;
     }
 
     /** The innovation z - h(x) (m, east and north) of a fix at the predicted state x. */
-    public RealVector innovation(Position fix, RealVector x) {
-        double yaw = x.getEntry(Y);
-        double c = Math.cos(yaw);
-        double s = Math.sin(yaw);
-        double ae = x.getEntry(E) + leverFwdM * c - leverLeftM * s + x.getEntry(GE);
-        double an = x.getEntry(NO) + leverFwdM * s + leverLeftM * c + x.getEntry(GN);
-        return new ArrayRealVector(new double[] {fix.getValue().getEntry(0) - ae, fix.getValue().getEntry(1) - an}, false);
+    public RealVector innovation(Position fix, RealVector x, double wheelMps) {
+        double[] ant = antenna(x.toArray(), wheelMps);
+        return new ArrayRealVector(new double[] {fix.getValue().getEntry(0) - ant[0],
+            fix.getValue().getEntry(1) - ant[1]}, false);
     }
 
     /** The correlated share (m^2) of a fix's horizontal variance, which the GNSS error states carry. */
@@ -162,22 +237,22 @@ public final class HipparchusVehicleModel {
     }
 
     /**
-     * The model from the previous estimate to each fix in a single step with the given wheel speed
-     * (m/s) and yaw rate (rad/s) held, and the correlated GNSS variance (m^2) fixed.
+     * The model from the previous estimate to each fix in a single step with the given inputs held
+     * (the latest reading also the one before it).
      */
-    public NonLinearProcess<Position> heldInputs(double wheelMps, double rateRadPerS, double corrVarM2) {
+    public NonLinearProcess<Position> heldInputs(Inputs in) {
         return new NonLinearProcess<>() {
             @Override
             public NonLinearEvolution getEvolution(double previousTime, RealVector previousState, Position fix) {
                 double[] x = previousState.toArray();
-                Step step = step(x, fix.getTime() - previousTime, wheelMps, rateRadPerS, corrVarM2);
+                Step step = step(x, fix.getTime() - previousTime, in);
                 return new NonLinearEvolution(fix.getTime(), new ArrayRealVector(x, false), step.f(), step.q(),
-                        positionJacobian(x));
+                        positionJacobian(x, in.wheelMps()));
             }
 
             @Override
             public RealVector getInnovation(Position fix, NonLinearEvolution evolution, RealMatrix innovationCovariance) {
-                return innovation(fix, evolution.getCurrentState());
+                return innovation(fix, evolution.getCurrentState(), in.wheelMps());
             }
         };
     }

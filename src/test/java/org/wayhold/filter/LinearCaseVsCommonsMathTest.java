@@ -106,8 +106,10 @@ class LinearCaseVsCommonsMathTest {
 
     private static FilterSettings settingsOf(Scenario s) {
         // Gyro noise 0 and bias/scale random walks 0 keep yaw, bias and scale exactly fixed; the
-        // default GNSS sigma equals the fixes' sigma_h so the Gauss-Markov variance stays constant.
-        return FilterFixtures.settings(s.wheelNoiseMps, 50.0, 0.0, 100.0, 0.0, 0.0, s.sigmaM, s.share, s.tauS);
+        // default GNSS sigma equals the fixes' sigma_h so the Gauss-Markov variance stays constant. Both
+        // streams are configured at 16 Hz, the rate they are fed at, so the first step's noise (before two
+        // readings show the interval) is the same as every other step's.
+        return FilterFixtures.settings(s.wheelNoiseMps, 16.0, 0.0, 16.0, 0.0, 0.0, s.sigmaM, s.share, s.tauS);
     }
 
     /** Fix positions (east, north) of the antenna: truth + Gauss-Markov error + white noise. */

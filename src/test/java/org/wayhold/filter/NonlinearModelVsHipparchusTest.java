@@ -1,6 +1,7 @@
 package org.wayhold.filter;
 
 import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
 
 import java.util.ArrayList;
 import java.util.List;
@@ -20,6 +21,7 @@ import org.wayhold.filter.HipparchusVehicleModel.Mismatch;
 import org.wayhold.filter.HipparchusVehicleModel.Position;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.GatingSettings;
+import org.wayhold.settings.OutageSettings;
 import org.wayhold.settings.VehicleProfile;
 
 /**
@@ -34,10 +36,13 @@ import org.wayhold.settings.VehicleProfile;
  * and composes the transition (Phi = F_k ... F_1) and the noise (Q = F_k Q_{k-1} F_k' + Q_k) exactly
  * as the filter's per-sample steps add up.
  *
- * <p>Left aside here, each checked by its own tests: gating (the gate probability is 1 - 1e-12, a threshold of 55.3,
- * and the test asserts that every fix was used), reacquisition probation after the outage
- * ({@code reacquire_fixes = 1}: the first fix after the gap is applied at once) and angle wrapping
- * (yaw is compared modulo 2 pi). No standstill occurs, the fixes carry no speed or course.
+ * <p>The truth has a gyro scale of 1.01, a bias of 0.2 deg/s, a speed scale of 1.012 and a GNSS latency
+ * of 80 ms, so the filter's scale, bias and latency states all move. Left aside here, each checked by
+ * its own tests: gating (the gate probability is 1 - 1e-12, a threshold of 55.3, and the test asserts
+ * that every fix was used), reacquisition after the outage (the outage rule's gap is 60 s, so the
+ * fixes after the 30 s outage pass through the gate without probation), the lever arm as a consider
+ * state (its variance is 0: the arm is known), the tyre-growth floor (set to 0) and angle wrapping (yaw
+ * is compared modulo 2 pi). No standstill occurs, the fixes carry no speed or course.
  *
  * <p>Tolerances (1e-9, the project's rule for agreement with a reference filter, DEVELOPERS.md,
  * "Targets the tests hold"): states to 1e-9 relative to max(1 m or 1 rad, |x|); covariances
@@ -52,6 +57,7 @@ class NonlinearModelVsHipparchusTest {
 
     private static final double LEVER_FWD_M = 1.4;
     private static final double LEVER_LEFT_M = -0.35;
+    private static final double LATENCY_S = 0.08;
 
     private enum Kind { WHEEL, RATE, FIX }
 
@@ -67,6 +73,7 @@ class NonlinearModelVsHipparchusTest {
         SplittableRandom rnd = new SplittableRandom(seed);
         double trueScale = 1.012;
         double trueBias = Math.toRadians(0.2);
+        double trueGyroScale = 1.01;
         double gyroSigma = Math.toRadians(0.1);
         double wheelSigma = 0.05;
         double share = 0.6;
@@ -86,7 +93,7 @@ class NonlinearModelVsHipparchusTest {
             double target = phase < 8.0 ? 0.0 : 0.25 * Math.sin(Math.PI * (phase - 8.0) / 12.0) * (((long) (t / 20)) % 2 == 0 ? 1 : -1);
             rate += 0.05 * (target - rate);
             speed = 15.0 + 5.0 * Math.sin(t / 23.0);
-            events.add(new Event(tick, Kind.RATE, rate + trueBias + gyroSigma * gaussian(rnd), 0, 0, 0));
+            events.add(new Event(tick, Kind.RATE, rate / trueGyroScale + trueBias + gyroSigma * gaussian(rnd), 0, 0, 0));
             if (tick % 20 == 0) {
                 events.add(new Event(tick, Kind.WHEEL, speed / trueScale + wheelSigma * gaussian(rnd), 0, 0, 0));
             }
@@ -100,8 +107,9 @@ class NonlinearModelVsHipparchusTest {
                 double ws = Math.sqrt(1 - share) * sigma;
                 double c = Math.cos(yaw);
                 double s = Math.sin(yaw);
-                double fe = e + LEVER_FWD_M * c - LEVER_LEFT_M * s + errE + ws * gaussian(rnd);
-                double fn = n + LEVER_FWD_M * s + LEVER_LEFT_M * c + errN + ws * gaussian(rnd);
+                // The fix is stamped LATENCY_S after the time it was valid for.
+                double fe = e + LEVER_FWD_M * c - LEVER_LEFT_M * s - speed * LATENCY_S * c + errE + ws * gaussian(rnd);
+                double fn = n + LEVER_FWD_M * s + LEVER_LEFT_M * c - speed * LATENCY_S * s + errN + ws * gaussian(rnd);
                 events.add(new Event(tick, Kind.FIX, 0, fe, fn, sigma));
             }
             // Truth moves on to the next 10 ms tick along an arc.
@@ -137,10 +145,14 @@ class NonlinearModelVsHipparchusTest {
         private double prevRate;
         private double prevRateT = Double.NaN;
         private double corrVar;
+        private final double nominalWheelS;
+        private final double nominalRateS;
 
         VehicleProcess(List<Event> inputs, FilterSettings fs, HipparchusVehicleModel model) {
             this.inputs = inputs;
             this.model = model;
+            this.nominalWheelS = 1.0 / fs.wheelSpeedRateHz();
+            this.nominalRateS = 1.0 / fs.gyroRateHz();
             // Before any fix the correlated variance comes from the default sigma.
             this.corrVar = model.correlatedVarianceM2(fs.gnssDefaultSigmaM());
         }
@@ -179,7 +191,8 @@ class NonlinearModelVsHipparchusTest {
             }
             // From this fix on, the Gauss-Markov noise uses the correlated share of its variance.
             corrVar = model.correlatedVarianceM2(fix.sigmaM());
-            return new NonLinearEvolution(fix.getTime(), new ArrayRealVector(x), phi, q, model.positionJacobian(x));
+            return new NonLinearEvolution(fix.getTime(), new ArrayRealVector(x), phi, q,
+                    model.positionJacobian(x, heldWheel));
         }
 
         /**
@@ -207,32 +220,43 @@ class NonlinearModelVsHipparchusTest {
                 wheel = heldWheel;
             }
             double rate = onTrend(heldRate, rateT, prevRate, prevRateT, mid);
-            return model.step(x, dt, wheel, rate, corrVar);
+            // The first reading of a stream has no interval yet: the configured rate's stands in.
+            double wheelInterval = wheelT - prevWheelT > 0.0 ? wheelT - prevWheelT : nominalWheelS;
+            double rateInterval = rateT - prevRateT > 0.0 ? rateT - prevRateT : nominalRateS;
+            double previous = Double.isNaN(prevRateT) ? heldRate : prevRate;
+            return model.step(x, dt, new HipparchusVehicleModel.Inputs(wheel, rate, heldRate, previous, wheelInterval,
+                    rateInterval, corrVar));
         }
 
         @Override
         public RealVector getInnovation(Position fix, NonLinearEvolution evolution, RealMatrix innovationCovariance) {
-            return model.innovation(fix, evolution.getCurrentState());
+            return model.innovation(fix, evolution.getCurrentState(), heldWheel);
         }
     }
 
     @Test
     void wayholdAgreesWithTheSameModelRunThroughHipparchusAfterEveryFix() {
-        FilterSettings fs = FilterSettings.defaults();
-        // Every fix applied: a gate of 1 - 1e-12 (threshold 55.3) and one agreeing fix to reacquire.
+        FilterSettings fs = HipparchusVehicleModel.modelledSettings(FilterSettings.defaults());
+        // Every fix applied: a gate of 1 - 1e-12 (threshold 55.3), and a 60 s gap before an outage.
         GatingSettings gating = new GatingSettings(1.0 - 1e-12, 1);
-        NavigationFilter wayhold = FilterFixtures.filter(fs, gating, new VehicleProfile(LEVER_FWD_M, LEVER_LEFT_M, 0.0));
+        double latencySigmaS = 0.05;
+        VehicleProfile profile = new VehicleProfile(LEVER_FWD_M, LEVER_LEFT_M, 0.0, 0.0, 0.0, latencySigmaS, 1.0, 1.0);
+        NavigationFilter wayhold = FilterFixtures.filter(fs, gating, new OutageSettings(60.0, 10.0), profile);
 
-        // Start 1 m and 1 deg off the truth with a covariance that says so; bias and scale uncalibrated.
+        // Start 1 m and 1 deg off the truth with a covariance that says so; bias, scales and latency
+        // uncalibrated, the lever arm known.
         double corr0 = fs.gnssCorrelatedShare() * fs.gnssDefaultSigmaM() * fs.gnssDefaultSigmaM();
-        double[] x0 = FilterFixtures.state(0.8, -0.6, 0.3 + Math.toRadians(1.0), 0.0, 1.0, 0.0, 0.0);
+        double[] x0 = FilterFixtures.withLever(
+                FilterFixtures.state(0.8, -0.6, 0.3 + Math.toRadians(1.0), 0.0, 1.0, 0.0, 0.0), LEVER_FWD_M, LEVER_LEFT_M);
         double[] p0 = FilterFixtures.diagonal(2.0, 2.0, Math.pow(Math.toRadians(2.0), 2),
                 Math.pow(fs.initialGyroBiasSigmaRadPerS(), 2), Math.pow(fs.initialSpeedScaleSigma(), 2), corr0, corr0);
+        p0[StateIndex.GYRO_SCALE * N + StateIndex.GYRO_SCALE] = Math.pow(fs.initialGyroScaleSigma(), 2);
+        p0[StateIndex.GNSS_LATENCY * N + StateIndex.GNSS_LATENCY] = latencySigmaS * latencySigmaS;
         wayhold.initialize(0.0, x0, p0);
 
-        List<Event> events = drive(4242L);
+        List<Event> events = drive(7L);
         List<Event> inputs = events.stream().filter(ev -> ev.kind() != Kind.FIX).toList();
-        HipparchusVehicleModel model = new HipparchusVehicleModel(fs, LEVER_FWD_M, LEVER_LEFT_M);
+        HipparchusVehicleModel model = new HipparchusVehicleModel(fs);
         VehicleProcess process = new VehicleProcess(inputs, fs, model);
         ExtendedKalmanFilter<Position> hipparchus = new ExtendedKalmanFilter<>(new CholeskyDecomposer(1e-12, 1e-14),
                 process, new ProcessEstimate(0.0, new ArrayRealVector(x0), HipparchusVehicleModel.square(p0)));
@@ -252,7 +276,7 @@ class NonlinearModelVsHipparchusTest {
                             ev.north(), Double.NaN);
                     assertThat(outcome.used()).as("fix at %s s: %s", ev.t(), outcome).isTrue();
                     if (ev.t() - previousFixT > 29.0) {
-                        assertThat(outcome.kind()).isEqualTo(GnssOutcome.Kind.REACQUIRED);
+                        assertThat(outcome.kind()).isEqualTo(GnssOutcome.Kind.ACCEPTED);
                         sawOutageEnd = true;
                     }
                     previousFixT = ev.t();
@@ -273,5 +297,12 @@ class NonlinearModelVsHipparchusTest {
         assertThat(sawOutageEnd).isTrue();
         assertThat(worstState).isLessThan(TOL);
         assertThat(worstCov).isLessThan(TOL);
+        // The window monitor widens on about one window of ten fixes in a thousand by design (its own tests
+        // check it); this seed's fixes never trip it, so what was compared is the model alone.
+        assertThat(wayhold.snapshot().counts().get(FilterCounter.COVARIANCE_WIDENINGS)).isZero();
+        // The run exercised the calibration states: they moved towards the truth.
+        double[] x = wayhold.state();
+        assertThat(x[StateIndex.GYRO_SCALE]).isCloseTo(1.01, within(0.005));
+        assertThat(x[StateIndex.GNSS_LATENCY]).isCloseTo(LATENCY_S, within(0.03));
     }
 }

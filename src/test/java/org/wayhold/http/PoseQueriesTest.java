@@ -187,13 +187,18 @@ class PoseQueriesTest {
         JsonNode p = LiveServer.json(server.get("/v1/vehicles/" + CAR + "/pose"));
         assertThat(p.fieldNames()).toIterable().containsExactly("t", "lat", "lon", "alt", "east", "north", "up",
                 "heading_deg", "heading_sigma_deg", "speed", "yaw_rate", "cov", "ellipse95", "radius95", "state",
-                "outage", "gyro_bias", "speed_scale", "last_fix_t", "alert_limit", "origin");
+                "reasons", "outage", "gyro_bias", "speed_scale", "last_fix_t", "alert_limit", "origin");
         assertThat(p.get("cov").fieldNames()).toIterable().containsExactly("ee", "en", "nn");
         assertThat(p.get("ellipse95").fieldNames()).toIterable().containsExactly("semi_major", "semi_minor",
                 "orientation_deg");
         assertThat(p.get("outage").fieldNames()).toIterable().containsExactly("active", "since", "seconds", "meters");
         assertThat(p.get("origin").fieldNames()).toIterable().containsExactly("lat", "lon", "alt");
-        assertThat(p.get("radius95").asDouble()).isEqualTo(p.get("ellipse95").get("semi_major").asDouble());
+        // The circular R95 lies between 1.96 and 2.448 sigma of the larger axis; the 95 % ellipse's
+        // semi-major axis is 2.448 sigma (chi-square, 2 dof, 0.95: 5.991 = 2.448^2, NIST/SEMATECH
+        // e-Handbook 1.3.6.7.4).
+        double semiMajor = p.get("ellipse95").get("semi_major").asDouble();
+        assertThat(p.get("radius95").asDouble()).isBetween(1.95996 / 2.44775 * semiMajor, semiMajor * (1 + 1e-9));
+        assertThat(p.get("reasons").isArray()).isTrue();
         // Epoch times are written in plain decimal and parse back to the sample's own double.
         String text = server.get("/v1/vehicles/" + CAR + "/pose").body();
         assertThat(text).doesNotContain("E9");

@@ -3,12 +3,24 @@ package org.wayhold.http;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.ByteArrayInputStream;
+import java.io.FilterInputStream;
+import java.io.IOException;
+import java.io.InputStream;
 import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
 import java.util.List;
+import java.util.Locale;
+import java.util.Optional;
+import java.util.concurrent.CompletableFuture;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.wayhold.sample.Sample;
+import org.wayhold.session.SessionLog;
+import org.wayhold.session.SessionRegistry;
 import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.Settings;
 
@@ -29,6 +41,80 @@ class SampleIngestTest {
     @AfterAll
     static void stop() {
         server.close();
+    }
+
+    /** A record that becomes durable only when someone waits for it: the journal's write takes as long as that. */
+    private static final class DurableWhenAwaited extends CompletableFuture<Long> {
+        private final long seq;
+
+        DurableWhenAwaited(long seq) {
+            this.seq = seq;
+        }
+
+        @Override
+        public Long get() throws InterruptedException, java.util.concurrent.ExecutionException {
+            complete(seq);
+            return super.get();
+        }
+    }
+
+    /**
+     * Rule: a chunk waiting for the journal holds its samples, so a long body must not run ahead of the
+     * journal by more than {@link SampleIngest#CHUNKS_IN_FLIGHT} chunks; memory then stays bounded
+     * whatever the body's size, and the reply still counts every sample. Records here become durable
+     * only when the ingest waits for them, so the count of records still waiting when the body's end is
+     * read is exactly how far the ingest ran ahead (exact: counting, no timing).
+     */
+    @Test
+    void aLongBodyRunsAheadOfTheJournalByAFewChunksOnly() throws IOException {
+        List<DurableWhenAwaited> records = new ArrayList<>();
+        SessionLog log = new SessionLog() {
+            @Override
+            public synchronized CompletableFuture<Long> batch(String vehicleId, List<? extends Sample> samples) {
+                DurableWhenAwaited r = new DurableWhenAwaited(records.size());
+                records.add(r);
+                return r;
+            }
+
+            @Override
+            public CompletableFuture<Long> delete(String vehicleId) {
+                return SessionLog.DONE;
+            }
+        };
+        Settings settings = LiveServer.settings(s -> s);
+        SessionRegistry sessions = new SessionRegistry(settings, null, log);
+        int chunks = SampleIngest.CHUNKS_IN_FLIGHT + 6;
+        int samples = chunks * SampleIngest.CHUNK_SAMPLES;
+        StringBuilder body = new StringBuilder();
+        for (int i = 0; i < samples; i++) {
+            body.append(String.format(Locale.ROOT, "{\"type\":\"wheel_speed\",\"t\":%.2f,\"speed\":3.0}\n",
+                    1_800_000_000.0 + 0.01 * i));
+        }
+        long[] waitingAtEnd = {-1};
+        InputStream in = new FilterInputStream(new ByteArrayInputStream(body.toString().getBytes(StandardCharsets.UTF_8))) {
+            @Override
+            public int read(byte[] b, int off, int len) throws IOException {
+                int n = super.read(b, off, len);
+                if (n < 0 && waitingAtEnd[0] < 0) {
+                    waitingAtEnd[0] = records.stream().filter(r -> !r.isDone()).count();
+                }
+                return n;
+            }
+        };
+        PoseStreams streams = new PoseStreams(settings.server().sseKeepAliveS(), settings.server().maxStreams());
+        try (ServiceMetrics metrics = new ServiceMetrics(sessions, streams, Optional.empty())) {
+            SampleIngest ingest = new SampleIngest(sessions, metrics,
+                    new IngestRate(settings.server().maxSamplesPerSecondPerVehicle(), settings.server().rateBurstS(),
+                            System::nanoTime),
+                    new UploadSlots(1), new IdempotentReplies(0, 1.0, 0, System::currentTimeMillis),
+                    SampleIngest.ReplyLog.NONE, System::nanoTime, System::currentTimeMillis);
+            SampleIngest.Outcome outcome = ingest.ingest(new SampleIngest.Post("long", SampleIngest.Format.NDJSON,
+                    SampleIngest.Encoding.IDENTITY, -1, in, null));
+            assertThat(new ObjectMapper().readTree(outcome.json()).get("accepted").asLong()).isEqualTo(samples);
+        }
+        assertThat(records).hasSize(chunks);
+        assertThat(waitingAtEnd[0]).isBetween(1L, (long) SampleIngest.CHUNKS_IN_FLIGHT);
+        assertThat(records).allMatch(CompletableFuture::isDone);
     }
 
     private static JsonNode post(String vehicle, String contentType, String body) {

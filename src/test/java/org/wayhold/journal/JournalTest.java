@@ -11,6 +11,7 @@ import java.io.RandomAccessFile;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -43,6 +44,8 @@ class JournalTest {
         final List<String> events = new ArrayList<>();
         final Map<String, byte[]> restored = new HashMap<>();
         final List<List<Sample>> batches = new ArrayList<>();
+        /** Deletions as they void kept replies: every deletion read, whether or not it is replayed. */
+        final List<String> voids = new ArrayList<>();
 
         @Override
         public void restore(String vehicleId, byte[] snapshot) {
@@ -59,6 +62,16 @@ class JournalTest {
         @Override
         public void delete(String vehicleId, long seq) {
             events.add("delete " + vehicleId + " " + seq);
+        }
+
+        @Override
+        public void reply(Journal.KeptReply reply) {
+            events.add("reply " + reply.vehicleId() + " " + reply.seq() + " " + Arrays.toString(reply.reply()));
+        }
+
+        @Override
+        public void repliesVoided(String vehicleId, long seq) {
+            voids.add(vehicleId + " below " + seq);
         }
     }
 
@@ -188,6 +201,63 @@ class JournalTest {
         assertThat(r.batches).containsExactly(batch(7));
     }
 
+    /**
+     * Rule: a start reads no segment wholly older than what its snapshot needs, so a kept reply must come
+     * back from the snapshot (with the number of its record) once its segment is no longer read; reply
+     * records after the snapshot come back from the journal, and a deletion anywhere voids what was
+     * handed over before it. Exact event lists: the same code on hand-made records.
+     */
+    @Test
+    void keptRepliesComeBackFromTheSnapshotOnceTheirSegmentIsNoLongerRead(@TempDir Path dir) throws IOException {
+        long replySeq;
+        long[] keptAt = {-2};
+        try (Journal j = Journal.open(dir, FAST)) {
+            j.recover(new Recorder());
+            Journal.await(j.append("a", batch(0)));
+            replySeq = Journal.await(j.appendReply("a", new byte[] {7}, seq -> keptAt[0] = seq));
+            // Enough batches to fill the first 4 KiB segment and start another.
+            for (int k = 1; k < 60; k++) {
+                Journal.await(j.append("a", batch(k)));
+            }
+            long floor = j.nextSeq();
+            j.writeSnapshot(floor, j.firstPendingSeq(), List.of("a"), (id, out) -> {
+                out.write(1);
+                return new Journal.SnapshotEntry(floor - 1, null);
+            }, List.of(new Journal.KeptReply("a", replySeq, new byte[] {7})));
+            Journal.await(j.appendReply("a", new byte[] {8}, seq -> { }));
+            Journal.await(j.appendDelete("a"));
+        }
+        assertThat(keptAt[0]).as("the reply is kept with the number of its record").isEqualTo(replySeq);
+        try (Stream<Path> s = Files.list(dir)) {
+            assertThat(s.filter(p -> p.getFileName().toString().endsWith(".wal")).count()).isGreaterThan(1);
+        }
+        Recorder r = new Recorder();
+        try (Journal j = Journal.open(dir, FAST)) {
+            j.recover(r);
+        }
+        assertThat(r.events).containsExactly("reply a " + replySeq + " [7]", "restore a", "reply a 61 [8]",
+                "delete a 62");
+        assertThat(r.voids).containsExactly("a below 62");
+    }
+
+    /**
+     * What recovery keeps of the replies it is handed: each once, without those a later deletion of their
+     * vehicle voids (only those numbered below the deletion: a reply of the vehicle's next session, in a
+     * snapshot read before the deletion's record, stays), and oldest first beyond the byte bound.
+     */
+    @Test
+    void recoveredRepliesAreVoidedByNumberAndBoundedInBytes() {
+        SessionJournal.Replies replies = new SessionJournal.Replies(3);
+        replies.add(new Journal.KeptReply("a", 5, new byte[] {1}));
+        replies.add(new Journal.KeptReply("a", 5, new byte[] {1}));
+        replies.add(new Journal.KeptReply("b", 6, new byte[] {2}));
+        replies.add(new Journal.KeptReply("a", 9, new byte[] {3}));
+        replies.voidVehicle("a", 7);
+        assertThat(replies.list()).extracting(Journal.KeptReply::seq).containsExactly(6L, 9L);
+        replies.add(new Journal.KeptReply("c", 10, new byte[] {4, 4}));
+        assertThat(replies.list()).extracting(Journal.KeptReply::seq).containsExactly(9L, 10L);
+    }
+
     @Test
     void appendsAfterCloseFailAtOnceInsteadOfWaitingForever(@TempDir Path dir) throws IOException {
         Journal j = Journal.open(dir, FAST);
@@ -197,10 +267,11 @@ class JournalTest {
         assertThat(j.appendDelete("a")).isCompletedExceptionally();
     }
 
-    /** Size of one batch record on disk: 8 header bytes and the payload. */
+    /** Size of one batch record on disk: 8 header bytes and the payload, which starts with its sequence number. */
     private static long recordBytes(List<Sample> batch) throws IOException {
         ByteArrayOutputStream bytes = new ByteArrayOutputStream();
         DataOutputStream out = new DataOutputStream(bytes);
+        out.writeLong(0L);
         out.writeByte(1);
         out.writeUTF("a");
         out.writeInt(batch.size());

@@ -9,18 +9,18 @@ import org.wayhold.simulate.SimulatedDrive;
 import org.wayhold.simulate.SimulationSettings;
 
 /** Seeded simulated drives as scoring inputs. */
-final class SimulatedLogs {
+public final class SimulatedLogs {
 
     private SimulatedLogs() {
     }
 
     /** A drive of the given minutes, 120 s of open-sky warm-up, then tunnels of the given seconds. */
-    static SimulatedDrive drive(double minutes, long seed, double... tunnelsS) {
+    public static SimulatedDrive drive(double minutes, long seed, double... tunnelsS) {
         return DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(minutes).withWarmUpS(120)
                 .withTunnelsS(tunnelsS), seed);
     }
 
-    static ScoringRun.LogSource source(String name, List<Sample> samples) {
+    public static ScoringRun.LogSource source(String name, List<Sample> samples) {
         return new ScoringRun.LogSource() {
             @Override
             public String name() {
@@ -34,15 +34,15 @@ final class SimulatedLogs {
         };
     }
 
-    static List<Sample> withoutReference(List<Sample> samples) {
+    public static List<Sample> withoutReference(List<Sample> samples) {
         return samples.stream().filter(s -> !(s instanceof ReferencePoint)).toList();
     }
 
-    static ScoringRun.Options options(WindowPlan.Schedule schedule, double minAidedS, boolean traces) {
+    public static ScoringRun.Options options(WindowPlan.Schedule schedule, double minAidedS, boolean traces) {
         return new ScoringRun.Options(schedule, minAidedS, 0.1, "default", traces, 2);
     }
 
-    static List<ScoringRun.NamedSettings> defaults() {
+    public static List<ScoringRun.NamedSettings> defaults() {
         return List.of(new ScoringRun.NamedSettings("default", "built-in defaults", Settings.defaults()));
     }
 }

@@ -26,20 +26,20 @@ class SessionLogOrderTest {
         volatile boolean failing;
 
         @Override
-        public CompletableFuture<?> batch(String vehicleId, List<? extends Sample> samples) {
+        public CompletableFuture<Long> batch(String vehicleId, List<? extends Sample> samples) {
             records.add("batch " + vehicleId + " " + samples.size() + " from t=" + samples.get(0).t());
             return outcome();
         }
 
         @Override
-        public CompletableFuture<?> delete(String vehicleId) {
+        public CompletableFuture<Long> delete(String vehicleId) {
             records.add("delete " + vehicleId);
             return outcome();
         }
 
-        private CompletableFuture<?> outcome() {
+        private CompletableFuture<Long> outcome() {
             return failing ? CompletableFuture.failedFuture(new IOException("disk full"))
-                    : CompletableFuture.completedFuture(null);
+                    : CompletableFuture.completedFuture((long) records.size() - 1);
         }
     }
 
@@ -76,14 +76,28 @@ class SessionLogOrderTest {
         assertThat(log.records).isEmpty();
     }
 
+    /**
+     * Rule: a batch is applied only once its record is durable (write-ahead), so a batch the log could
+     * not write is reported to the caller and is not in the session, and a deletion that could not be
+     * written leaves the session in place: memory never holds what a restart would not bring back.
+     */
     @Test
-    void aLogThatCannotWriteIsReportedToTheCaller() {
+    void aLogThatCannotWriteIsReportedToTheCallerAndNothingIsApplied() throws IOException {
         Recording log = new Recording();
         SessionRegistry registry = new SessionRegistry(Settings.defaults(), null, log);
+        registry.submit("a", speeds(100.0, 3)).awaitRecorded();
         log.failing = true;
-        SessionRegistry.Submission s = registry.submit("a", speeds(100.0, 2));
-        assertThat(s.admissions()).hasSize(2);
-        assertThatThrownBy(s::awaitRecorded).isInstanceOf(IOException.class).hasMessage("disk full");
+        SessionRegistry.Submission s = registry.submit("a", speeds(200.0, 2));
+        assertThatThrownBy(s::admissions).isInstanceOf(IOException.class).hasMessage("disk full");
+        assertThat(registry.find("a").orElseThrow().session().stats().wheelSpeedApplied())
+                .as("only the batch that was written").isEqualTo(3);
         assertThatThrownBy(() -> registry.delete("a")).isInstanceOf(IOException.class);
+        assertThat(registry.find("a")).as("a deletion that was not written does not happen").isPresent();
+        SessionRegistry.Submission first = registry.submit("b", speeds(300.0, 1));
+        assertThatThrownBy(first::awaitRecorded).isInstanceOf(IOException.class);
+        assertThat(registry.find("b")).as("a first batch that was not written leaves no session").isEmpty();
+        log.failing = false;
+        assertThat(registry.submit("a", speeds(200.0, 2)).admissions()).hasSize(2);
+        assertThat(registry.find("a").orElseThrow().session().stats().wheelSpeedApplied()).isEqualTo(5);
     }
 }
