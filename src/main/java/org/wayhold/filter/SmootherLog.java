@@ -334,9 +334,9 @@ public final class SmootherLog {
     /**
      * C = C F' in place, over the structure of F ({@link MotionModel#COUPLINGS}: the diagonal and ten
      * couplings, the same pattern {@link CovariancePrediction} uses): 231 multiplications where EJML's
-     * dense product takes 1,331; measured 1.8 times faster than it in CPU time (322 against 577 ns per
-     * product, {@code CrossCovarianceBenchmark} in the benchmarks), which matters because it runs at
-     * every step of a recording filter (360,000 steps in an hour of 100 Hz yaw rate).
+     * dense product takes 1,331; measured 1.8 to 1.9 times faster than it in CPU time
+     * ({@code CrossCovarianceBenchmark}, bench/RESULTS.md), which matters because it runs at every step
+     * of a recording filter (360,000 steps in an hour of 100 Hz yaw rate).
      *
      * @param c   C, row-major SIZE x SIZE (replaced by C F')
      * @param f   F, row-major SIZE x SIZE (not modified)
