@@ -23,7 +23,7 @@ import java.util.Arrays;
 public final class FilterState {
 
     /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
-    static final int FORMAT = 4;
+    static final int FORMAT = 5;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
@@ -88,6 +88,8 @@ public final class FilterState {
         LAST_KIND(-1.0),
         /** Normalised innovation squared of the newest fix (unitless), NaN when not computed. */
         LAST_NIS(Double.NaN),
+        /** ln det S of the newest fix's position innovation (ln m^4), NaN when not computed. */
+        LAST_LOG_DET_S(Double.NaN),
         /** Alignment anchor: where the vehicle was while its yaw was unknown, east (m). */
         ANCHOR_EAST_M(Double.NaN),
         /** Alignment anchor, north (m). */
