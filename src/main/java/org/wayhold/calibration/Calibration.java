@@ -250,11 +250,16 @@ public final class Calibration {
                 continue;
             }
             double[] est = pooled(second, p);
-            // The same criterion as the likelihood's: the 95 % interval, +-1.96 sigma, inside the resolution.
+            // Kept when the 95 % interval, +-1.96 sigma, lies inside the resolution (the likelihood's
+            // criterion), or when it excludes the configured value: then the estimate, with its sigma, is
+            // better than a value the data rejects.
             double limit = p.resolution() / 1.96;
-            boolean ok = est[1] <= limit;
+            boolean resolved = est[1] <= limit;
+            boolean rejectsConfigured = Math.abs(est[0] - configured[i]) > 1.96 * est[1];
+            boolean ok = resolved || rejectsConfigured;
             String note = ok ? "" : String.format(Locale.ROOT, "left at the configured value: the filter's 1-sigma "
-                    + "after the drives is %.3g %s, at most %.3g needed", est[1], p.unitName(), limit);
+                    + "after the drives is %.3g %s (at most %.3g needed), and the configured value lies within "
+                    + "1.96 sigma of the estimate", est[1], p.unitName(), limit);
             double drop = 0.5 * (p.resolution() / est[1]) * (p.resolution() / est[1]);
             estimates.put(p, new Estimate(p, configured[i], start[i], est[0], est[1], drop, ok, note));
             if (ok) {
