@@ -14,6 +14,7 @@ import org.wayhold.calibration.Calibration;
 import org.wayhold.calibration.CalibrationDrive;
 import org.wayhold.calibration.CalibrationRefused;
 import org.wayhold.calibration.CalibrationResult;
+import org.wayhold.calibration.DriveSupport;
 import org.wayhold.calibration.HoldOut;
 import org.wayhold.calibration.Parameter;
 import org.wayhold.config.ConfigLoader;
@@ -131,6 +132,15 @@ final class CalibrateCommand implements Callable<Integer> {
             held.add(parts.get(1));
             inputs.add(String.format(Locale.ROOT, "%s: %d samples, %d lines rejected, %.0f s", log, r.samples().size(),
                     r.rejected().size(), d.endT() - d.startT()));
+        }
+        if (strict) {
+            // What the drives lack is known before any fit: refuse at once.
+            Map<Parameter, String> lacking = DriveSupport.of(fit).unsupported();
+            if (!lacking.isEmpty() && DriveSupport.of(fit).refusal() == null) {
+                throw new CalibrationRefused("cannot calibrate every parameter from " + names() + " (--strict): "
+                        + String.join("; ", lacking.entrySet().stream()
+                        .map(e -> e.getKey().label() + ": " + e.getValue()).toList()));
+            }
         }
         Progress progress = new Progress(err, quiet, startNs);
         CalibrationResult result;
