@@ -126,6 +126,11 @@ public final class Calibration {
             throw new CalibrationRefused(refusal);
         }
         List<String> notes = new ArrayList<>();
+        if (drives.stream().anyMatch(CalibrationDrive::hasVelocity)) {
+            notes.add("GNSS speed and course were left out of the fit (positions only): the filter's course model "
+                    + "has no latency term, so courses would pin the forward lever arm at -speed x latency");
+            drives = drives.stream().map(CalibrationDrive::positionsOnly).toList();
+        }
         listener.stage("reading noise from the readings");
         double wheelNoise = ReadingNoise.wheelSpeedMps(drives);
         double gyroNoise = ReadingNoise.yawRateRadPerS(drives);

@@ -3,6 +3,7 @@ package org.wayhold.calibration;
 import java.util.ArrayList;
 import java.util.List;
 import org.wayhold.pipeline.OrderedLog;
+import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
 import org.wayhold.settings.OrderingSettings;
 
@@ -28,6 +29,35 @@ public record CalibrationDrive(String name, List<Sample> samples) {
      */
     public static CalibrationDrive of(String name, List<? extends Sample> fileOrder, OrderingSettings ordering) {
         return new CalibrationDrive(name, OrderedLog.order(fileOrder, ordering).samples());
+    }
+
+    /**
+     * The same drive with GNSS speed and course taken off the fixes (positions kept): the filter's
+     * course model leaves the fix latency out, so in a turn a late course reads as the course lag of an
+     * antenna behind the reference point, and a drive with courses would pin the forward lever arm at
+     * -speed x latency.
+     *
+     * @return this drive when no fix carries speed or course
+     */
+    public CalibrationDrive positionsOnly() {
+        if (samples.stream().noneMatch(s -> s instanceof GnssFix f && (f.hasSpeed() || f.hasCourse()))) {
+            return this;
+        }
+        List<Sample> out = new ArrayList<>(samples.size());
+        for (Sample s : samples) {
+            if (s instanceof GnssFix f && (f.hasSpeed() || f.hasCourse())) {
+                out.add(new GnssFix(f.t(), f.latDeg(), f.lonDeg(), f.altM(), f.sigmaHM(), f.sigmaVM(), f.fix(),
+                        f.sats(), f.hdop(), Double.NaN, Double.NaN));
+            } else {
+                out.add(s);
+            }
+        }
+        return new CalibrationDrive(name, out);
+    }
+
+    /** True when some fix carries a GNSS speed or course. */
+    public boolean hasVelocity() {
+        return samples.stream().anyMatch(s -> s instanceof GnssFix f && (f.hasSpeed() || f.hasCourse()));
     }
 
     /** Time of the first sample (s), NaN when empty. */
