@@ -30,23 +30,34 @@ import org.wayhold.settings.VehicleProfile;
  * <ol>
  *   <li>What the drives support ({@link DriveSupport}): none at all is refused
  *       ({@link CalibrationRefused}); constants that need turns or speed changes the drives lack are
- *       left at their configured values.</li>
+ *       left at their configured values. Fixes lose their GNSS speed and course (the filter's course
+ *       model has no latency term; see {@link CalibrationDrive#positionsOnly()}).</li>
  *   <li>Wheel-speed and gyro reading noise from the readings ({@link ReadingNoise}): the innovations
  *       hardly see it. How flat the likelihood is in them is measured and reported.</li>
- *   <li>The constants (latency, lever arm, odometer and gyro scale) are filter states: one replay with
- *       the configured priors gives their converged estimates, the optimiser's start. In every
- *       evaluation after that they are held fixed (zero prior variance), so that the likelihood is their
- *       profile rather than a filter learning them afresh: estimated as states they would absorb any
- *       change of their prior, and the likelihood would be flat in it.</li>
+ *   <li>The constants (latency, lever arm, odometer and gyro scale) are filter states. One replay with
+ *       the configured priors gives their converged estimates; the likelihood evaluations then hold them
+ *       there (zero prior variance), so that the noise is fitted to the vehicle's geometry rather than
+ *       to a filter still learning it.</li>
  *   <li>BOBYQA (Powell, "The BOBYQA algorithm for bound constrained optimization without derivatives",
  *       Cambridge report DAMTP 2009/NA06; the Apache Commons Math implementation) maximises ln L over
- *       the noise parameters on log scale and the constants. It is derivative-free and builds quadratic
- *       models from function values spread over its trust region, so the steps the filter's decisions
- *       put into ln L do not mislead it as they would a gradient method.</li>
- *   <li>Support: each estimate is moved by its {@link Parameter#resolution()} either way; unless ln L
- *       falls by at least {@link #SUPPORT_DROP} on both sides (the likelihood-ratio 95 % interval lies
- *       inside that resolution: Wilks, Ann. Math. Statist. 9, 1938; chi-square(1) 0.95 quantile 3.841,
- *       halved), the data cannot tell the value and the configured one is kept.</li>
+ *       the noise parameters on log scale. It is derivative-free and builds quadratic models from
+ *       function values spread over its trust region, so the steps the filter's decisions put into ln L
+ *       do not mislead it as they would a gradient method. Random walks the likelihood is flat in at the
+ *       start are not searched.</li>
+ *   <li>Support of each noise estimate: it is moved by its {@link Parameter#resolution()} either way;
+ *       unless ln L falls by at least {@link #SUPPORT_DROP} on both sides (the likelihood-ratio 95 %
+ *       interval lies inside that resolution: Wilks, Ann. Math. Statist. 9, 1938; chi-square(1) 0.95
+ *       quantile 3.841, halved), the data cannot tell the value and the configured one is kept. A
+ *       better neighbour restarts the optimiser once.</li>
+ *   <li>The constants' estimates: the filter's converged states in a replay under the fitted noise,
+ *       with the configured priors, and the filter's 1-sigma. A constant state's filtered estimate at
+ *       the end of a drive has seen the whole drive, so it equals its smoothed estimate; with a prior
+ *       far wider than the result it approaches the maximum-likelihood value. Refining them by the
+ *       likelihood was tried and measured useless: the profile likelihood in them is flat within their
+ *       resolutions, because the correlated GNSS error state and the filter's own online learning of
+ *       the scales absorb small constant offsets, and the optimiser did not move them. A constant is
+ *       kept when its 1-sigma is below resolution / 1.96 (the same 95 % criterion) or when its 95 %
+ *       interval excludes the configured value.</li>
  * </ol>
  */
 public final class Calibration {

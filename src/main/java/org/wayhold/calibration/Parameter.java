@@ -1,8 +1,8 @@
 package org.wayhold.calibration;
 
 /**
- * What {@link Calibration} fits by likelihood, with the bounds it searches and the change it must be
- * able to tell apart.
+ * What {@link Calibration} fits (the noise by likelihood, the constants as filter states), with the
+ * bounds it searches and the change it must be able to tell apart.
  *
  * <p>Noise parameters are searched on the log of their value (they are positive and span orders of
  * magnitude); constants on their value. The optimiser works on value / {@link #unit()} (or the log),
@@ -10,8 +10,9 @@ package org.wayhold.calibration;
  *
  * <p>{@link #resolution()} is the change the data must be able to tell apart for an estimate to be
  * kept: a factor of 1.5 for noise densities; 20 ms of latency, 0.3 m of lever arm, 0.2 % of odometer
- * scale and 0.3 % of gyro scale (the project's calibration targets). An estimate is kept when moving it
- * by that much either way lowers the log-likelihood by at least {@link Calibration#SUPPORT_DROP}.
+ * scale and 0.3 % of gyro scale (the project's calibration targets). A noise estimate is kept when moving
+ * it by that much either way lowers the log-likelihood by at least {@link Calibration#SUPPORT_DROP}; a
+ * constant when the filter's 1-sigma of it is below resolution / 1.96, the same 95 % criterion.
  */
 public enum Parameter {
     /** White part of the GNSS horizontal error per axis, at a typical fix (m). */

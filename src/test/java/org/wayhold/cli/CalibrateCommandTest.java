@@ -55,7 +55,8 @@ class CalibrateCommandTest {
     void writesAProfileThatLoadsRoundTripsAndScoresWithAReportBesideIt(@TempDir Path dir) throws Exception {
         Path log = write(dir.resolve("drive.ndjson.gz"), simulated(10, 31L));
         Path profile = dir.resolve("car.yaml");
-        Run r = run("calibrate", log.toString(), "--out", profile.toString(), "--outage", "10", "--every", "20");
+        Run r = run("calibrate", log.toString(), "--out", profile.toString(), "--outage", "10", "--every", "20",
+                "--max-evaluations", "60");
         assertThat(r.exit()).as(r.err()).isZero();
         // Progress on stderr, step by step.
         assertThat(r.err()).contains("calibrate:").contains("maximising the likelihood");
