@@ -2,10 +2,12 @@ package org.wayhold.calibration;
 
 import java.util.ArrayList;
 import java.util.EnumMap;
+import java.util.EnumSet;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import java.util.Set;
 import org.apache.commons.math3.exception.TooManyEvaluationsException;
 import org.apache.commons.math3.optim.InitialGuess;
 import org.apache.commons.math3.optim.MaxEval;
@@ -35,9 +37,10 @@ import org.wayhold.settings.VehicleProfile;
  *   <li>Wheel-speed and gyro reading noise from the readings ({@link ReadingNoise}): the innovations
  *       hardly see it. How flat the likelihood is in them is measured and reported.</li>
  *   <li>The constants (latency, lever arm, odometer and gyro scale) are filter states. One replay with
- *       the configured priors gives their converged estimates; the likelihood evaluations then hold them
- *       there (zero prior variance), so that the noise is fitted to the vehicle's geometry rather than
- *       to a filter still learning it.</li>
+ *       the configured priors gives their converged estimates; the likelihood evaluations then hold those
+ *       the drives support there (zero prior variance), so that the noise is fitted to the vehicle's
+ *       geometry rather than to a filter still learning it. The others stay states with their
+ *       configured priors, as they will be in the profile.</li>
  *   <li>BOBYQA (Powell, "The BOBYQA algorithm for bound constrained optimization without derivatives",
  *       Cambridge report DAMTP 2009/NA06; the Apache Commons Math implementation) maximises ln L over
  *       the noise parameters on log scale. It is derivative-free and builds quadratic models from
@@ -69,7 +72,7 @@ public final class Calibration {
     /** BOBYQA's final trust-region radius, in optimiser coordinates. */
     private static final double FINAL_RADIUS = 0.02;
     /** Noise parameters searched only when the likelihood is not flat in them at the start. */
-    private static final java.util.Set<Parameter> SCREENED = java.util.EnumSet.of(Parameter.GYRO_BIAS_WALK,
+    private static final Set<Parameter> SCREENED = EnumSet.of(Parameter.GYRO_BIAS_WALK,
             Parameter.SPEED_SCALE_WALK, Parameter.GYRO_SCALE_WALK);
     /**
      * Prior 1-sigma the written profile keeps at least, whatever the fit's precision (common practice):
@@ -163,7 +166,7 @@ public final class Calibration {
         // The constants as states, with the configured priors: their converged estimates start the fit.
         listener.stage("replaying with the constants as filter states");
         double[] configured = model.configuredValues();
-        Settings asStates = model.settings(configured, false, null);
+        Settings asStates = model.settings(configured, Set.of(), null);
         likelihood.choose(asStates);
         InnovationLikelihood.Replay first = likelihood.replay(asStates, true);
         double[] start = configured.clone();
@@ -173,13 +176,21 @@ public final class Calibration {
             }
         }
 
+        // Constants the drives support are held at their estimates while the noise is fitted; the others
+        // stay filter states with their configured priors, as they will be in the profile.
+        Set<Parameter> held = EnumSet.noneOf(Parameter.class);
+        for (Parameter p : Parameter.values()) {
+            if (p.constant() && !unsupported.containsKey(p)) {
+                held.add(p);
+            }
+        }
         listener.stage("choosing the fixes that count");
-        int counted = likelihood.choose(model.settings(start, true, null));
+        int counted = likelihood.choose(model.settings(start, held, null));
         if (counted < DriveSupport.MIN_FIXES) {
             throw new CalibrationRefused(String.format(Locale.ROOT, "too few fixes the filter accepts: %d after "
                     + "the warm-up, at least %d needed", counted, DriveSupport.MIN_FIXES));
         }
-        Search screen = new Search(likelihood, model, start, List.of(), listener);
+        Search screen = new Search(likelihood, model, start, List.of(), held, listener);
         double startLogL = screen.logLikelihood(start);
         // Random walks the likelihood is flat in at the start are not searched: a flat coordinate costs
         // the optimiser evaluations and ends wherever it wanders.
@@ -210,7 +221,7 @@ public final class Calibration {
             }
         }
         listener.stage("maximising the likelihood over " + free.size() + " noise parameters");
-        Search search = new Search(likelihood, model, start, free, listener);
+        Search search = new Search(likelihood, model, start, free, held, listener);
         search.value(search.coordinates(start));
         double[] best = search.maximise(options.maxEvaluations());
         listener.stage("checking what the likelihood supports");
@@ -254,7 +265,7 @@ public final class Calibration {
                 statesAgain[p.ordinal()] = configured[p.ordinal()];
             }
         }
-        InnovationLikelihood.Replay second = likelihood.replay(model.settings(statesAgain, false, null), true);
+        InnovationLikelihood.Replay second = likelihood.replay(model.settings(statesAgain, Set.of(), null), true);
         for (Parameter p : Parameter.values()) {
             if (!p.constant()) {
                 continue;
@@ -284,7 +295,7 @@ public final class Calibration {
         }
 
         listener.stage("replaying with the calibrated profile");
-        Settings calibrated = model.settings(kept, false, estimates);
+        Settings calibrated = model.settings(kept, Set.of(), estimates);
         InnovationLikelihood.Replay last = likelihood.replay(calibrated, true);
         return new CalibrationResult(calibrated, estimates, wheelNoise, bf.wheelSpeedNoiseMps(), wheelFlatness,
                 gyroNoise, bf.gyroNoiseRadPerS(), gyroFlatness, last.meanGyroBiasRadPerS(), startLogL, bestLogL,
@@ -398,14 +409,17 @@ public final class Calibration {
         final Model model;
         final double[] start;
         final List<Parameter> free;
+        final Set<Parameter> held;
         final Listener listener;
         int evaluations;
         double worst = Double.POSITIVE_INFINITY;
         double bestLogL = Double.NEGATIVE_INFINITY;
         double[] best;
 
-        Search(InnovationLikelihood likelihood, Model model, double[] start, List<Parameter> free, Listener listener) {
+        Search(InnovationLikelihood likelihood, Model model, double[] start, List<Parameter> free, Set<Parameter> held,
+               Listener listener) {
             this.likelihood = likelihood;
+            this.held = held;
             this.model = model;
             this.start = start.clone();
             this.free = free;
@@ -430,9 +444,9 @@ public final class Calibration {
             return v;
         }
 
-        /** ln L at all values, the constants held fixed. */
+        /** ln L at all values, the held constants fixed. */
         double logLikelihood(double[] values) {
-            double l = likelihood.logLikelihood(model.settings(values, true, null));
+            double l = likelihood.logLikelihood(model.settings(values, held, null));
             return Double.isNaN(l) ? worst - FAILED_PENALTY : l;
         }
 
@@ -559,12 +573,12 @@ public final class Calibration {
          * The configuration of parameter values.
          *
          * @param values         indexed by {@link Parameter#ordinal()}
-         * @param constantsFixed hold the constants at their values (zero prior variance, no random walk of
-         *                       the scales beyond the values given), for likelihood evaluations
+         * @param fixed          constants held at their values (zero prior variance) for likelihood
+         *                       evaluations; the others start from their values with the configured priors
          * @param fitted         for the written profile: the estimates, whose precision sets the priors the
          *                       filter starts the constants with; null keeps the configured priors
          */
-        Settings settings(double[] values, boolean constantsFixed, Map<Parameter, Estimate> fitted) {
+        Settings settings(double[] values, Set<Parameter> fixed, Map<Parameter, Estimate> fitted) {
             FilterSettings f = base.filter();
             VehicleProfile p = base.profileFor(vehicle);
             double white = values[Parameter.GNSS_WHITE_M.ordinal()];
@@ -580,11 +594,13 @@ public final class Calibration {
             double gyroScaleSigma = f.initialGyroScaleSigma();
             double leverSigma = p.leverArmSigmaM();
             double latencySigma = p.gnssLatencySigmaS();
-            if (constantsFixed) {
-                speedScaleSigma = 0.0;
-                gyroScaleSigma = 0.0;
-                leverSigma = 0.0;
-                latencySigma = 0.0;
+            if (!fixed.isEmpty()) {
+                speedScaleSigma = fixed.contains(Parameter.SPEED_SCALE) ? 0.0 : speedScaleSigma;
+                gyroScaleSigma = fixed.contains(Parameter.GYRO_SCALE) ? 0.0 : gyroScaleSigma;
+                // One sigma serves both lever-arm axes: held when either is.
+                leverSigma = fixed.contains(Parameter.LEVER_FORWARD_M) || fixed.contains(Parameter.LEVER_LEFT_M)
+                        ? 0.0 : leverSigma;
+                latencySigma = fixed.contains(Parameter.GNSS_LATENCY_S) ? 0.0 : latencySigma;
             } else if (fitted != null) {
                 speedScaleSigma = prior(fitted.get(Parameter.SPEED_SCALE), SPEED_SCALE_SIGMA_FLOOR, speedScaleSigma);
                 gyroScaleSigma = prior(fitted.get(Parameter.GYRO_SCALE), GYRO_SCALE_SIGMA_FLOOR, gyroScaleSigma);

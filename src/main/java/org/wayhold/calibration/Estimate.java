@@ -11,7 +11,9 @@ package org.wayhold.calibration;
  *                      unit; NaN when the curvature is not negative or the parameter was not fitted).
  *                      Conditional on the others, so it understates the joint uncertainty
  * @param drop          how much the log-likelihood falls when the estimate is moved by the parameter's
- *                      resolution either way, the smaller of the two (nats; NaN when not fitted)
+ *                      resolution either way, the smaller of the two (nats; NaN when not fitted); for the
+ *                      constants, the quadratic approximation from the filter's 1-sigma,
+ *                      (resolution / sigma)^2 / 2
  * @param kept          true when the data supports the estimate and the profile carries it
  * @param note          why it was not kept (empty when kept)
  */
