@@ -24,7 +24,7 @@ class ArchitectureTest {
 
     private static final List<String> CORE_PACKAGES = List.of(
             "sample", "geo", "settings", "ordering", "filter", "pipeline", "columns", "pose", "session", "scoring", "fusion",
-            "simulate", "journal", "nmea");
+            "calibration", "simulate", "journal", "nmea");
 
     private static final List<String> FORBIDDEN_PREFIXES = List.of(
             "io.javalin", "com.fasterxml.jackson", "org.yaml", "jakarta.servlet");

@@ -19,7 +19,8 @@ import picocli.CommandLine.Spec;
 @Command(name = "wayhold", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
         scope = ScopeType.INHERIT,
         description = "Holds a road vehicle's position through GNSS dropouts.",
-        subcommands = {SimulateCommand.class, ScoreCommand.class, FuseCommand.class, ServeCommand.class})
+        subcommands = {SimulateCommand.class, ScoreCommand.class, FuseCommand.class, ServeCommand.class,
+                CalibrateCommand.class})
 public final class Main implements Callable<Integer> {
 
     @Spec

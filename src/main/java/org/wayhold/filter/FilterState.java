@@ -22,8 +22,13 @@ import java.util.Arrays;
  */
 public final class FilterState {
 
-    /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
-    static final int FORMAT = 5;
+    /**
+     * Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. Format 6
+     * adds both the time of the last trusted fix and ln det S of the newest fix; states of format 5 were
+     * written with one of the two and not the other, with the same number of slots, so their length
+     * cannot tell them apart and they are refused like every earlier format.
+     */
+    static final int FORMAT = 6;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
@@ -90,6 +95,8 @@ public final class FilterState {
         LAST_KIND(-1.0),
         /** Normalised innovation squared of the newest fix (unitless), NaN when not computed. */
         LAST_NIS(Double.NaN),
+        /** ln det S of the newest fix's position innovation (ln m^4), NaN when not computed. */
+        LAST_LOG_DET_S(Double.NaN),
         /** Alignment anchor: where the vehicle was while its yaw was unknown, east (m). */
         ANCHOR_EAST_M(Double.NaN),
         /** Alignment anchor, north (m). */

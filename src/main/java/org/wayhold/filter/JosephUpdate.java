@@ -39,6 +39,8 @@ final class JosephUpdate {
     private final double[] ph = new double[SIZE * 2];
     private final double[] k = new double[SIZE * 2];
     private final double[] sInv = new double[4];
+    /** det S of the last prepared measurement (m^2 units of its rows, multiplied). */
+    private double detS = Double.NaN;
     private final double[] hp = new double[2 * SIZE];
     private final double[] tmp = new double[SIZE * SIZE];
     private final double[] pNew = new double[SIZE * SIZE];
@@ -82,6 +84,7 @@ final class JosephUpdate {
                 s00 += h[l] * ph[l * 2];
             }
             sInv[0] = 1.0 / s00;
+            detS = s00;
             return;
         }
         // S = H PH' + R (2 x 2), inverted in closed form.
@@ -101,6 +104,7 @@ final class JosephUpdate {
 
     private void invert(double s00, double s01, double s10, double s11) {
         double det = s00 * s11 - s01 * s10;
+        detS = det;
         sInv[0] = s11 / det;
         sInv[1] = -s01 / det;
         sInv[2] = -s10 / det;
@@ -110,6 +114,14 @@ final class JosephUpdate {
     /** Normalised innovation squared nu' S^-1 nu of a prepared two-row measurement (unitless). */
     double nis() {
         return nu[0] * (sInv[0] * nu[0] + sInv[1] * nu[1]) + nu[1] * (sInv[2] * nu[0] + sInv[3] * nu[1]);
+    }
+
+    /**
+     * ln det S of the prepared measurement: with the normalised innovation squared it is the
+     * measurement's term of the Gaussian log-likelihood (Schweppe 1965).
+     */
+    double logDetS() {
+        return Math.log(detS);
     }
 
     /** Normalised innovation squared of a prepared one-row measurement (unitless). */

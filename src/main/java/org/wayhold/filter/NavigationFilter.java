@@ -352,6 +352,7 @@ public final class NavigationFilter {
     public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double upM) {
         s.set(Slot.LAST_FIX_T_REL, s.get(Slot.T_REL));
         s.set(Slot.LAST_NIS, Double.NaN);
+        s.set(Slot.LAST_LOG_DET_S, Double.NaN);
         GnssOutcome.Kind kind = decideGnss(fix, eastM, northM, upM);
         s.set(Slot.LAST_KIND, kind.ordinal());
         switch (kind) {
@@ -403,6 +404,7 @@ public final class NavigationFilter {
         double claimedNis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, claimedWhiteVar);
         double nis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
         s.set(Slot.LAST_NIS, nis);
+        s.set(Slot.LAST_LOG_DET_S, update.logDetS());
         double nuEast = update.nu[0];
         double nuNorth = update.nu[1];
         Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, claimedNis, whiteVar,
@@ -468,6 +470,15 @@ public final class NavigationFilter {
     /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
     public double lastNis() {
         return s.get(Slot.LAST_NIS);
+    }
+
+    /**
+     * ln det S of the last fix's position innovation covariance S = H P H' + R (ln m^4), NaN when not
+     * computed; S is the covariance before any widening a reacquisition applies. With {@link #lastNis()}
+     * it gives the fix's term of the innovation log-likelihood, -(2 ln 2 pi + ln det S + NIS) / 2.
+     */
+    public double lastLogDetS() {
+        return s.get(Slot.LAST_LOG_DET_S);
     }
 
     private GnssOutcome outcome(GnssOutcome.Kind kind, double nis) {

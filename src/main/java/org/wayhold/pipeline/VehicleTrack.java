@@ -234,6 +234,21 @@ public final class VehicleTrack {
         filter.predictTo(tS - epochT);
     }
 
+    /** Normalised innovation squared of the last fix's position (unitless), NaN when not computed. */
+    public double lastFixNis() {
+        return filter.lastNis();
+    }
+
+    /** ln det of the last fix's position innovation covariance (ln m^4), NaN when not computed. */
+    public double lastFixLogDetS() {
+        return filter.lastLogDetS();
+    }
+
+    /** A copy of the filter's state covariance, row-major, layout {@code filter.StateIndex}. */
+    public double[] stateCovariance() {
+        return filter.covariance();
+    }
+
     /** True once the filter has a position and a yaw. */
     public boolean initialized() {
         return filter.initialized();
