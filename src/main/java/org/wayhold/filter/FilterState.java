@@ -23,7 +23,7 @@ import java.util.Arrays;
 public final class FilterState {
 
     /** Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. */
-    static final int FORMAT = 5;
+    static final int FORMAT = 6;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
@@ -118,6 +118,14 @@ public final class FilterState {
         INCONSISTENT_RUN(0.0),
         /** The newest fix failed the displacement test (flag). */
         FIX_FAILED(0.0),
+        /** Where the last fix that disagreed with the odometry lay from the odometry's own path, east (m). */
+        FAULT_EAST_M(0.0),
+        /** The same, north (m). */
+        FAULT_NORTH_M(0.0),
+        /** Time of that fix (s since epoch); NaN when no disagreement is unresolved. */
+        FAULT_T_REL(Double.NaN),
+        /** Odometer at that fix (m). */
+        FAULT_ODOMETER_M(0.0),
         /** Time the covariance was last widened for sustained disagreement or a jump (s since epoch). */
         WIDENED_T_REL(Double.NaN),
         /** Number of NIS values in the innovation window (count). */
