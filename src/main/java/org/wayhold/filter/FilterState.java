@@ -23,12 +23,12 @@ import java.util.Arrays;
 public final class FilterState {
 
     /**
-     * Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. Format 6
-     * adds both the time of the last trusted fix and ln det S of the newest fix; states of format 5 were
-     * written with one of the two and not the other, with the same number of slots, so their length
-     * cannot tell them apart and they are refused like every earlier format.
+     * Version of the layout {@link #write} writes; raise it when the meaning of a slot changes. Format 7
+     * holds the time of the last trusted fix, ln det S of the newest fix and the remembered fault of the
+     * fixes; format 6 had only the first two, and format 5 one of them with the same number of slots, so
+     * a length cannot tell formats apart and every earlier one is refused.
      */
-    static final int FORMAT = 6;
+    static final int FORMAT = 7;
 
     /** Per held fix: east innovation, north innovation, white variance, odometer, time. */
     static final int PENDING_FIELDS = 5;
@@ -125,6 +125,14 @@ public final class FilterState {
         INCONSISTENT_RUN(0.0),
         /** The newest fix failed the displacement test (flag). */
         FIX_FAILED(0.0),
+        /** Where the last fix that disagreed with the odometry lay from the odometry's own path, east (m). */
+        FAULT_EAST_M(0.0),
+        /** The same, north (m). */
+        FAULT_NORTH_M(0.0),
+        /** Time of that fix (s since epoch); NaN when no disagreement is unresolved. */
+        FAULT_T_REL(Double.NaN),
+        /** Odometer at that fix (m). */
+        FAULT_ODOMETER_M(0.0),
         /** Time the covariance was last widened for sustained disagreement or a jump (s since epoch). */
         WIDENED_T_REL(Double.NaN),
         /** Number of NIS values in the innovation window (count). */

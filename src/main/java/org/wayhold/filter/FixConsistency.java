@@ -192,6 +192,21 @@ final class FixConsistency {
         s.set(Slot.TRAIL_COUNT, Math.min(count + 1, FilterState.TRAIL_LENGTH));
     }
 
+    /**
+     * Whether a fix may correct the state: not when it failed the test itself, nor while the doubt the
+     * fixes carry exceeds their own white variance within {@link #FADE_S} of the last confirmed
+     * disagreement. A doubtful fix is left out rather than taken at a lower weight: a receiver that
+     * wanders slowly would otherwise draw the estimate along with it, a little at each fix, while the
+     * covariance shrank with every one. Past the fade time the doubt only weights the fix: the fixes
+     * have agreed with the odometry since, as far as the trail can tell.
+     */
+    static boolean mayCorrect(FilterState s, double extraVarM2, double whiteVarM2) {
+        if (s.is(Slot.FIX_FAILED)) {
+            return false;
+        }
+        return extraVarM2 <= whiteVarM2 || s.get(Slot.T_REL) - s.get(Slot.INCONSISTENT_T_REL) > FADE_S;
+    }
+
     /** Drops the doubt added to fixes: fixes that agree with each other and with the odometry are taken again. */
     static void forgive(FilterState s) {
         s.set(Slot.INCONSISTENCY_VAR_M2, 0.0);

@@ -349,6 +349,9 @@ public final class NavigationFilter {
      * As {@link #updateGnss} but returns only the decision, allocating nothing: the hot path of
      * replays. The normalised innovation squared is {@link #lastNis()}.
      */
+    /** 2-dof chi-square quantile at 0.95 (NIST/SEMATECH e-Handbook 1.3.6.7.4: 5.991). */
+    static final double REACQUIRE_WIDEN_NIS = ChiSquare.quantile2Dof(0.95);
+
     public GnssOutcome.Kind correct(GnssFix fix, double eastM, double northM, double upM) {
         s.set(Slot.LAST_FIX_T_REL, s.get(Slot.T_REL));
         s.set(Slot.LAST_NIS, Double.NaN);
@@ -393,26 +396,35 @@ public final class NavigationFilter {
         double whiteVar = gnssNoise.whiteVarM2(var) + extra;
         height.update(s, fix, upM, sigma);
         double t = s.get(Slot.T_REL);
-        if (Reacquisition.inProbation(s) && t - s.get(Slot.PROBATION_SINCE_T_REL) > REACQUIRE_PATIENCE_S
-                && !(t - s.get(Slot.WIDENED_T_REL) <= REACQUIRE_PATIENCE_S)) {
-            InnovationMonitor.widen(s, PATIENCE_WIDENING);
-        }
         double wheel = s.get(Slot.WHEEL_SPEED_MPS);
         // The NIS at the accuracy the fix claims decides how far a jump is; the NIS with the doubt the
         // consistency test added decides whether the fix may correct the state through the gate.
         double claimedWhiteVar = gnssNoise.whiteVarM2(var);
+        boolean fault = reacquisition.sameFault(s, eastM, northM, whiteVar);
+        // Patience is for fixes the estimate may have drifted from, not for fixes that sit where
+        // remembered faulty ones sat: widening for those would only let the fault in.
+        if (Reacquisition.inProbation(s) && t - s.get(Slot.PROBATION_SINCE_T_REL) > REACQUIRE_PATIENCE_S
+                && !(t - s.get(Slot.WIDENED_T_REL) <= REACQUIRE_PATIENCE_S) && !fault) {
+            InnovationMonitor.widen(s, PATIENCE_WIDENING);
+        }
         double claimedNis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, claimedWhiteVar);
+        if (s.is(Slot.FIX_FAILED) && claimedNis > reacquisition.gateThreshold()) {
+            reacquisition.rememberFault(s, eastM, northM, update.nu[0], update.nu[1], var);
+        }
         double nis = PositionFix.innovation(s.x, s.p, wheel, update, eastM, northM, whiteVar);
         s.set(Slot.LAST_NIS, nis);
         s.set(Slot.LAST_LOG_DET_S, update.logDetS());
         double nuEast = update.nu[0];
         double nuNorth = update.nu[1];
-        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, claimedNis, whiteVar,
+        Reacquisition.Verdict verdict = reacquisition.decide(s, nuEast, nuNorth, nis, claimedNis, var, fault,
                 Alignment.calibrationPlausible(s), !s.is(Slot.FIX_FAILED));
         double omega = s.is(Slot.STANDSTILL) ? 0.0
                 : s.x[GYRO_SCALE] * (s.get(Slot.YAW_RATE_RAD_PER_S) - s.x[GYRO_BIAS]);
         switch (verdict) {
             case ACCEPT -> {
+                if (!FixConsistency.mayCorrect(s, extra, claimedWhiteVar)) {
+                    return GnssOutcome.Kind.GATED;
+                }
                 PositionFix.freezeUnobservable(update, omega, s.x[SPEED_SCALE] * wheel);
                 if (!update.apply(s, 2)) {
                     return GnssOutcome.Kind.GATED;
@@ -429,7 +441,11 @@ public final class NavigationFilter {
                 // claim: an earlier doubt must not hide the jump they reveal from the covariance.
                 FixConsistency.forgive(s);
                 whiteVar = claimedWhiteVar;
-                if (claimedNis > reacquisition.gateThreshold()) {
+                // Held fixes that agree with each other over seconds and sit beyond the estimate's 95 %
+                // ellipse say the estimate is off, not that they are: the covariance is moved to cover
+                // the whole jump before they correct it, or the update would only go part of the way
+                // while shrinking the covariance as if the rest were noise.
+                if (claimedNis > REACQUIRE_WIDEN_NIS) {
                     Reacquisition.widenForJump(s, nuEast, nuNorth,
                             s.get(Slot.ODOMETER_M) - s.get(Slot.ODOMETER_AT_LAST_USED_FIX_M));
                 }
@@ -442,6 +458,7 @@ public final class NavigationFilter {
             }
             case RESET -> {
                 alignment.reset(s, eastM, northM);
+                Reacquisition.resolveFault(s);
                 InnovationMonitor.clear(s);
                 FixConsistency.clear(s);
                 return GnssOutcome.Kind.INITIALIZING;
@@ -456,6 +473,9 @@ public final class NavigationFilter {
         }
         if (whiteVar == claimedWhiteVar) {
             s.set(Slot.LAST_TRUSTED_FIX_T_REL, s.get(Slot.T_REL));
+        }
+        if (!s.is(Slot.FIX_FAILED)) {
+            Reacquisition.resolveFault(s);
         }
         courseSpeed.update(s, update, fix, reacquisition.gateThreshold());
         consistency.record(s, eastM, northM, whiteVar);
@@ -479,6 +499,11 @@ public final class NavigationFilter {
      */
     public double lastLogDetS() {
         return s.get(Slot.LAST_LOG_DET_S);
+    }
+
+    /** Whether the newest fix disagreed with the odometry's path since the trail's fixes. */
+    boolean lastFixDisagreed() {
+        return s.is(Slot.FIX_FAILED);
     }
 
     private GnssOutcome outcome(GnssOutcome.Kind kind, double nis) {

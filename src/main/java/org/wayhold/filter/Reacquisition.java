@@ -84,21 +84,26 @@ final class Reacquisition {
      * @param nuNorthM             north innovation (m)
      * @param nis                  its normalised innovation squared (unitless), with any doubt added to the fix
      * @param claimedNis           the same at the accuracy the fix claims: how far a jump is
-     * @param whiteVar             the fix's white variance per axis (m^2)
+     * @param whiteVar             the fix's whole variance per axis as it claims it (m^2), without any
+     *                             doubt added: held fixes must agree at the accuracy they claim, so that
+     *                             one far off cannot join them on the strength of a doubt
+     * @param fault                whether the fix sits where remembered faulty fixes sat ({@link #sameFault})
      * @param calibrationPlausible whether the calibration states could survive a reset
      * @param consistent           whether the fix agrees with the odometry's path ({@link FixConsistency}):
      *                             fixes that agree with each other but not with the odometry are
      *                             never taken by a reacquisition or a reset, only through the gate
      */
     Verdict decide(FilterState s, double nuEastM, double nuNorthM, double nis, double claimedNis, double whiteVar,
-                   boolean calibrationPlausible, boolean consistent) {
+                   boolean fault, boolean calibrationPlausible, boolean consistent) {
         // A gap makes any probation one after a gap: one gated fix before it must not turn the fixes
         // after it into fixes that only need to pass the gate.
         if (s.whole(Slot.PROBATION) != Probation.AFTER_GAP.ordinal()
                 && s.get(Slot.T_REL) - s.get(Slot.LAST_USED_FIX_T_REL) > gapS) {
             begin(s, Probation.AFTER_GAP);
         }
-        boolean passes = nis <= gateThreshold;
+        // A fix where the rejected ones sat passes no gate: the covariance that lets it in grew because
+        // the fixes were kept out, not because the estimate drifted onto them.
+        boolean passes = nis <= gateThreshold && !fault;
         Probation probation = PROBATIONS[s.whole(Slot.PROBATION)];
         if (probation == Probation.NONE || (probation == Probation.AFTER_GATE && passes)) {
             if (passes) {
@@ -120,6 +125,9 @@ final class Reacquisition {
         }
         boolean agreed = s.whole(Slot.PENDING_COUNT) >= reacquireFixes
                 && (reacquireFixes == 1 || s.get(Slot.T_REL) - s.pending[0][4] >= reacquireSpanS);
+        if (agreed && fault) {
+            return Verdict.GATED;
+        }
         if (agreed && (claimedNis > RESET_NIS || !calibrationPlausible)) {
             end(s);
             return Verdict.RESET;
@@ -130,6 +138,67 @@ final class Reacquisition {
         }
         return passes || probation == Probation.AFTER_GAP ? Verdict.PENDING : Verdict.GATED;
     }
+
+    /**
+     * Remembers where a fix that disagreed with the odometry lay from the odometry's own path (the dead
+     * reckoning no fix corrects). Once the fixes that came after the disagreement are all that the
+     * consistency test can see, they agree with each other and with the odometry's turns however far
+     * off they are: only this memory still says that they sit where the rejected ones sat.
+     *
+     * <p>Only a fix that stood out from the estimate by more than the estimate's variance and its own
+     * whole claimed variance allow (at the gate's chi-square level) is a fault to remember: one that
+     * failed on its noise leaves nothing. And only a jump inside a stream of used fixes starts the
+     * memory: the estimate then is moments from the fixes' own, and the offset is the receiver's.
+     * After a gap the offset may as well be the dead reckoning's drift, which is what a reacquisition
+     * is for. A memory begun that way is kept up to date while the fixes stay off.
+     */
+    void rememberFault(FilterState s, double eastM, double northM, double nuEastM, double nuNorthM, double fixVar) {
+        double t = s.get(Slot.T_REL);
+        double lastUsed = s.get(Slot.LAST_USED_FIX_T_REL);
+        if (!(t - lastUsed <= gapS || s.get(Slot.FAULT_T_REL) >= lastUsed)) {
+            return;
+        }
+        double var = 0.5 * (s.p[EAST * SIZE + EAST] + s.p[NORTH * SIZE + NORTH]) + fixVar;
+        if ((nuEastM * nuEastM + nuNorthM * nuNorthM) / var <= gateThreshold) {
+            return;
+        }
+        s.set(Slot.FAULT_EAST_M, eastM - s.get(Slot.ODOMETRY_EAST_M));
+        s.set(Slot.FAULT_NORTH_M, northM - s.get(Slot.ODOMETRY_NORTH_M));
+        s.set(Slot.FAULT_T_REL, t);
+        s.set(Slot.FAULT_ODOMETER_M, s.get(Slot.ODOMETER_M));
+    }
+
+    /** Forgets the disagreement: fixes were taken at the accuracy they claim. */
+    static void resolveFault(FilterState s) {
+        s.set(Slot.FAULT_T_REL, Double.NaN);
+    }
+
+    /**
+     * Whether a fix lies where the remembered faulty fix lay, both taken from the odometry's own path:
+     * then it is the same fault persisting (a reflection that holds while the street does), not a
+     * drift of the estimate it would correct, and taking it would move the estimate onto the fault
+     * while shrinking its covariance. The two offsets are compared at the variance the odometry's
+     * heading and scale give over the distance driven since, plus both fixes' white variance, at the
+     * gate's chi-square level; the odometry's path, unlike the estimate's covariance, is not widened
+     * by the wait. The memory lasts two correlation times of the receiver's error: a fault that
+     * outlasts that is beyond what the error model can tell from a true position.
+     */
+    boolean sameFault(FilterState s, double eastM, double northM, double whiteVar) {
+        double since = s.get(Slot.T_REL) - s.get(Slot.FAULT_T_REL);
+        if (!(since >= 0.0 && since <= FAULT_MEMORY_CORRELATION_TIMES * correlationTimeS)) {
+            return false;
+        }
+        double de = eastM - s.get(Slot.ODOMETRY_EAST_M) - s.get(Slot.FAULT_EAST_M);
+        double dn = northM - s.get(Slot.ODOMETRY_NORTH_M) - s.get(Slot.FAULT_NORTH_M);
+        double d = s.get(Slot.ODOMETER_M) - s.get(Slot.FAULT_ODOMETER_M);
+        double relVar = Math.max(s.p[YAW * SIZE + YAW], 0.0) + Math.max(s.p[SPEED_SCALE * SIZE + SPEED_SCALE], 0.0)
+                + FixConsistency.ODOMETRY_SHARE * FixConsistency.ODOMETRY_SHARE;
+        double var = d * d * relVar + 2.0 * whiteVar;
+        return (de * de + dn * dn) / var <= gateThreshold;
+    }
+
+    /** Correlation times of the receiver's error a remembered fault lasts. */
+    static final double FAULT_MEMORY_CORRELATION_TIMES = 2.0;
 
     private static void begin(FilterState s, Probation why) {
         s.set(Slot.PROBATION, why.ordinal());

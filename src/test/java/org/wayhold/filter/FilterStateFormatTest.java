@@ -19,7 +19,8 @@ import org.wayhold.settings.VehicleProfile;
  * The binary form of a filter state: a state that has taken fixes comes back bit for bit with the time
  * of its last trusted fix and the ln det S of its newest fix, and a state of an earlier format is refused
  * rather than misread. Format 5 matters most: it was written by layouts holding one of those two slots
- * and not the other, with the same slot count, so only the format number tells them apart.
+ * and not the other, with the same slot count, so only the format number tells them apart; format 6
+ * lacked the remembered fault of the fixes.
  *
  * <p>The drive: due east at 10 m/s from the origin, exact inputs, fixes every 0.2 s on the true
  * position (an exact hand case: the fixes agree with the odometry, so every one is used at its claimed
@@ -73,14 +74,14 @@ class FilterStateFormatTest {
     void earlierFormatsAreRefusedByNumber() throws IOException {
         NavigationFilter f = drivenFilter();
         byte[] written = bytes(f.saveState());
-        assertThat(ByteBuffer.wrap(written).getInt()).isEqualTo(FilterState.FORMAT).isEqualTo(6);
+        assertThat(ByteBuffer.wrap(written).getInt()).isEqualTo(FilterState.FORMAT).isEqualTo(7);
         for (int earlier = 1; earlier < FilterState.FORMAT; earlier++) {
             byte[] old = written.clone();
             ByteBuffer.wrap(old).putInt(earlier);
             int format = earlier;
             assertThatThrownBy(() -> f.readState(new DataInputStream(new ByteArrayInputStream(old))))
                     .isInstanceOf(IOException.class)
-                    .hasMessage("filter state: format " + format + ", expected 6");
+                    .hasMessage("filter state: format " + format + ", expected 7");
         }
     }
 }
