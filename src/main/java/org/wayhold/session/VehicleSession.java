@@ -3,6 +3,7 @@ package org.wayhold.session;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import java.time.Clock;
 import java.util.List;
 import java.util.Optional;
 import java.util.OptionalLong;
@@ -32,6 +33,12 @@ import org.wayhold.settings.Settings;
  * vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest. Callers that
  * must record a change in the same order as it is applied (the journal) pass the recording step in,
  * and it runs under that lock ({@link #submit}, {@link #retire}, {@link #writeSnapshot}).
+ *
+ * <p>Besides the vehicle's own timeline the session notes, on the service's wall clock, when samples
+ * last arrived through the live path ({@link #submit(List, BatchRecorder)}), so that a vehicle that
+ * stopped sending can be told from one that is merely in a long outage ({@link #liveness()}). That time
+ * is not part of the state: a session restored from a snapshot or the journal has none until its next
+ * sample, and counts its silence from the moment it was restored.
  */
 public final class VehicleSession {
 
@@ -55,6 +62,12 @@ public final class VehicleSession {
     private final FixLog fixes;
     private final VehiclePipeline pipeline;
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
+    private final Clock clock;
+    private final double staleAfterS;
+    /** Wall time of the latest live arrival of an applied sample (ms since the epoch), MIN_VALUE if none. */
+    private volatile long receivedAtMillis = Long.MIN_VALUE;
+    /** Wall time silence is counted from: the latest arrival, else the session's creation (ms). */
+    private volatile long quietSinceMillis;
 
     /** Time of the newest pose given to listeners (s, vehicle clock); not part of the state. */
     private double emittedUpToT = Double.NEGATIVE_INFINITY;
@@ -70,7 +83,20 @@ public final class VehicleSession {
      * @param configuredOrigin ENU origin to use instead of the first fix, or null
      */
     public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin) {
+        this(vehicleId, settings, configuredOrigin, Clock.systemUTC());
+    }
+
+    /**
+     * @param vehicleId        the vehicle's id
+     * @param settings         filter, gating, outage, ordering and history settings
+     * @param configuredOrigin ENU origin to use instead of the first fix, or null
+     * @param clock            the service's wall clock, for arrival times and staleness
+     */
+    public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin, Clock clock) {
         this.vehicleId = vehicleId;
+        this.clock = java.util.Objects.requireNonNull(clock, "clock");
+        this.staleAfterS = settings.outage().staleAfterS();
+        this.quietSinceMillis = clock.millis();
         this.history = new PoseHistory(settings.history().maxPoses());
         this.fixes = new FixLog(settings.history().maxPoses());
         this.pipeline = new VehiclePipeline(settings, settings.profileFor(vehicleId), configuredOrigin,
@@ -109,7 +135,7 @@ public final class VehicleSession {
      * @return one admission per sample, in the order given
      */
     public List<Admission> submit(List<? extends Sample> samples) {
-        Applied applied = submit(samples, b -> SessionLog.DONE);
+        Applied applied = submit(samples, b -> SessionLog.DONE, false);
         if (applied == null) {
             throw new IllegalStateException("vehicle '" + vehicleId + "': the session was dropped");
         }
@@ -117,13 +143,18 @@ public final class VehicleSession {
     }
 
     /**
-     * Admits a batch of samples and, under the same lock, records it, so that the record's order per
-     * vehicle is the order of application.
+     * Admits a batch of samples that has just arrived and, under the same lock, records it, so that the
+     * record's order per vehicle is the order of application. When a sample of the batch is applied,
+     * its arrival is noted on the wall clock (see {@link #liveness()}) before listeners hear of the poses.
      *
      * @return the admissions and the recording, or null when the session has been retired (the caller
      *         must submit to the vehicle's current session instead)
      */
     public Applied submit(List<? extends Sample> samples, BatchRecorder recorder) {
+        return submit(samples, recorder, true);
+    }
+
+    private Applied submit(List<? extends Sample> samples, BatchRecorder recorder, boolean arrived) {
         synchronized (lock) {
             if (retired) {
                 return null;
@@ -132,6 +163,11 @@ public final class VehicleSession {
                 return new Applied(List.of(), SessionLog.DONE);
             }
             List<Admission> result = pipeline.submit(samples);
+            if (arrived && result.stream().anyMatch(a -> a.kind() == Admission.Kind.APPLIED)) {
+                long now = clock.millis();
+                receivedAtMillis = now;
+                quietSinceMillis = now;
+            }
             refreshLatest();
             CompletableFuture<?> recorded = recorder.record(samples);
             notifyListeners();
@@ -198,6 +234,69 @@ public final class VehicleSession {
      */
     public void addListener(Consumer<Pose> listener) {
         listeners.add(listener);
+    }
+
+    /**
+     * What a new subscriber starts from, taken under the same lock as the listener's registration, so
+     * that the backlog and the poses the listener hears later neither overlap nor leave a hole.
+     *
+     * @param backlog the poses to send first, oldest first
+     * @param resumed true when the backlog continues after the time the subscriber asked for, false
+     *                when it is only the latest pose (no time given, or nothing held after it)
+     * @param heldFromT oldest pose time the history holds (s, vehicle clock), NaN when empty
+     */
+    public record Subscription(List<Pose> backlog, boolean resumed, double heldFromT) {
+    }
+
+    /**
+     * Registers a listener (as {@link #addListener}) and returns what it must be given first: the
+     * history's poses after {@code afterT} when that is a number and the history holds the time (a
+     * client resuming a stream it lost), else the latest pose alone.
+     *
+     * @param afterT time of the last pose the subscriber saw (s, vehicle clock), or NaN for none
+     */
+    public Subscription subscribe(Consumer<Pose> listener, double afterT) {
+        synchronized (lock) {
+            listeners.add(listener);
+            double heldFrom = history.isEmpty() ? Double.NaN : history.oldestT();
+            if (!Double.isNaN(afterT) && !history.isEmpty()) {
+                List<Pose> after = new java.util.ArrayList<>();
+                for (Pose p : history.between(afterT, Double.POSITIVE_INFINITY)) {
+                    if (p.t() > afterT) {
+                        after.add(p);
+                    }
+                }
+                return new Subscription(after, true, heldFrom);
+            }
+            Pose p = latest;
+            return new Subscription(p == null ? List.of() : List.of(p), false, heldFrom);
+        }
+    }
+
+    /** Whether the vehicle is still sending, on the wall clock now ({@code outage.stale_after_s}). */
+    public Liveness liveness() {
+        return Liveness.of(receivedAtMillis, quietSinceMillis, clock.millis(), staleAfterS);
+    }
+
+    /**
+     * The stretch of vehicle time the pose history holds now.
+     *
+     * @param fromT   oldest pose (s, vehicle clock), NaN when the history is empty
+     * @param toT     newest pose (s), NaN when empty
+     * @param full    true when the history is at its capacity, so older poses have been (or are being)
+     *                let go to keep it bounded
+     */
+    public record HeldSpan(double fromT, double toT, boolean full) {
+    }
+
+    /** What the pose history holds (see {@link HeldSpan}). */
+    public HeldSpan held() {
+        synchronized (lock) {
+            if (history.isEmpty()) {
+                return new HeldSpan(Double.NaN, Double.NaN, false);
+            }
+            return new HeldSpan(history.oldestT(), history.newestT(), history.full());
+        }
     }
 
     public void removeListener(Consumer<Pose> listener) {

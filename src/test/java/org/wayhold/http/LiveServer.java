@@ -27,7 +27,12 @@ final class LiveServer implements AutoCloseable {
     final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     LiveServer(Settings settings) {
-        this.sessions = new SessionRegistry(settings, null);
+        this(settings, java.time.Clock.systemUTC());
+    }
+
+    /** A service whose sessions judge arrivals and staleness by {@code clock}. */
+    LiveServer(Settings settings, java.time.Clock clock) {
+        this.sessions = new SessionRegistry(settings, null, org.wayhold.session.SessionLog.NONE, clock);
         this.service = new HttpService(sessions).start();
     }
 
