@@ -161,6 +161,9 @@ public final class HttpService implements AutoCloseable {
                 rule.exposeHeader("ETag");
                 rule.exposeHeader(VehicleRoutes.IDEMPOTENCY_REPLAYED);
                 rule.exposeHeader("Retry-After");
+                rule.exposeHeader(VehicleRoutes.HELD_FROM);
+                rule.exposeHeader(VehicleRoutes.HELD_TO);
+                rule.exposeHeader(VehicleRoutes.TRUNCATED);
             }));
         }
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
