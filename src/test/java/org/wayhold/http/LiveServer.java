@@ -89,6 +89,15 @@ final class LiveServer implements AutoCloseable {
         return send(request(path).DELETE().build());
     }
 
+    /**
+     * A latest pose's JSON without the vehicle's liveness ({@code received_at}, {@code stale}), which
+     * follows the service's wall clock and not the samples: for comparing the poses of two vehicles fed
+     * the same data, or of one vehicle across a restart.
+     */
+    static String withoutLiveness(String poseJson) {
+        return poseJson.replaceFirst(",\"received_at\":[^,]*,\"stale\":(true|false)}$", "}");
+    }
+
     static JsonNode json(HttpResponse<String> r) {
         try {
             return JSON.readTree(r.body());
