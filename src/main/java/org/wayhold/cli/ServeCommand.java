@@ -135,7 +135,21 @@ final class ServeCommand implements Callable<Integer> {
         Thread replayThread = null;
         if (replay != null) {
             replayer = new LogReplay(log, speed, batch -> replayBatch(sessions, batch, err));
-            replayThread = new Thread(replayer, "replay-" + vehicle);
+            LogReplay r = replayer;
+            long replayStart = System.nanoTime();
+            double staleAfterS = settings.outage().staleAfterS();
+            replayThread = new Thread(() -> {
+                r.run();
+                if (r.completed()) {
+                    // The vehicle now goes quiet; say so, so that a watcher knows why it turns stale.
+                    out.printf(Locale.ROOT, "replay: the drive has ended: %d samples of %s replayed into vehicle"
+                                    + " '%s' (vehicle time %s to %s s) in %.1f s; the vehicle shows as stale after"
+                                    + " %s s without samples (outage.stale_after_s)%n", r.size(), replay, vehicle,
+                            plain(r.firstT()), plain(r.lastT()), (System.nanoTime() - replayStart) / 1e9,
+                            plain(staleAfterS));
+                    out.flush();
+                }
+            }, "replay-" + vehicle);
             replayThread.setDaemon(true);
             replayThread.start();
             out.printf(java.util.Locale.ROOT, "replaying %d samples of %s into vehicle '%s' at %sx: %s/v1/vehicles/%s/pose%n",
@@ -171,6 +185,14 @@ final class ServeCommand implements Callable<Integer> {
         }, "wayhold-shutdown"));
         stopped.await();
         return 0;
+    }
+
+    /** A number in plain decimal without a needless ".0" (epoch times included). */
+    static String plain(double v) {
+        if (!Double.isFinite(v)) {
+            return Double.toString(v);
+        }
+        return new java.math.BigDecimal(Double.toString(v)).stripTrailingZeros().toPlainString();
     }
 
     /**

@@ -157,7 +157,8 @@ final class KeyTable {
     static OutageSettings outage(Keys<OutageSettings> s) {
         return new OutageSettings(
                 s.number("gap_s", OutageSettings::gapS),
-                s.number("alert_limit_m", OutageSettings::alertLimitM));
+                s.number("alert_limit_m", OutageSettings::alertLimitM),
+                s.number("stale_after_s", OutageSettings::staleAfterS));
     }
 
     static OrderingSettings ordering(Keys<OrderingSettings> s) {

@@ -8,6 +8,7 @@ import java.io.UncheckedIOException;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
+import org.wayhold.session.Liveness;
 
 /**
  * Writes poses as the contract's pose JSON.
@@ -25,6 +26,10 @@ import org.wayhold.pose.Pose;
  * {@code last_fix_t} (s, vehicle clock, the last fix that corrected the estimate; null before one) and
  * {@code alert_limit} (m, the radius beyond which the state turns unreliable without a fix). In a
  * track requested with {@code crs}, {@code x} and {@code y} give the position in that CRS's units.
+ * The latest pose and the stream's events end with the vehicle's liveness: {@code received_at} (UTC
+ * epoch seconds of the service's clock when its latest accepted sample arrived; null when none has
+ * arrived since the service restored the session) and {@code stale} (true once nothing has arrived for
+ * longer than {@code outage.stale_after_s}); poses from the history have neither.
  *
  * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
  * written as {@code null}.
@@ -63,6 +68,11 @@ final class PoseJson {
         return document(768, g -> write(g, p, null));
     }
 
+    /** The vehicle's latest pose with its liveness, as a JSON document (UTF-8). */
+    static byte[] toBytes(Pose p, Liveness live) {
+        return document(800, g -> write(g, p, null, live));
+    }
+
     /**
      * Writes one pose object.
      *
@@ -70,6 +80,15 @@ final class PoseJson {
      *            position yet)
      */
     static void write(JsonGenerator g, Pose p, ProjectedCrs crs) throws IOException {
+        write(g, p, crs, null);
+    }
+
+    /**
+     * Writes one pose object, followed by the vehicle's liveness when {@code live} is not null.
+     *
+     * @param crs when not null, adds {@code x} and {@code y} projected into it
+     */
+    static void write(JsonGenerator g, Pose p, ProjectedCrs crs, Liveness live) throws IOException {
         g.writeStartObject();
         number(g, "t", p.t());
         number(g, "lat", p.latDeg());
@@ -119,7 +138,16 @@ final class PoseJson {
             number(g, "alt", o.altM());
             g.writeEndObject();
         }
+        if (live != null) {
+            liveness(g, live);
+        }
         g.writeEndObject();
+    }
+
+    /** The fields {@code received_at} (s, UTC epoch, null when unknown) and {@code stale}. */
+    static void liveness(JsonGenerator g, Liveness live) throws IOException {
+        number(g, "received_at", live.receivedAtS());
+        g.writeBooleanField("stale", live.stale());
     }
 
     /** {x, y} of the pose in the CRS, or null when the pose has no valid position yet. */
@@ -132,6 +160,20 @@ final class PoseJson {
 
     static boolean hasPosition(Pose p) {
         return Double.isFinite(p.latDeg()) && Double.isFinite(p.lonDeg());
+    }
+
+    /**
+     * A number as text the way {@link #value} writes it (plain decimal for epoch times), or the empty
+     * string when it is not finite: for headers.
+     */
+    static String plain(double v) {
+        if (!Double.isFinite(v)) {
+            return "";
+        }
+        if (Math.abs(v) >= 1e7 && Math.abs(v) < 1e21) {
+            return new java.math.BigDecimal(Double.toString(v)).toPlainString();
+        }
+        return Double.toString(v);
     }
 
     /** A number, or null when it is not finite (JSON has no NaN or infinity). */
