@@ -29,7 +29,7 @@ import org.wayhold.pose.Pose;
  * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
  * written as {@code null}.
  */
-final class PoseJson {
+public final class PoseJson {
 
     static final JsonFactory FACTORY = new JsonFactory();
 
@@ -38,7 +38,7 @@ final class PoseJson {
 
     /** Writes the content of one JSON document. */
     @FunctionalInterface
-    interface Content {
+    public interface Content {
         void write(JsonGenerator g) throws IOException;
     }
 
@@ -47,7 +47,7 @@ final class PoseJson {
      *
      * @param sizeHint expected size (bytes), to size the buffer
      */
-    static byte[] document(int sizeHint, Content content) {
+    public static byte[] document(int sizeHint, Content content) {
         ByteArrayOutputStream out = new ByteArrayOutputStream(sizeHint);
         try (JsonGenerator g = FACTORY.createGenerator(out)) {
             content.write(g);
@@ -58,8 +58,11 @@ final class PoseJson {
         return out.toByteArray();
     }
 
-    /** One pose as a JSON document (UTF-8). */
-    static byte[] toBytes(Pose p) {
+    /**
+     * One pose as a JSON document (UTF-8): the body of {@code GET /pose}, and the value of a pose record
+     * the stream worker writes, so both carry the same fields.
+     */
+    public static byte[] toBytes(Pose p) {
         return document(768, g -> write(g, p, null));
     }
 
@@ -135,7 +138,7 @@ final class PoseJson {
     }
 
     /** A number, or null when it is not finite (JSON has no NaN or infinity). */
-    static void number(JsonGenerator g, String name, double value) throws IOException {
+    public static void number(JsonGenerator g, String name, double value) throws IOException {
         g.writeFieldName(name);
         value(g, value);
     }
