@@ -11,6 +11,8 @@ import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
 import org.wayhold.http.BindRule;
+import org.wayhold.http.BoardService;
+import org.wayhold.http.PoseBoard;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
 import org.wayhold.journal.Journal;
@@ -23,6 +25,7 @@ import org.wayhold.session.LogReplay;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
+import org.wayhold.stream.PoseTopicReader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
@@ -83,8 +86,16 @@ final class ServeCommand implements Callable<Integer> {
             description = "Vehicle id that the replay feeds (default: ${DEFAULT-VALUE}).")
     private String vehicle;
 
+    @Option(names = "--from-kafka", paramLabel = "HOST:PORT",
+            description = "Serves the poses that wayhold workers write to Kafka (worker.poses_topic) instead of "
+                    + "running vehicles here: read routes, pose streams and the live view; no journal, no ingest.")
+    private String fromKafka;
+
     @Override
     public Integer call() throws Exception {
+        if (fromKafka != null) {
+            return servePosesFromKafka();
+        }
         PrintWriter out = spec.commandLine().getOut();
         if (!(speed > 0.0 && Double.isFinite(speed))) {
             throw new ParameterException(spec.commandLine(), "--speed: must be a positive number, was " + speed);
@@ -156,6 +167,54 @@ final class ServeCommand implements Callable<Integer> {
             } catch (IOException | RuntimeException e) {
                 out.println("journal: closing failed: " + e);
             }
+            out.println("wayhold stopped");
+            out.flush();
+            stopped.countDown();
+        }, "wayhold-shutdown"));
+        stopped.await();
+        return 0;
+    }
+
+    /**
+     * The read side of the fleet mode: a {@link PoseBoard} filled from the poses topic by a
+     * {@link PoseTopicReader}, served by a {@link BoardService}, until SIGTERM or Ctrl-C.
+     */
+    private int servePosesFromKafka() throws Exception {
+        WorkerCommand.checkBootstrap(spec, "--from-kafka", fromKafka);
+        if (replay != null) {
+            throw new ParameterException(spec.commandLine(), "--replay: not with --from-kafka, which runs no vehicle"
+                    + " here (send the log to the samples topic instead)");
+        }
+        PrintWriter out = spec.commandLine().getOut();
+        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
+        PoseBoard board = new PoseBoard(settings.history().maxPoses());
+        PoseTopicReader reader = new PoseTopicReader(fromKafka, settings.worker(), board).start();
+        BoardService service;
+        try {
+            service = new BoardService(settings.server(), board, "kafka topic " + settings.worker().posesTopic()
+                    + " at " + fromKafka).start();
+        } catch (RuntimeException e) {
+            reader.close();
+            throw e;
+        }
+        out.println("wayhold serving on " + service.baseUrl() + "  (poses from kafka topic "
+                + settings.worker().posesTopic() + " at " + fromKafka + "; Ctrl-C to stop)");
+        out.flush();
+        CountDownLatch stopped = new CountDownLatch(1);
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            service.close();
+            reader.close();
             out.println("wayhold stopped");
             out.flush();
             stopped.countDown();

@@ -80,6 +80,33 @@ final class PoseStreams {
      * event.
      */
     void start(Context ctx, String vehicleId, VehicleSession session) {
+        start(ctx, vehicleId, stream -> {
+            session.latest().ifPresent(stream::offer);
+            session.addListener(stream);
+            return () -> session.removeListener(stream);
+        });
+    }
+
+    /**
+     * Starts a stream of a vehicle's poses as another process wrote them ({@code serve --from-kafka});
+     * the newest pose, if any, is the first event.
+     */
+    void start(Context ctx, String vehicleId, PoseBoard.Vehicle vehicle) {
+        start(ctx, vehicleId, stream -> {
+            Consumer<byte[]> listener = stream::offer;
+            vehicle.latest().ifPresent(e -> stream.offer(e.json()));
+            vehicle.addListener(listener);
+            return () -> vehicle.removeListener(listener);
+        });
+    }
+
+    /** Subscribes a stream to its poses; returns what unsubscribes it. */
+    @FunctionalInterface
+    private interface Subscription {
+        Runnable subscribe(Stream stream);
+    }
+
+    private void start(Context ctx, String vehicleId, Subscription subscription) {
         String accept = ctx.header("Accept");
         if (accept == null || !accept.contains("text/event-stream")) {
             // Javalin's SSE handler serves only clients that ask for an event stream (as EventSource
@@ -98,7 +125,7 @@ final class PoseStreams {
         Slot slot = new Slot();
         try {
             // A timeout of 0 keeps the asynchronous response open until the stream closes it.
-            new SseHandler(0L, client -> attach(client, vehicleId, session, slot)).handle(ctx);
+            new SseHandler(0L, client -> attach(client, vehicleId, subscription, slot)).handle(ctx);
         } catch (RuntimeException e) {
             slot.free();
             throw e;
@@ -116,13 +143,12 @@ final class PoseStreams {
         }
     }
 
-    private void attach(SseClient client, String vehicleId, VehicleSession session, Slot slot) {
-        Stream s = new Stream(client, vehicleId, session, slot);
+    private void attach(SseClient client, String vehicleId, Subscription subscription, Slot slot) {
+        Stream s = new Stream(client, vehicleId, slot);
         client.keepAlive();
         client.onClose(s::detach);
         open.add(s);
-        session.latest().ifPresent(s::offer);
-        session.addListener(s);
+        s.unsubscribe = subscription.subscribe(s);
         try {
             writers.execute(s::write);
         } catch (java.util.concurrent.RejectedExecutionException e) {
@@ -160,18 +186,18 @@ final class PoseStreams {
     private final class Stream implements Consumer<Pose> {
         private final SseClient client;
         private final String vehicleId;
-        private final VehicleSession session;
         private final Slot slot;
+        /** Set once subscribed; detaching runs it. */
+        private volatile Runnable unsubscribe = () -> { };
         /** Poses, and {@link #WAKE_UP} to make the writer look at its flags at once. */
         private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY + 1);
         private volatile boolean closeRequested;
         private volatile boolean overflowed;
         private long eventId;
 
-        Stream(SseClient client, String vehicleId, VehicleSession session, Slot slot) {
+        Stream(SseClient client, String vehicleId, Slot slot) {
             this.client = client;
             this.vehicleId = vehicleId;
-            this.session = session;
             this.slot = slot;
         }
 
@@ -181,7 +207,8 @@ final class PoseStreams {
             offer(pose);
         }
 
-        void offer(Pose pose) {
+        /** A pose, or a pose's JSON as another process wrote it. */
+        void offer(Object pose) {
             // One slot is kept free for the wake-up, so that a full queue can still be closed at once.
             if (queue.remainingCapacity() <= 1 || !queue.offer(pose)) {
                 overflowed = true;
@@ -195,7 +222,7 @@ final class PoseStreams {
         }
 
         void detach() {
-            session.removeListener(this);
+            unsubscribe.run();
             open.remove(this);
             slot.free();
         }
@@ -209,6 +236,8 @@ final class PoseStreams {
                     } else if (next instanceof Pose p) {
                         client.sendEvent("pose", new String(PoseJson.toBytes(p), StandardCharsets.UTF_8),
                                 Long.toString(++eventId));
+                    } else if (next instanceof byte[] json) {
+                        client.sendEvent("pose", new String(json, StandardCharsets.UTF_8), Long.toString(++eventId));
                     }
                 }
                 if (overflowed && !client.terminated()) {

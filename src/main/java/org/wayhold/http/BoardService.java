@@ -1,0 +1,326 @@
+package org.wayhold.http;
+
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonToken;
+import io.javalin.Javalin;
+import io.javalin.config.JavalinConfig;
+import io.javalin.http.Context;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.util.Comparator;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import org.eclipse.jetty.server.HttpConnectionFactory;
+import org.eclipse.jetty.server.ServerConnector;
+import org.eclipse.jetty.server.handler.GracefulHandler;
+import org.wayhold.settings.ServerSettings;
+
+/**
+ * The read side of the fleet mode ({@code serve --from-kafka}): the service's read routes (latest pose
+ * and pose at a time, track, vehicle list, pose stream, live view) answered from a {@link PoseBoard}
+ * that a reader of the workers' poses topic fills. Nothing is computed here: the pose JSON is the
+ * workers', passed through. Samples are not taken (they go to the samples topic), so {@code POST} and
+ * {@code DELETE} answer 405; the fix decisions are not in the poses topic, so {@code /fixes} answers an
+ * empty list; a track is JSON only (GeoJSON and {@code crs} need the poses' numbers, which this side
+ * does not read).
+ *
+ * <p>Tokens, CORS origins, bind address, stream limits and time-outs are the {@code server} section's,
+ * as for the full service.
+ */
+public final class BoardService implements AutoCloseable {
+
+    private final ServerSettings server;
+    private final PoseBoard board;
+    private final PoseStreams streams;
+    private final BearerTokens tokens;
+    private final UploadSlots uploads;
+    private final byte[] openApiYaml;
+    private final String source;
+    private final Javalin app;
+    private final long startedNanos = System.nanoTime();
+
+    /**
+     * @param source where the poses come from, for {@code /health} (for example {@code "kafka topic wayhold.poses"})
+     */
+    public BoardService(ServerSettings server, PoseBoard board, String source) {
+        this.server = server;
+        this.board = board;
+        this.source = source;
+        this.streams = new PoseStreams(server.sseKeepAliveS(), server.maxStreams());
+        this.tokens = new BearerTokens(server);
+        this.uploads = new UploadSlots(server.maxConcurrentUploads());
+        this.openApiYaml = readOpenApi();
+        this.app = Javalin.create(this::configure);
+    }
+
+    private void configure(JavalinConfig config) {
+        config.startup.showJavalinBanner = false;
+        config.startup.showOldJavalinVersionWarning = false;
+        config.http.prefer405over404 = true;
+        config.http.maxRequestSize = server.maxBodyBytes();
+        long idleMillis = Math.max(1L, Math.round(server.idleTimeoutS() * 1000.0));
+        config.jetty.modifyServer(s -> {
+            s.insertHandler(new GracefulHandler());
+            s.setStopTimeout(HttpService.STOP_TIMEOUT_MS);
+            s.setErrorHandler(new ProblemErrorHandler());
+        });
+        config.jetty.modifyHttpConfiguration(http -> http.setIdleTimeout(idleMillis));
+        config.jetty.addConnector((jetty, http) -> {
+            ServerConnector c = new ServerConnector(jetty, new HttpConnectionFactory(http));
+            c.setHost(server.bind());
+            c.setPort(server.port());
+            c.setIdleTimeout(idleMillis);
+            return c;
+        });
+        config.events.serverStopping(streams::closeAll);
+        if (!server.corsOrigins().isEmpty()) {
+            config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
+                for (String origin : server.corsOrigins()) {
+                    if (origin.equals("*")) {
+                        rule.anyHost();
+                    } else {
+                        rule.allowHost(origin);
+                    }
+                }
+                rule.exposeHeader("ETag");
+            }));
+        }
+        LiveView.serve(config);
+        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads);
+        if (!server.corsOrigins().isEmpty()) {
+            OriginRule origins = new OriginRule(server.corsOrigins());
+            config.routes.before(origins::check);
+        }
+        config.routes.before(tokens::check);
+        config.routes.post("/v1/vehicles/{vehicle}/samples", ctx -> {
+            throw readOnly("samples go to the workers' samples topic; this service only reads their poses");
+        });
+        config.routes.get("/v1/vehicles/{vehicle}/pose", this::getPose);
+        config.routes.get("/v1/vehicles/{vehicle}/track", this::getTrack);
+        config.routes.get("/v1/vehicles/{vehicle}/fixes", this::getFixes);
+        config.routes.get("/v1/vehicles/{vehicle}/stream", ctx -> {
+            String id = vehicleId(ctx);
+            streams.start(ctx, id, vehicle(id));
+        });
+        config.routes.delete("/v1/vehicles/{vehicle}", ctx -> {
+            throw readOnly("vehicles are held by the workers; this service only reads their poses");
+        });
+        config.routes.get("/v1/vehicles", this::list);
+        config.routes.get("/health", this::health);
+        config.routes.get("/openapi.yaml", ctx -> ctx.contentType("application/yaml").result(openApiYaml));
+    }
+
+    private static HttpProblem readOnly(String detail) {
+        return new HttpProblem(405, "read-only", "Read-only service", "method", detail);
+    }
+
+    private String vehicleId(Context ctx) {
+        String id = ctx.pathParam("vehicle");
+        int max = server.maxVehicleIdChars();
+        if (id.length() > max || !VehicleRoutes.VEHICLE_ID.matcher(id).matches()) {
+            throw HttpProblem.invalidParameter("vehicle", "must be 1 to " + max
+                    + " letters, digits or . _ : -, starting with a letter or digit (server.max_vehicle_id_chars), was '"
+                    + VehicleRoutes.clip(id) + "'");
+        }
+        return id;
+    }
+
+    private PoseBoard.Vehicle vehicle(String id) {
+        return board.find(id).orElseThrow(() -> HttpProblem.unknownVehicle(id));
+    }
+
+    private void getPose(Context ctx) {
+        String id = vehicleId(ctx);
+        PoseBoard.Vehicle v = vehicle(id);
+        String atText = ctx.queryParam("at");
+        if (atText != null) {
+            double at = VehicleRoutes.finiteNumber("at", atText);
+            PoseBoard.Entry e = v.at(at).orElseThrow(() -> HttpProblem.noPose("at",
+                    "no pose of '" + id + "' at or before " + atText + " s in the history"));
+            ctx.contentType("application/json").result(e.json());
+            return;
+        }
+        long version = v.version();
+        PoseBoard.Entry latest = v.latest().orElseThrow(() -> HttpProblem.noPose("vehicle",
+                "'" + id + "' has no pose yet"));
+        String etag = "\"k-" + version + "\"";
+        ctx.header("ETag", etag);
+        ctx.header("Cache-Control", "no-cache");
+        if (VehicleRoutes.matches(ctx.header("If-None-Match"), etag)) {
+            ctx.status(304);
+            return;
+        }
+        ctx.contentType("application/json").result(latest.json());
+    }
+
+    private void getTrack(Context ctx) {
+        String id = vehicleId(ctx);
+        PoseBoard.Vehicle v = vehicle(id);
+        String format = ctx.queryParam("format");
+        if (format != null && !format.equals("json")) {
+            throw HttpProblem.invalidParameter("format", "must be json when poses are read from Kafka (GeoJSON is"
+                    + " written by the service that runs the vehicles), was '" + VehicleRoutes.clip(format) + "'");
+        }
+        if (ctx.queryParam("crs") != null) {
+            throw HttpProblem.invalidParameter("crs", "projected coordinates are not available when poses are read"
+                    + " from Kafka");
+        }
+        String fromText = ctx.queryParam("from");
+        String toText = ctx.queryParam("to");
+        double from = fromText == null ? Double.NEGATIVE_INFINITY : VehicleRoutes.finiteNumber("from", fromText);
+        double to = toText == null ? Double.POSITIVE_INFINITY : VehicleRoutes.finiteNumber("to", toText);
+        if (from > to) {
+            throw HttpProblem.invalidParameter("to", "must not be before from (" + fromText + " s), was " + toText + " s");
+        }
+        List<PoseBoard.Entry> poses = v.between(from, to);
+        byte[] body = PoseJson.document(256 + 800 * poses.size(), g -> {
+            g.writeStartObject();
+            g.writeStringField("vehicle", id);
+            g.writeNumberField("count", poses.size());
+            g.writeArrayFieldStart("poses");
+            for (PoseBoard.Entry e : poses) {
+                g.writeRawValue(new String(e.json(), java.nio.charset.StandardCharsets.UTF_8));
+            }
+            g.writeEndArray();
+            g.writeEndObject();
+        });
+        ctx.contentType("application/json").result(body);
+    }
+
+    private void getFixes(Context ctx) {
+        String id = vehicleId(ctx);
+        vehicle(id);
+        byte[] json = PoseJson.document(64, g -> {
+            g.writeStartObject();
+            g.writeStringField("vehicle", id);
+            g.writeArrayFieldStart("fixes");
+            g.writeEndArray();
+            g.writeEndObject();
+        });
+        ctx.contentType("application/json").result(json);
+    }
+
+    /** The vehicle list's fields, read from the newest pose's JSON. */
+    private static final List<String> LISTED = List.of("state", "t", "lat", "lon", "radius95", "alert_limit",
+            "last_fix_t");
+
+    private void list(Context ctx) {
+        List<PoseBoard.Vehicle> all = board.all();
+        all = all.stream().sorted(Comparator.comparing(v -> v.id)).toList();
+        List<PoseBoard.Vehicle> vehicles = all;
+        byte[] json = PoseJson.document(256 + 200 * vehicles.size(), g -> {
+            g.writeStartObject();
+            g.writeArrayFieldStart("vehicles");
+            for (PoseBoard.Vehicle v : vehicles) {
+                Map<String, Object> fields = v.latest().map(e -> summary(e.json())).orElse(Map.of());
+                g.writeStartObject();
+                g.writeStringField("vehicle", v.id);
+                // The workers count samples; their poses do not carry the count.
+                g.writeNullField("samples");
+                for (String name : LISTED) {
+                    Object value = fields.get(name);
+                    if (value instanceof String text) {
+                        g.writeStringField(name, text);
+                    } else if (value instanceof Double d) {
+                        PoseJson.number(g, name, d);
+                    } else {
+                        g.writeNullField(name);
+                    }
+                }
+                g.writeBooleanField("outage_active", Boolean.TRUE.equals(fields.get("outage_active")));
+                g.writeEndObject();
+            }
+            g.writeEndArray();
+            g.writeEndObject();
+        });
+        ctx.contentType("application/json").result(json);
+    }
+
+    /** The top-level numbers and state of a pose's JSON, and {@code outage.active} as {@code outage_active}. */
+    static Map<String, Object> summary(byte[] json) {
+        Map<String, Object> out = new HashMap<>();
+        try (JsonParser p = PoseJson.FACTORY.createParser(json)) {
+            if (p.nextToken() != JsonToken.START_OBJECT) {
+                return out;
+            }
+            while (p.nextToken() == JsonToken.FIELD_NAME) {
+                String name = p.currentName();
+                JsonToken value = p.nextToken();
+                if (name.equals("outage") && value == JsonToken.START_OBJECT) {
+                    while (p.nextToken() == JsonToken.FIELD_NAME) {
+                        String inner = p.currentName();
+                        JsonToken v = p.nextToken();
+                        if (inner.equals("active") && v.isBoolean()) {
+                            out.put("outage_active", v == JsonToken.VALUE_TRUE);
+                        }
+                        p.skipChildren();
+                    }
+                } else if (value.isNumeric()) {
+                    out.put(name, p.getDoubleValue());
+                } else if (value == JsonToken.VALUE_STRING) {
+                    out.put(name, p.getText());
+                } else {
+                    p.skipChildren();
+                }
+            }
+        } catch (IOException e) {
+            // A pose the service cannot read is listed with nulls.
+        }
+        return out;
+    }
+
+    private void health(Context ctx) {
+        ctx.header("Cache-Control", "no-store");
+        ctx.contentType("application/json");
+        ctx.result(PoseJson.document(256, g -> {
+            g.writeStartObject();
+            g.writeStringField("status", "ok");
+            g.writeNumberField("sessions", board.size());
+            g.writeNumberField("streams", streams.openCount());
+            g.writeNumberField("uptime_s", Math.round((System.nanoTime() - startedNanos) / 1e6) / 1e3);
+            g.writeObjectFieldStart("poses_from");
+            g.writeStringField("source", source);
+            g.writeNumberField("poses_read", board.posesRead());
+            g.writeBooleanField("caught_up", board.isCaughtUp());
+            g.writeEndObject();
+            g.writeEndObject();
+        }));
+    }
+
+    private static byte[] readOpenApi() {
+        try (InputStream in = HttpService.class.getResourceAsStream("openapi.yaml")) {
+            if (in == null) {
+                throw new IllegalStateException("openapi.yaml: missing from the classpath at org/wayhold/http/");
+            }
+            return in.readAllBytes();
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** Binds and starts serving; returns this. */
+    public BoardService start() {
+        app.start();
+        return this;
+    }
+
+    public int port() {
+        return app.port();
+    }
+
+    /** {@code http://host:port} of the bound connector. */
+    public String baseUrl() {
+        String host = server.bind();
+        if (host.contains(":") && !host.startsWith("[")) {
+            host = "[" + host + "]";
+        }
+        return "http://" + host + ":" + port();
+    }
+
+    @Override
+    public void close() {
+        app.stop();
+    }
+}

@@ -1,0 +1,144 @@
+package org.wayhold.stream;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.assertThatThrownBy;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import org.apache.kafka.clients.admin.Admin;
+import org.junit.jupiter.api.AfterAll;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.wayhold.http.BoardService;
+import org.wayhold.http.PoseBoard;
+import org.wayhold.sample.Sample;
+import org.wayhold.settings.Settings;
+import org.wayhold.settings.WorkerSettings;
+import org.wayhold.simulate.SimulationSettings;
+import org.wayhold.testing.KafkaBroker;
+
+/**
+ * The fleet mode end to end on a real broker (KRaft, in this JVM, 127.0.0.1): records of samples in,
+ * a worker, poses, events and dead letters out, and the read service answering from the poses topic.
+ * Expected poses are the service's own for the same records ({@code VehicleSession}); the dead letter's
+ * code is the contract's.
+ */
+class FleetOnKafkaTest {
+
+    private static final ObjectMapper JSON = new ObjectMapper();
+    private static KafkaBroker broker;
+
+    @BeforeAll
+    static void startBroker() throws Exception {
+        KafkaBroker.logLevel("off");
+        broker = KafkaBroker.start();
+    }
+
+    @AfterAll
+    static void stopBroker() {
+        if (broker != null) {
+            broker.close();
+        }
+    }
+
+    private static Settings settings(String name, boolean create) {
+        Settings d = Settings.defaults();
+        return d.withWorker(new WorkerSettings(name, name + ".samples", name + ".poses", name + ".events",
+                name + ".rejected", 3, 1, create, 3600.0, 1, 0, 0.1, 6.0))
+                .withServer(d.server().withAddress(0, "127.0.0.1"));
+    }
+
+    @Test
+    void posesGoThroughTheWorkerToTheReadServiceAsTheServiceGivesThem() throws Exception {
+        Settings settings = settings("roundtrip", true);
+        WorkerSettings w = settings.worker();
+        List<List<Fleet.Batch>> perVehicle = new ArrayList<>();
+        for (int v = 0; v < 5; v++) {
+            List<Sample> drive = Fleet.drive(SimulationSettings.defaults().withDurationS(60), 300 + v);
+            perVehicle.add(Fleet.batches("van-" + v, drive, 1.0));
+        }
+        List<Fleet.Batch> records = new ArrayList<>(Fleet.interleave(perVehicle));
+        // One record of van-0 again at the end: far older than ordering.max_lag_s, so refused as late.
+        Fleet.Batch first = perVehicle.get(0).get(0);
+        records.add(new Fleet.Batch("van-0", first.samples().subList(0, 1),
+                Fleet.ndjson(first.samples().subList(0, 1))));
+        Map<String, List<String>> expected = Fleet.servicePoses(settings, records);
+        long expectedTotal = KafkaIo.total(expected);
+
+        try (Worker worker = new Worker(settings, broker.bootstrap())) {
+            assertThat(worker.start()).containsExactlyInAnyOrder(w.samplesTopic(), w.posesTopic(), w.eventsTopic(),
+                    w.deadLetterTopic());
+            assertThat(worker.awaitRunning(Duration.ofSeconds(60))).isTrue();
+            KafkaIo.produce(broker.bootstrap(), w.samplesTopic(), records);
+            Map<String, List<String>> poses = KafkaIo.read(broker.bootstrap(), w.posesTopic(), Duration.ofSeconds(60),
+                    Duration.ofSeconds(1), n -> n >= expectedTotal, r -> { });
+            assertThat(poses).isEqualTo(expected);
+            Map<String, List<String>> letters = KafkaIo.read(broker.bootstrap(), w.deadLetterTopic(),
+                    Duration.ofSeconds(30), Duration.ZERO, n -> n >= 1, r -> { });
+            JsonNode letter = JSON.readTree(letters.get("van-0").get(0));
+            assertThat(letter.get("code").asText()).isEqualTo("late");
+
+            PoseBoard board = new PoseBoard(settings.history().maxPoses());
+            try (PoseTopicReader reader = new PoseTopicReader(broker.bootstrap(), w, board).start();
+                 BoardService service = new BoardService(settings.server(), board, "test").start()) {
+                HttpClient http = HttpClient.newHttpClient();
+                long deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                while (board.size() < 5 && System.nanoTime() < deadline) {
+                    Thread.sleep(50);
+                }
+                JsonNode list = JSON.readTree(get(http, service.baseUrl() + "/v1/vehicles").body());
+                assertThat(list.get("vehicles")).hasSize(5);
+                String last = expected.get("van-3").get(expected.get("van-3").size() - 1);
+                deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                HttpResponse<String> pose = get(http, service.baseUrl() + "/v1/vehicles/van-3/pose");
+                while (!pose.body().equals(last) && System.nanoTime() < deadline) {
+                    Thread.sleep(50);
+                    pose = get(http, service.baseUrl() + "/v1/vehicles/van-3/pose");
+                }
+                assertThat(pose.statusCode()).isEqualTo(200);
+                assertThat(pose.body()).isEqualTo(last);
+                JsonNode summary = list.get("vehicles").get(3);
+                assertThat(summary.get("vehicle").asText()).isEqualTo("van-3");
+                assertThat(summary.get("state").asText()).isEqualTo(JSON.readTree(last).get("state").asText());
+                JsonNode track = JSON.readTree(get(http, service.baseUrl() + "/v1/vehicles/van-3/track").body());
+                assertThat(track.get("count").asInt())
+                        .isEqualTo(Math.min(settings.history().maxPoses(), expected.get("van-3").size()));
+                assertThat(get(http, service.baseUrl() + "/v1/vehicles/nobody/pose").statusCode()).isEqualTo(404);
+                HttpResponse<String> post = http.send(HttpRequest.newBuilder(
+                        URI.create(service.baseUrl() + "/v1/vehicles/van-3/samples"))
+                        .POST(HttpRequest.BodyPublishers.ofString("{}")).build(), HttpResponse.BodyHandlers.ofString());
+                assertThat(post.statusCode()).isEqualTo(405);
+            }
+        }
+    }
+
+    @Test
+    void aWorkerThatMayNotCreateTopicsRefusesToStartAndNamesTheMissingOnes() throws Exception {
+        Settings settings = settings("absent", false);
+        try (Worker worker = new Worker(settings, broker.bootstrap())) {
+            assertThatThrownBy(worker::start).isInstanceOf(WorkerTopics.Refused.class)
+                    .hasMessage("worker: topics missing: absent.samples, absent.poses, absent.events, absent.rejected;"
+                            + " create them (for example 3 partitions, replication factor 1) or set"
+                            + " worker.create_topics: true");
+        }
+        java.util.Properties p = new java.util.Properties();
+        p.put("bootstrap.servers", broker.bootstrap());
+        try (Admin admin = Admin.create(p)) {
+            assertThat(admin.listTopics().names().get()).noneMatch(t -> t.startsWith("absent"));
+        }
+    }
+
+    private static HttpResponse<String> get(HttpClient http, String url) throws Exception {
+        return http.send(HttpRequest.newBuilder(URI.create(url)).GET().build(),
+                HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+    }
+}
