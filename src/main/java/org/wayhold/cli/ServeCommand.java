@@ -44,6 +44,9 @@ import picocli.CommandLine.Spec;
  * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
  * tokens or {@code --insecure}.
  *
+ * <p>With {@code --from-kafka} it runs no vehicle: it serves, read-only, the poses that {@code wayhold
+ * worker} instances write to Kafka ({@link BoardService}).
+ *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
  * connector stops accepting, requests in flight get up to ten seconds to finish, and a last snapshot
  * is written.

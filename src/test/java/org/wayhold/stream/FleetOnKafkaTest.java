@@ -3,6 +3,10 @@ package org.wayhold.stream;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 
+import com.atlassian.oai.validator.OpenApiInteractionValidator;
+import com.atlassian.oai.validator.model.Request;
+import com.atlassian.oai.validator.model.SimpleResponse;
+import com.atlassian.oai.validator.report.ValidationReport;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.net.URI;
@@ -10,6 +14,8 @@ import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
@@ -117,6 +123,20 @@ class FleetOnKafkaTest {
                         URI.create(service.baseUrl() + "/v1/vehicles/van-3/samples"))
                         .POST(HttpRequest.BodyPublishers.ofString("{}")).build(), HttpResponse.BodyHandlers.ofString());
                 assertThat(post.statusCode()).isEqualTo(405);
+
+                // The replies follow openapi.yaml (the read service's list and health included).
+                OpenApiInteractionValidator validator = OpenApiInteractionValidator.createForInlineApiSpecification(
+                        Files.readString(Path.of("openapi.yaml"))).build();
+                for (String path : List.of("/v1/vehicles", "/v1/vehicles/van-3/pose", "/v1/vehicles/van-3/track",
+                        "/v1/vehicles/van-3/fixes", "/health", "/v1/vehicles/nobody/pose")) {
+                    HttpResponse<String> r = get(http, service.baseUrl() + path);
+                    SimpleResponse.Builder resp = SimpleResponse.Builder.status(r.statusCode());
+                    r.headers().map().forEach(resp::withHeader);
+                    resp.withBody(r.body());
+                    ValidationReport report = validator.validateResponse(path, Request.Method.GET, resp.build());
+                    assertThat(report.getMessages()).as(path)
+                            .noneMatch(m -> m.getLevel() == ValidationReport.Level.ERROR);
+                }
             }
         }
     }
