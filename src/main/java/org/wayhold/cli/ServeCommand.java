@@ -26,6 +26,7 @@ import org.wayhold.session.SessionRegistry;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.stream.PoseTopicReader;
+import org.wayhold.stream.SampleProducer;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
@@ -94,8 +95,17 @@ final class ServeCommand implements Callable<Integer> {
                     + "running vehicles here: read routes, pose streams and the live view; no journal, no ingest.")
     private String fromKafka;
 
+    @Option(names = "--to-kafka",
+            description = "With --from-kafka: POST .../samples hands each body to the samples topic "
+                    + "(worker.samples_topic) and replies 202 once the broker acknowledged it.")
+    private boolean toKafka;
+
     @Override
     public Integer call() throws Exception {
+        if (toKafka && fromKafka == null) {
+            throw new ParameterException(spec.commandLine(), "--to-kafka: needs --from-kafka HOST:PORT (the cluster"
+                    + " the workers read from)");
+        }
         if (fromKafka != null) {
             return servePosesFromKafka();
         }
@@ -203,21 +213,29 @@ final class ServeCommand implements Callable<Integer> {
         err.flush();
         PoseBoard board = new PoseBoard(settings.history().maxPoses());
         PoseTopicReader reader = new PoseTopicReader(fromKafka, settings.worker(), board).start();
+        SampleProducer producer = toKafka ? new SampleProducer(fromKafka, settings.worker()) : null;
         BoardService service;
         try {
             service = new BoardService(settings.server(), board, "kafka topic " + settings.worker().posesTopic()
-                    + " at " + fromKafka).start();
+                    + " at " + fromKafka, producer).start();
         } catch (RuntimeException e) {
             reader.close();
+            if (producer != null) {
+                producer.close();
+            }
             throw e;
         }
         out.println("wayhold serving on " + service.baseUrl() + "  (poses from kafka topic "
-                + settings.worker().posesTopic() + " at " + fromKafka + "; Ctrl-C to stop)");
+                + settings.worker().posesTopic() + (toKafka ? ", samples to " + settings.worker().samplesTopic() : "")
+                + " at " + fromKafka + "; Ctrl-C to stop)");
         out.flush();
         CountDownLatch stopped = new CountDownLatch(1);
         Runtime.getRuntime().addShutdownHook(new Thread(() -> {
             service.close();
             reader.close();
+            if (producer != null) {
+                producer.close();
+            }
             out.println("wayhold stopped");
             out.flush();
             stopped.countDown();

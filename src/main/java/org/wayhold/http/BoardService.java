@@ -38,6 +38,7 @@ public final class BoardService implements AutoCloseable {
     private final UploadSlots uploads;
     private final byte[] openApiYaml;
     private final String source;
+    private final SampleForwarder forwarder;
     private final Javalin app;
     private final long startedNanos = System.nanoTime();
 
@@ -45,9 +46,21 @@ public final class BoardService implements AutoCloseable {
      * @param source where the poses come from, for {@code /health} (for example {@code "kafka topic wayhold.poses"})
      */
     public BoardService(ServerSettings server, PoseBoard board, String source) {
+        this(server, board, source, null);
+    }
+
+    /**
+     * A read service that also takes samples ({@code serve --to-kafka}): a {@code POST .../samples} body
+     * is handed to {@code forwarder} and acknowledged once it is stored (202); the workers check its
+     * lines, and refused ones go to their dead-letter topic.
+     *
+     * @param forwarder where samples go, or null to answer {@code POST} with 405
+     */
+    public BoardService(ServerSettings server, PoseBoard board, String source, SampleForwarder forwarder) {
         this.server = server;
         this.board = board;
         this.source = source;
+        this.forwarder = forwarder;
         this.streams = new PoseStreams(server.sseKeepAliveS(), server.maxStreams());
         this.tokens = new BearerTokens(server);
         this.uploads = new UploadSlots(server.maxConcurrentUploads());
@@ -95,7 +108,11 @@ public final class BoardService implements AutoCloseable {
         }
         config.routes.before(tokens::check);
         config.routes.post("/v1/vehicles/{vehicle}/samples", ctx -> {
-            throw readOnly("samples go to the workers' samples topic; this service only reads their poses");
+            if (forwarder == null) {
+                throw readOnly("samples go to the workers' samples topic; this service only reads their poses"
+                        + " (serve --to-kafka forwards them)");
+            }
+            forward(ctx);
         });
         config.routes.get("/v1/vehicles/{vehicle}/pose", this::getPose);
         config.routes.get("/v1/vehicles/{vehicle}/track", this::getTrack);
@@ -110,6 +127,94 @@ public final class BoardService implements AutoCloseable {
         config.routes.get("/v1/vehicles", this::list);
         config.routes.get("/health", this::health);
         config.routes.get("/openapi.yaml", ctx -> ctx.contentType("application/yaml").result(openApiYaml));
+    }
+
+    /** Most bytes of one forwarded record: Kafka refuses records over 1 MB by default (max.request.size). */
+    static final int RECORD_BYTES = 512 * 1024;
+
+    /** How long a reply waits for the broker's acknowledgement (s). */
+    static final long FORWARD_TIMEOUT_S = 30;
+
+    /**
+     * Forwards a body of samples: NDJSON is cut at line ends into records of at most
+     * {@link #RECORD_BYTES}; a JSON body (one object or an array) is one record, as an array. Replies 202
+     * with where the records went once the broker acknowledged all of them, in order.
+     */
+    private void forward(Context ctx) {
+        String id = vehicleId(ctx);
+        SampleIngest.Format format = SampleIngest.formatOf(ctx.header("Content-Type"));
+        SampleIngest.Encoding encoding = SampleIngest.encodingOf(ctx.header("Content-Encoding"));
+        byte[] body = ctx.bodyAsBytes();
+        if (encoding == SampleIngest.Encoding.GZIP) {
+            try (InputStream in = new java.util.zip.GZIPInputStream(new java.io.ByteArrayInputStream(body))) {
+                body = in.readNBytes((int) Math.min(Integer.MAX_VALUE - 8, server.maxBodyBytes() + 1));
+            } catch (IOException e) {
+                throw HttpProblem.invalidParameter("body", "body: not a valid gzip stream: " + e.getMessage());
+            }
+            if (body.length > server.maxBodyBytes()) {
+                throw HttpProblem.bodyTooLarge("body: more than " + server.maxBodyBytes()
+                        + " bytes once inflated (server.max_body_bytes)");
+            }
+        }
+        List<byte[]> records = new java.util.ArrayList<>();
+        if (format == SampleIngest.Format.JSON) {
+            String text = new String(body, java.nio.charset.StandardCharsets.UTF_8).strip();
+            byte[] array = (text.startsWith("[") ? text : "[" + text + "]").getBytes(java.nio.charset.StandardCharsets.UTF_8);
+            if (array.length > RECORD_BYTES) {
+                throw HttpProblem.bodyTooLarge("body: a JSON body forwarded to Kafka may hold at most " + RECORD_BYTES
+                        + " bytes; send larger batches as NDJSON, which is cut into records");
+            }
+            records.add(array);
+        } else {
+            int from = 0;
+            while (from < body.length) {
+                int to = Math.min(body.length, from + RECORD_BYTES);
+                if (to < body.length) {
+                    int cut = to;
+                    while (cut > from && body[cut - 1] != '\n') {
+                        cut--;
+                    }
+                    if (cut == from) {
+                        throw HttpProblem.invalidParameter("body", "body: a line longer than " + RECORD_BYTES
+                                + " bytes cannot be forwarded");
+                    }
+                    to = cut;
+                }
+                records.add(java.util.Arrays.copyOfRange(body, from, to));
+                from = to;
+            }
+        }
+        if (records.isEmpty() || records.stream().allMatch(r -> new String(r, java.nio.charset.StandardCharsets.UTF_8).isBlank())) {
+            throw HttpProblem.invalidParameter("body", "body: no samples");
+        }
+        List<java.util.concurrent.CompletableFuture<SampleForwarder.Stored>> sent = new java.util.ArrayList<>();
+        for (byte[] r : records) {
+            sent.add(forwarder.forward(id, r));
+        }
+        SampleForwarder.Stored last;
+        try {
+            java.util.concurrent.CompletableFuture.allOf(sent.toArray(new java.util.concurrent.CompletableFuture[0]))
+                    .get(FORWARD_TIMEOUT_S, java.util.concurrent.TimeUnit.SECONDS);
+            last = sent.get(sent.size() - 1).get();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            throw HttpProblem.unavailable("samples", "samples: interrupted before the broker acknowledged them");
+        } catch (java.util.concurrent.ExecutionException | java.util.concurrent.TimeoutException e) {
+            Throwable cause = e.getCause() == null ? e : e.getCause();
+            throw HttpProblem.unavailable("samples", "samples: not stored in Kafka (" + cause.getClass().getSimpleName()
+                    + "); nothing was acknowledged, send them again");
+        }
+        int n = records.size();
+        byte[] json = PoseJson.document(160, g -> {
+            g.writeStartObject();
+            g.writeStringField("vehicle", id);
+            g.writeNumberField("records", n);
+            g.writeStringField("topic", last.topic());
+            g.writeNumberField("partition", last.partition());
+            g.writeNumberField("offset", last.offset());
+            g.writeEndObject();
+        });
+        ctx.status(202).contentType("application/json").result(json);
     }
 
     private static HttpProblem readOnly(String detail) {

@@ -95,7 +95,8 @@ class FleetOnKafkaTest {
 
             PoseBoard board = new PoseBoard(settings.history().maxPoses());
             try (PoseTopicReader reader = new PoseTopicReader(broker.bootstrap(), w, board).start();
-                 BoardService service = new BoardService(settings.server(), board, "test").start()) {
+                 SampleProducer producer = new SampleProducer(broker.bootstrap(), w);
+                 BoardService service = new BoardService(settings.server(), board, "test", producer).start()) {
                 HttpClient http = HttpClient.newHttpClient();
                 long deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
                 while (board.size() < 5 && System.nanoTime() < deadline) {
@@ -119,10 +120,36 @@ class FleetOnKafkaTest {
                 assertThat(track.get("count").asInt())
                         .isEqualTo(Math.min(settings.history().maxPoses(), expected.get("van-3").size()));
                 assertThat(get(http, service.baseUrl() + "/v1/vehicles/nobody/pose").statusCode()).isEqualTo(404);
+                HttpResponse<String> delete = http.send(HttpRequest.newBuilder(
+                        URI.create(service.baseUrl() + "/v1/vehicles/van-3")).DELETE().build(),
+                        HttpResponse.BodyHandlers.ofString());
+                assertThat(delete.statusCode()).isEqualTo(405);
+
+                // HTTP ingest as a producer: a vehicle posted here reaches the worker and comes back as poses,
+                // the same as the service gives for the same body.
+                List<Sample> drive = Fleet.drive(SimulationSettings.defaults().withDurationS(60), 399);
+                List<Sample> part = drive.subList(0, drive.size() / 2);
                 HttpResponse<String> post = http.send(HttpRequest.newBuilder(
-                        URI.create(service.baseUrl() + "/v1/vehicles/van-3/samples"))
-                        .POST(HttpRequest.BodyPublishers.ofString("{}")).build(), HttpResponse.BodyHandlers.ofString());
-                assertThat(post.statusCode()).isEqualTo(405);
+                        URI.create(service.baseUrl() + "/v1/vehicles/posted-1/samples"))
+                        .header("Content-Type", "application/x-ndjson")
+                        .POST(HttpRequest.BodyPublishers.ofByteArray(Fleet.ndjson(part))).build(),
+                        HttpResponse.BodyHandlers.ofString());
+                assertThat(post.statusCode()).isEqualTo(202);
+                JsonNode forwarded = JSON.readTree(post.body());
+                assertThat(forwarded.get("topic").asText()).isEqualTo(w.samplesTopic());
+                List<String> postedPoses = Fleet.servicePoses(settings,
+                        List.of(new Fleet.Batch("posted-1", part, Fleet.ndjson(part)))).get("posted-1");
+                // Under 512 KiB, the most the service puts in one record: the body is one record, one batch.
+                assertThat(Fleet.ndjson(part).length).isLessThan(512 * 1024);
+                assertThat(forwarded.get("records").asInt()).isEqualTo(1);
+                String lastPosted = postedPoses.get(postedPoses.size() - 1);
+                deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                HttpResponse<String> posted = get(http, service.baseUrl() + "/v1/vehicles/posted-1/pose");
+                while (!posted.body().equals(lastPosted) && System.nanoTime() < deadline) {
+                    Thread.sleep(50);
+                    posted = get(http, service.baseUrl() + "/v1/vehicles/posted-1/pose");
+                }
+                assertThat(posted.body()).isEqualTo(lastPosted);
 
                 // The replies follow openapi.yaml (the read service's list and health included).
                 OpenApiInteractionValidator validator = OpenApiInteractionValidator.createForInlineApiSpecification(
