@@ -77,6 +77,9 @@ public final class Worker implements AutoCloseable {
         p.put(StreamsConfig.REPLICATION_FACTOR_CONFIG, w.replicationFactor());
         p.put(StreamsConfig.STATE_DIR_CONFIG, stateDir.toString());
         p.put(StreamsConfig.PROBING_REBALANCE_INTERVAL_MS_CONFIG, PROBING_REBALANCE_MS);
+        // The topology has no global state; enabling the handler there is the coming default and keeps
+        // Kafka Streams from warning about it at every start.
+        p.put(StreamsConfig.PROCESSING_EXCEPTION_HANDLER_GLOBAL_ENABLED_CONFIG, true);
         long sessionMs = Math.max(1L, Math.round(w.sessionTimeoutS() * 1000.0));
         p.put(StreamsConfig.consumerPrefix(ConsumerConfig.SESSION_TIMEOUT_MS_CONFIG), (int) sessionMs);
         // Three heartbeats per session timeout, the clients' usual ratio.
