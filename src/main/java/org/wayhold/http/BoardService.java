@@ -405,6 +405,11 @@ public final class BoardService implements AutoCloseable {
         }
     }
 
+    /** Pose streams open now (count). */
+    int streamsOpen() {
+        return streams.openCount();
+    }
+
     /** Binds and starts serving; returns this. */
     public BoardService start() {
         app.start();
