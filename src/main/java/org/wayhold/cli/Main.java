@@ -19,7 +19,7 @@ import picocli.CommandLine.Spec;
 @Command(name = "wayhold", mixinStandardHelpOptions = true, versionProvider = Main.Version.class,
         scope = ScopeType.INHERIT,
         description = "Holds a road vehicle's position through GNSS dropouts.",
-        subcommands = {SimulateCommand.class, ScoreCommand.class, ServeCommand.class})
+        subcommands = {SimulateCommand.class, ScoreCommand.class, ServeCommand.class, WorkerCommand.class})
 public final class Main implements Callable<Integer> {
 
     @Spec

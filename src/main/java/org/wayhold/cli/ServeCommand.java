@@ -11,6 +11,8 @@ import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
 import org.wayhold.http.BindRule;
+import org.wayhold.http.BoardService;
+import org.wayhold.http.PoseBoard;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
 import org.wayhold.journal.Journal;
@@ -24,6 +26,8 @@ import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
+import org.wayhold.stream.PoseTopicReader;
+import org.wayhold.stream.SampleProducer;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
@@ -43,6 +47,9 @@ import picocli.CommandLine.Spec;
  *
  * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
  * tokens or {@code --insecure}.
+ *
+ * <p>With {@code --from-kafka} it runs no vehicle: it serves, read-only, the poses that {@code wayhold
+ * worker} instances write to Kafka ({@link BoardService}).
  *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
  * connector stops accepting, requests in flight get up to ten seconds to finish, and a last snapshot
@@ -86,8 +93,25 @@ final class ServeCommand implements Callable<Integer> {
             description = "Vehicle id that the replay feeds (default: ${DEFAULT-VALUE}).")
     private String vehicle;
 
+    @Option(names = "--from-kafka", paramLabel = "HOST:PORT",
+            description = "Serves the poses that wayhold workers write to Kafka (worker.poses_topic) instead of "
+                    + "running vehicles here: read routes, pose streams and the live view; no journal, no ingest.")
+    private String fromKafka;
+
+    @Option(names = "--to-kafka",
+            description = "With --from-kafka: POST .../samples hands each body to the samples topic "
+                    + "(worker.samples_topic) and replies 202 once the broker acknowledged it.")
+    private boolean toKafka;
+
     @Override
     public Integer call() throws Exception {
+        if (toKafka && fromKafka == null) {
+            throw new ParameterException(spec.commandLine(), "--to-kafka: needs --from-kafka HOST:PORT (the cluster"
+                    + " the workers read from)");
+        }
+        if (fromKafka != null) {
+            return servePosesFromKafka();
+        }
         PrintWriter out = spec.commandLine().getOut();
         if (!(speed > 0.0 && Double.isFinite(speed))) {
             throw new ParameterException(spec.commandLine(), "--speed: must be a positive number, was " + speed);
@@ -193,6 +217,63 @@ final class ServeCommand implements Callable<Integer> {
             return Double.toString(v);
         }
         return new java.math.BigDecimal(Double.toString(v)).stripTrailingZeros().toPlainString();
+    }
+
+    /**
+     * The read side of the fleet mode: a {@link PoseBoard} filled from the poses topic by a
+     * {@link PoseTopicReader}, served by a {@link BoardService}, until SIGTERM or Ctrl-C.
+     */
+    private int servePosesFromKafka() throws Exception {
+        WorkerCommand.checkBootstrap(spec, "--from-kafka", fromKafka);
+        if (replay != null) {
+            throw new ParameterException(spec.commandLine(), "--replay: not with --from-kafka, which runs no vehicle"
+                    + " here (send the log to the samples topic instead)");
+        }
+        PrintWriter out = spec.commandLine().getOut();
+        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
+        PoseBoard board = new PoseBoard(settings.history().maxPoses(), settings.outage().staleAfterS(),
+                java.time.Clock.systemUTC());
+        PoseTopicReader reader = new PoseTopicReader(fromKafka, settings.worker(), board).start();
+        SampleProducer producer = toKafka ? new SampleProducer(fromKafka, settings.worker()) : null;
+        BoardService service;
+        try {
+            service = new BoardService(settings.server(), board, "kafka topic " + settings.worker().posesTopic()
+                    + " at " + fromKafka, producer).start();
+        } catch (RuntimeException e) {
+            reader.close();
+            if (producer != null) {
+                producer.close();
+            }
+            throw e;
+        }
+        out.println("wayhold serving on " + service.baseUrl() + "  (poses from kafka topic "
+                + settings.worker().posesTopic() + (toKafka ? ", samples to " + settings.worker().samplesTopic() : "")
+                + " at " + fromKafka + "; Ctrl-C to stop)");
+        out.flush();
+        CountDownLatch stopped = new CountDownLatch(1);
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            service.close();
+            reader.close();
+            if (producer != null) {
+                producer.close();
+            }
+            out.println("wayhold stopped");
+            out.flush();
+            stopped.countDown();
+        }, "wayhold-shutdown"));
+        stopped.await();
+        return 0;
     }
 
     /**

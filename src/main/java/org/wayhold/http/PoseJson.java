@@ -34,7 +34,7 @@ import org.wayhold.session.Liveness;
  * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
  * written as {@code null}.
  */
-final class PoseJson {
+public final class PoseJson {
 
     static final JsonFactory FACTORY = new JsonFactory();
 
@@ -43,7 +43,7 @@ final class PoseJson {
 
     /** Writes the content of one JSON document. */
     @FunctionalInterface
-    interface Content {
+    public interface Content {
         void write(JsonGenerator g) throws IOException;
     }
 
@@ -52,7 +52,7 @@ final class PoseJson {
      *
      * @param sizeHint expected size (bytes), to size the buffer
      */
-    static byte[] document(int sizeHint, Content content) {
+    public static byte[] document(int sizeHint, Content content) {
         ByteArrayOutputStream out = new ByteArrayOutputStream(sizeHint);
         try (JsonGenerator g = FACTORY.createGenerator(out)) {
             content.write(g);
@@ -63,8 +63,11 @@ final class PoseJson {
         return out.toByteArray();
     }
 
-    /** One pose as a JSON document (UTF-8). */
-    static byte[] toBytes(Pose p) {
+    /**
+     * One pose as a JSON document (UTF-8): the body of {@code GET /pose}, and the value of a pose record
+     * the stream worker writes, so both carry the same fields.
+     */
+    public static byte[] toBytes(Pose p) {
         return document(768, g -> write(g, p, null));
     }
 
@@ -150,6 +153,42 @@ final class PoseJson {
         g.writeBooleanField("stale", live.stale());
     }
 
+    /**
+     * A pose's JSON as another process wrote it ({@link #toBytes(Pose)}) with the vehicle's liveness
+     * added at its end, as {@link #toBytes(Pose, Liveness)} writes it. Anything that is not a JSON object
+     * is returned as it is.
+     */
+    static byte[] withLiveness(byte[] poseJson, Liveness live) {
+        int end = poseJson.length - 1;
+        while (end >= 0 && Character.isWhitespace(poseJson[end])) {
+            end--;
+        }
+        int start = 0;
+        while (start < end && Character.isWhitespace(poseJson[start])) {
+            start++;
+        }
+        if (end <= start || poseJson[start] != '{' || poseJson[end] != '}') {
+            return poseJson;
+        }
+        boolean empty = true;
+        for (int i = start + 1; i < end && empty; i++) {
+            empty = Character.isWhitespace(poseJson[i]);
+        }
+        // {"received_at":...,"stale":...}: its fields follow the pose's.
+        byte[] fields = document(64, g -> {
+            g.writeStartObject();
+            liveness(g, live);
+            g.writeEndObject();
+        });
+        ByteArrayOutputStream out = new ByteArrayOutputStream(end + fields.length + 1);
+        out.write(poseJson, 0, end);
+        if (!empty) {
+            out.write(',');
+        }
+        out.write(fields, 1, fields.length - 1);
+        return out.toByteArray();
+    }
+
     /** {x, y} of the pose in the CRS, or null when the pose has no valid position yet. */
     static double[] projectOrNull(ProjectedCrs crs, Pose p) {
         if (!hasPosition(p)) {
@@ -177,7 +216,7 @@ final class PoseJson {
     }
 
     /** A number, or null when it is not finite (JSON has no NaN or infinity). */
-    static void number(JsonGenerator g, String name, double value) throws IOException {
+    public static void number(JsonGenerator g, String name, double value) throws IOException {
         g.writeFieldName(name);
         value(g, value);
     }

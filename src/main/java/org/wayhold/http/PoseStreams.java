@@ -58,6 +58,10 @@ import org.wayhold.session.VehicleSession;
  *
  * <p>{@link #closeAll()} ends every stream cleanly (the response is completed, not cut), for shutdown and
  * for a deleted vehicle.
+ *
+ * <p>The poses come from a {@link Source}: a vehicle's session in this process, or, for the read service
+ * of the fleet mode ({@code serve --from-kafka}), the pose JSON that a worker wrote, kept on a
+ * {@link PoseBoard}. Both give the same events: ids, resumption, liveness and staleness notes alike.
  */
 final class PoseStreams {
 
@@ -79,7 +83,7 @@ final class PoseStreams {
     private final int maxStreams;
     /** Slots taken: streams open or being started. */
     private final AtomicInteger reserved = new AtomicInteger();
-    private final Set<Stream> open = ConcurrentHashMap.newKeySet();
+    private final Set<Stream<?>> open = ConcurrentHashMap.newKeySet();
     private final AtomicInteger threadNumber = new AtomicInteger();
     private final ExecutorService writers = Executors.newCachedThreadPool(r -> {
         Thread t = new Thread(r, "pose-stream-" + threadNumber.incrementAndGet());
@@ -104,6 +108,104 @@ final class PoseStreams {
         this.maxStreams = maxStreams;
         long checkMillis = checkMillis(staleAfterS);
         checker.scheduleWithFixedDelay(this::checkLiveness, checkMillis, checkMillis, TimeUnit.MILLISECONDS);
+    }
+
+    /**
+     * Where a stream's poses come from, and how one is written.
+     *
+     * @param <P> a pose as the source holds it
+     */
+    interface Source<P> {
+        /**
+         * Registers the listener and returns, atomically with the registration, what it must be sent
+         * first (see {@link VehicleSession#subscribe}).
+         *
+         * @param afterT time of the last pose the client saw (s, vehicle clock), NaN for none
+         */
+        Backlog<P> subscribe(Consumer<P> listener, double afterT);
+
+        void unsubscribe(Consumer<P> listener);
+
+        /** Whether the vehicle is still sending, now. */
+        Liveness liveness();
+
+        /** The pose's time (s, vehicle clock): the event's id. */
+        double timeOf(P pose);
+
+        /** The pose's JSON with the vehicle's liveness (UTF-8): the event's data. */
+        byte[] json(P pose, Liveness live);
+    }
+
+    /**
+     * What a new stream sends first.
+     *
+     * @param poses     oldest first
+     * @param resumed   true when they continue after the time the client asked for
+     * @param heldFromT oldest pose time the source holds (s, vehicle clock), NaN when none
+     */
+    record Backlog<P>(List<P> poses, boolean resumed, double heldFromT) {
+    }
+
+    /** The poses of a vehicle's session in this process. */
+    static Source<Pose> source(VehicleSession session) {
+        return new Source<>() {
+            @Override
+            public Backlog<Pose> subscribe(Consumer<Pose> listener, double afterT) {
+                VehicleSession.Subscription sub = session.subscribe(listener, afterT);
+                return new Backlog<>(sub.backlog(), sub.resumed(), sub.heldFromT());
+            }
+
+            @Override
+            public void unsubscribe(Consumer<Pose> listener) {
+                session.removeListener(listener);
+            }
+
+            @Override
+            public Liveness liveness() {
+                return session.liveness();
+            }
+
+            @Override
+            public double timeOf(Pose pose) {
+                return pose.t();
+            }
+
+            @Override
+            public byte[] json(Pose pose, Liveness live) {
+                return PoseJson.toBytes(pose, live);
+            }
+        };
+    }
+
+    /** The poses of a vehicle as a worker wrote them ({@code serve --from-kafka}). */
+    static Source<PoseBoard.Entry> source(PoseBoard.Vehicle vehicle) {
+        return new Source<>() {
+            @Override
+            public Backlog<PoseBoard.Entry> subscribe(Consumer<PoseBoard.Entry> listener, double afterT) {
+                PoseBoard.Subscription sub = vehicle.subscribe(listener, afterT);
+                return new Backlog<>(sub.backlog(), sub.resumed(), sub.heldFromT());
+            }
+
+            @Override
+            public void unsubscribe(Consumer<PoseBoard.Entry> listener) {
+                vehicle.removeListener(listener);
+            }
+
+            @Override
+            public Liveness liveness() {
+                return vehicle.liveness();
+            }
+
+            @Override
+            public double timeOf(PoseBoard.Entry pose) {
+                return pose.t();
+            }
+
+            @Override
+            public byte[] json(PoseBoard.Entry pose, Liveness live) {
+                return PoseJson.withLiveness(pose.json(), live);
+            }
+        };
     }
 
     /** Period of the staleness check (ms): a quarter of the stale time, within [50 ms, 1 s]. */
@@ -178,6 +280,18 @@ final class PoseStreams {
      * request has one and the history holds it, else from the current pose.
      */
     void start(Context ctx, String vehicleId, VehicleSession session) {
+        start(ctx, vehicleId, source(session));
+    }
+
+    /**
+     * Starts a stream of a vehicle's poses as a worker wrote them ({@code serve --from-kafka}), on the
+     * same terms as a session's.
+     */
+    void start(Context ctx, String vehicleId, PoseBoard.Vehicle vehicle) {
+        start(ctx, vehicleId, source(vehicle));
+    }
+
+    private <P> void start(Context ctx, String vehicleId, Source<P> source) {
         String accept = ctx.header("Accept");
         if (!acceptsEventStream(accept)) {
             throw new HttpProblem(406, "not-acceptable", "Not acceptable", "Accept",
@@ -205,7 +319,7 @@ final class PoseStreams {
             res.addHeader("X-Accel-Buffering", "no");
             res.flushBuffer();
             // A timeout of 0 keeps the asynchronous response open until the stream closes it.
-            ctx.async(config -> config.timeout = 0L, () -> attach(new SseClient(ctx), vehicleId, session, slot,
+            ctx.async(config -> config.timeout = 0L, () -> attach(new SseClient(ctx), vehicleId, source, slot,
                     afterT));
         } catch (IOException e) {
             slot.free();
@@ -227,13 +341,13 @@ final class PoseStreams {
         }
     }
 
-    private void attach(SseClient client, String vehicleId, VehicleSession session, Slot slot, double afterT) {
-        Stream s = new Stream(client, vehicleId, session, slot);
+    private <P> void attach(SseClient client, String vehicleId, Source<P> source, Slot slot, double afterT) {
+        Stream<P> s = new Stream<>(client, vehicleId, source, slot);
         client.keepAlive();
         client.onClose(s::detach);
         open.add(s);
-        VehicleSession.Subscription sub = session.subscribe(s, afterT);
-        s.backlog = sub.backlog();
+        Backlog<P> sub = source.subscribe(s, afterT);
+        s.backlog = sub.poses();
         if (sub.resumed() && afterT < sub.heldFromT()) {
             s.note = "resumed after " + PoseJson.plain(afterT) + " s, but the history holds poses from "
                     + PoseJson.plain(sub.heldFromT()) + " s on; the track endpoint has no more";
@@ -249,7 +363,7 @@ final class PoseStreams {
     /** Asks each stream whose vehicle's staleness changed since its last event to say so. */
     private void checkLiveness() {
         try {
-            for (Stream s : open) {
+            for (Stream<?> s : open) {
                 s.checkLiveness();
             }
         } catch (RuntimeException e) {
@@ -260,7 +374,7 @@ final class PoseStreams {
 
     /** Ends the streams of one vehicle (its session was deleted). */
     void closeVehicle(String vehicleId) {
-        for (Stream s : open) {
+        for (Stream<?> s : open) {
             if (s.vehicleId.equals(vehicleId)) {
                 s.requestClose();
             }
@@ -271,7 +385,7 @@ final class PoseStreams {
     void closeAll() {
         closing = true;
         checker.shutdownNow();
-        for (Stream s : open) {
+        for (Stream<?> s : open) {
             s.requestClose();
         }
         writers.shutdown();
@@ -285,34 +399,34 @@ final class PoseStreams {
     }
 
     /** One client: the queue the listener fills and the loop that empties it. */
-    private final class Stream implements Consumer<Pose> {
+    private final class Stream<P> implements Consumer<P> {
         private final SseClient client;
         private final String vehicleId;
-        private final VehicleSession session;
+        private final Source<P> source;
         private final Slot slot;
         /** Poses, {@link #WAKE_UP} to make the writer look at its flags at once, and {@link #LIVENESS}. */
         private final BlockingQueue<Object> queue = new ArrayBlockingQueue<>(QUEUE_CAPACITY + 2);
         private volatile boolean closeRequested;
         private volatile boolean overflowed;
         /** Poses to send before the queue's, set before the writer starts. */
-        private List<Pose> backlog = List.of();
+        private List<P> backlog = List.of();
         /** A comment to send first, or null. */
         private String note;
         /** The last pose sent and the staleness it was sent with; the checker reads them. */
-        private volatile Pose lastSent;
+        private volatile P lastSent;
         private volatile boolean lastSentStale;
         private final AtomicBoolean livenessQueued = new AtomicBoolean();
 
-        Stream(SseClient client, String vehicleId, VehicleSession session, Slot slot) {
+        Stream(SseClient client, String vehicleId, Source<P> source, Slot slot) {
             this.client = client;
             this.vehicleId = vehicleId;
-            this.session = session;
+            this.source = source;
             this.slot = slot;
         }
 
         /** Called on the feeding thread: never blocks. */
         @Override
-        public void accept(Pose pose) {
+        public void accept(P pose) {
             // Two slots are kept free, for the wake-up and a staleness note, so that a full queue can
             // still be closed at once.
             if (queue.remainingCapacity() <= 2 || !queue.offer(pose)) {
@@ -322,7 +436,7 @@ final class PoseStreams {
         }
 
         void checkLiveness() {
-            if (lastSent != null && session.liveness().stale() != lastSentStale
+            if (lastSent != null && source.liveness().stale() != lastSentStale
                     && livenessQueued.compareAndSet(false, true) && !queue.offer(LIVENESS)) {
                 livenessQueued.set(false);
             }
@@ -334,15 +448,15 @@ final class PoseStreams {
         }
 
         void detach() {
-            session.removeListener(this);
+            source.unsubscribe(this);
             open.remove(this);
             slot.free();
         }
 
-        private void send(Pose p) {
-            Liveness live = session.liveness();
-            client.sendEvent("pose", new String(PoseJson.toBytes(p, live), StandardCharsets.UTF_8),
-                    PoseJson.plain(p.t()));
+        private void send(P p) {
+            Liveness live = source.liveness();
+            client.sendEvent("pose", new String(source.json(p, live), StandardCharsets.UTF_8),
+                    PoseJson.plain(source.timeOf(p)));
             lastSentStale = live.stale();
             lastSent = p;
         }
@@ -352,7 +466,7 @@ final class PoseStreams {
                 if (note != null) {
                     client.sendComment(note);
                 }
-                for (Pose p : backlog) {
+                for (P p : backlog) {
                     if (closeRequested || client.terminated()) {
                         break;
                     }
@@ -363,14 +477,17 @@ final class PoseStreams {
                     Object next = queue.poll(keepAliveMillis, TimeUnit.MILLISECONDS);
                     if (next == null) {
                         client.sendComment("keep-alive");
-                    } else if (next instanceof Pose p) {
-                        send(p);
                     } else if (next == LIVENESS) {
                         livenessQueued.set(false);
-                        Pose p = lastSent;
-                        if (p != null && session.liveness().stale() != lastSentStale) {
+                        P p = lastSent;
+                        if (p != null && source.liveness().stale() != lastSentStale) {
                             send(p);
                         }
+                    } else if (next != WAKE_UP) {
+                        // Only the listener queues anything else: a pose of this source.
+                        @SuppressWarnings("unchecked")
+                        P p = (P) next;
+                        send(p);
                     }
                 }
                 if (overflowed && !client.terminated()) {

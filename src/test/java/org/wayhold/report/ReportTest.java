@@ -148,7 +148,7 @@ class ReportTest {
         List<Settings> scored = List.of(Settings.defaults(), new Settings(
                 everyKey.server().withTokens(List.of(), List.of()), everyKey.filter(), everyKey.gating(),
                 everyKey.outage(), everyKey.ordering(), everyKey.history(), everyKey.vehicles(), everyKey.journal(),
-                everyKey.ingest()));
+                everyKey.ingest(), everyKey.worker()));
         assertThat(configs).hasSize(2);
         for (int i = 0; i < 2; i++) {
             Path yaml = dir.resolve("config-" + i + ".yaml");
