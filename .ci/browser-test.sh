@@ -3,7 +3,9 @@
 # then the end-to-end check in a real browser: Debian's headless Chromium driven by playwright-core
 # from npm (no browser download). Starts the service jar with a replay of
 # sample-logs/two-tunnels.ndjson.gz at 20x and checks the page against it, then a fleet and read
-# tokens; see e2e/view.e2e.mjs. Screenshots go to target/e2e/. The last line is "e2e: N passed, N failed".
+# tokens; see e2e/view.e2e.mjs. Then the drift report of two demo drives in the same browser
+# (e2e/report.e2e.mjs). Screenshots go to target/e2e/. The live view's last line is "e2e: N passed, N
+# failed", the report's "report e2e: N passed, N failed"; the script fails when either failed.
 # Needs: Java 17, Node.js 20+, npm; installs Chromium with apt-get when it is missing (as root).
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -27,5 +29,8 @@ fi
 node --test e2e/modules.test.mjs
 
 mkdir -p target/e2e
+status=0
 CHROMIUM="$CHROMIUM" node e2e/view.e2e.mjs --jar target/wayhold.jar \
-  --replay sample-logs/two-tunnels.ndjson.gz --speed 20 --out target/e2e
+  --replay sample-logs/two-tunnels.ndjson.gz --speed 20 --out target/e2e || status=1
+CHROMIUM="$CHROMIUM" node e2e/report.e2e.mjs --jar target/wayhold.jar --out target/e2e || status=1
+exit $status

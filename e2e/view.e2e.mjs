@@ -8,9 +8,11 @@
 // vehicle clock inside the tunnel, fix markers are drawn (accepted ones, the pending ones right after a
 // tunnel exit, a gated outlier), the 95 % radius is shown against the 10 m alert limit, the close-up's
 // labels stay inside it, the vehicle's label leaves the track visible, the vehicle is shown as stale once
-// the replay has ended (today's service sends no `stale`, so the page judges by its own clock), every
-// module comes with a JavaScript type, the caution is shown, no console errors, no request leaves the
-// service.
+// the replay has ended: the service runs with a short `outage.stale_after_s` (STALE_AFTER_S) from a
+// config file, says when the drive has ended, and then marks the vehicle `stale` in its pose, its list,
+// its metrics and the pose stream (with no new pose), and both pages show the service's word within a
+// few seconds; every module comes with a JavaScript type, the caution is shown, no console errors, no
+// request leaves the service.
 // The fleet part then posts short drives for vehicles with 64-character ids into the same service and
 // opens a page at 1400 px whose list and pose replies get the contract's v2 fields (`stale`,
 // `received_at`, `reasons`) added by route interception, as a v2 service would send them: the table is
@@ -34,7 +36,7 @@
 // a machine so loaded that neither tunnel could be watched, run 1 is repeated once and says so.
 
 import { spawn } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { gunzipSync } from 'node:zlib';
@@ -60,8 +62,14 @@ const PAGE_LIMIT_BYTES = 300 * 1024;
 const ALERT_LIMIT_M = 10;
 /** Vehicle time after a tunnel exit within which the held-back (pending) fixes fall (s; README: 2 s of multipath, then 4 agreeing fixes at 5 Hz). */
 const PENDING_WITHIN_S = 5;
-/** Wall-clock seconds without a new pose after which the page calls a vehicle stale (js/status.js). */
-const PAGE_STALE_S = 10;
+/** The service's outage.stale_after_s for these runs (s): short, so that the check waits little. */
+const STALE_AFTER_S = 3;
+/**
+ * Most wall-clock seconds from the service's "drive has ended" line to the pages showing the vehicle
+ * stale: the stale time, the service's staleness check (at most every second), and the page's list
+ * refresh (2 s) or the pose stream, with room for a busy machine.
+ */
+const STALE_SHOWN_WITHIN_S = STALE_AFTER_S + 10;
 /** Modules of the page (src/main/resources/web/js); LiveViewFilesTest keeps index.html's list complete. */
 const MODULES = 12;
 /** Vehicle time of demo drive posted to each fleet vehicle (s from the first sample). */
@@ -91,14 +99,21 @@ function logLines(file) {
  */
 function startService(env = {}) {
   const dataDir = mkdtempSync(join(tmpdir(), 'wayhold-e2e-'));
-  const child = spawn('java', [...JVM_ARGS, '-jar', JAR, 'serve', '--port', '0', '--data', dataDir,
-    '--replay', LOG, '--speed', String(SPEED)], { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ...env } });
+  const config = join(dataDir, 'e2e.yaml');
+  writeFileSync(config, `outage:\n  stale_after_s: ${STALE_AFTER_S}\n`);
+  const child = spawn('java', [...JVM_ARGS, '-jar', JAR, 'serve', '--port', '0', '--data', join(dataDir, 'journal'),
+    '--config', config, '--replay', LOG, '--speed', String(SPEED)],
+  { stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, ...env } });
   let log = '';
+  /** Resolves with Date.now() when the service prints that the replayed drive has ended. */
+  let endedAt;
+  const ended = new Promise((resolve) => { endedAt = resolve; });
   const exited = new Promise((resolve) => child.on('exit', resolve));
   const ready = new Promise((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error('service did not start within 60 s:\n' + log)), 60000);
     child.stdout.on('data', (d) => {
       log += d;
+      if (/replay: the drive has ended/.test(log)) endedAt(Date.now());
       const m = /serving on (http:\/\/[^\s]+)/.exec(log);
       if (m && /replaying \d+ samples/.test(log)) {
         clearTimeout(timer);
@@ -118,7 +133,7 @@ function startService(env = {}) {
     }
     rmSync(dataDir, { recursive: true, force: true });
   }
-  return { ready, stop };
+  return { ready, stop, ended, output: () => log };
 }
 
 /**
@@ -449,18 +464,38 @@ async function attempt(browser, lines, t0, shots) {
         over && over.inside && over.under === 0 && over.samples > 0, JSON.stringify(over));
     }
 
-    // 5. The replay is over and today's service sends no `stale`: after PAGE_STALE_S without a new pose
-    // the page itself shows the vehicle as stale, in the banner and the table, and keeps its last state.
-    const staleSeen = await live.page.waitForFunction(() => {
-      const line = document.getElementById('state-stale');
-      const row = document.querySelector('#vehicle-rows tr[aria-selected="true"]');
-      return !line.hidden && row && row.dataset.stale === 'true'
-        ? { line: line.textContent, state: document.getElementById('state-text').textContent,
-          badge: document.getElementById('state-badge').dataset.stale, tag: row.querySelector('.stale-tag')?.textContent } : false;
-    }, null, { timeout: (PAGE_STALE_S + 15) * 1000, polling: 200 }).then((h) => h.jsonValue(), () => null);
-    check('without word from the service, a vehicle that stopped sending is shown stale in the banner and the table, with its last state',
-      staleSeen && /^Stale: no new pose for/.test(staleSeen.line) && staleSeen.badge === 'true' && /^stale /.test(staleSeen.tag || '')
-        && ['aided', 'degraded', 'bridging', 'unreliable'].includes(staleSeen.state), JSON.stringify(staleSeen));
+    // 5. The replay is over: the service says so, and after outage.stale_after_s without samples it marks
+    // the vehicle stale. Both pages show the service's word (the stream page from a stream event, which
+    // the service sends with no new pose; the polled page from its pose and list), with the last state.
+    const endedAt = await Promise.race([service.ended, new Promise((r) => setTimeout(() => r(null), 30000))]);
+    check("the service prints when the replayed drive has ended", endedAt !== null,
+      service.output().split('\n').filter((l) => /replay/.test(l)).join(' | '));
+    for (const [label, p] of [['stream', live], ['polling', polled]]) {
+      const staleSeen = await p.page.waitForFunction(() => {
+        const line = document.getElementById('state-stale');
+        const row = document.querySelector('#vehicle-rows tr[aria-selected="true"]');
+        return !line.hidden && row && row.dataset.stale === 'true'
+          ? { line: line.textContent, state: document.getElementById('state-text').textContent,
+            badge: document.getElementById('state-badge').dataset.stale, tag: row.querySelector('.stale-tag')?.textContent,
+            at: Date.now() } : false;
+      }, null, { timeout: STALE_SHOWN_WITHIN_S * 1000 + 5000, polling: 200 }).then((h) => h.jsonValue(), () => null);
+      const afterS = staleSeen && endedAt ? (staleSeen.at - endedAt) / 1000 : NaN;
+      check(`${label}: once the drive has ended the service's 'stale' shows in the banner and the table within ${STALE_SHOWN_WITHIN_S} s, not before ${STALE_AFTER_S} s, with the last state`,
+        staleSeen && /^Stale: the service has received nothing for/.test(staleSeen.line) && staleSeen.badge === 'true'
+          && /^stale /.test(staleSeen.tag || '') && ['aided', 'degraded', 'bridging', 'unreliable'].includes(staleSeen.state)
+          && afterS >= STALE_AFTER_S - 0.5 && afterS <= STALE_SHOWN_WITHIN_S,
+        `${JSON.stringify(staleSeen)}, ${afterS.toFixed(1)} s after the end`);
+    }
+    const linkText = await live.page.textContent('#link');
+    check('the stream page learnt of it on the pose stream (it was still streaming)', /pose stream/.test(linkText), linkText);
+    const api = await (await fetch(`${base}/v1/vehicles/${VEHICLE}/pose`)).json();
+    const listed = (await (await fetch(`${base}/v1/vehicles`)).json()).vehicles.find((v) => v.vehicle === VEHICLE);
+    const metrics = await (await fetch(`${base}/metrics`)).text();
+    check('the real service marks the vehicle stale in its pose, its list item and its metrics, its state kept',
+      api.stale === true && listed && listed.stale === true && listed.state === api.state
+        && Number.isFinite(api.received_at) && Date.now() / 1000 - api.received_at >= STALE_AFTER_S - 1
+        && new RegExp(`wayhold_vehicles\\{stale="true",state="${api.state}"\\} 1\\.0`).test(metrics),
+      JSON.stringify({ stale: api.stale, state: api.state, received_at: api.received_at, listed }));
     if (shots) {
       await live.page.screenshot({ path: join(OUT, '08-laptop-stale-after-replay.png') });
       await live.page.setViewportSize({ width: 700, height: 1100 });
@@ -543,13 +578,22 @@ async function fleetChecks(browser, base, lines, t0, check, shots) {
   const httpErrors = [];
   const ctx = await browser.newContext({ viewport: { width: 1400, height: 900 } });
   await guard(ctx, () => origin, outside, httpErrors);
-  await ctx.route(/\/v1\/vehicles(\?.*)?$/, async (route) => {
+  // A request still in flight when the context closes fails in its handler: that is the end of the
+  // page, not an error of it, and must not take the whole run down.
+  const ignoreClosed = (handler) => async (route) => {
+    try {
+      await handler(route);
+    } catch (e) {
+      if (!/disposed|closed|Target page, context or browser has been closed/i.test(String(e && e.message))) throw e;
+    }
+  };
+  await ctx.route(/\/v1\/vehicles(\?.*)?$/, ignoreClosed(async (route) => {
     const res = await route.fetch();
     const json = await res.json();
     json.vehicles = json.vehicles.map((item) => add(item, item.vehicle));
     await route.fulfill({ response: res, json });
-  });
-  await ctx.route(/\/v1\/vehicles\/[^/]+\/pose(\?.*)?$/, async (route) => {
+  }));
+  await ctx.route(/\/v1\/vehicles\/[^/]+\/pose(\?.*)?$/, ignoreClosed(async (route) => {
     const id = decodeURIComponent(new URL(route.request().url()).pathname.split('/')[3]);
     // Conditional requests would let a 304 through with last round's fields: ask afresh each time.
     const headers = { ...route.request().headers() };
@@ -557,7 +601,7 @@ async function fleetChecks(browser, base, lines, t0, check, shots) {
     const res = await route.fetch({ headers });
     if (res.status() !== 200) return route.fulfill({ response: res });
     await route.fulfill({ response: res, json: add(await res.json(), id) });
-  });
+  }));
   // A v2 stream carries the same fields; a playwright route cannot rewrite a stream as it flows, so
   // this page is told there is no stream (204: do not reconnect) and polls the pose instead.
   await ctx.route('**/stream', (route) => route.fulfill({ status: 204, body: '' }));

@@ -14,8 +14,8 @@ import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
 
 /**
- * The numerical core imports no web, JSON or YAML library, so that it can be tested, reused and
- * reasoned about without the HTTP edge. The rule is checked on the source text: a forbidden import
+ * The numerical core imports no web, JSON, YAML or Kafka library, so that it can be tested, reused and
+ * reasoned about without the HTTP edge or the stream worker. The rule is checked on the source text: a forbidden import
  * in any core package fails the build with the file and the line.
  */
 class ArchitectureTest {
@@ -27,7 +27,7 @@ class ArchitectureTest {
             "calibration", "simulate", "journal", "nmea");
 
     private static final List<String> FORBIDDEN_PREFIXES = List.of(
-            "io.javalin", "com.fasterxml.jackson", "org.yaml", "jakarta.servlet");
+            "io.javalin", "com.fasterxml.jackson", "org.yaml", "jakarta.servlet", "org.apache.kafka");
 
     private static final Pattern IMPORT = Pattern.compile("^\\s*import\\s+(?:static\\s+)?([\\w.]+)", Pattern.MULTILINE);
 

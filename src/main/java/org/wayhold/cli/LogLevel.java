@@ -10,7 +10,7 @@ import java.util.Locale;
  * since the simple logger reads its configuration once: picocli sets options before any command runs,
  * and nothing logs while the command line is read.
  *
- * <p>The level applies to wayhold's own loggers. Jetty and Javalin stay at {@code warn} (their
+ * <p>The level applies to wayhold's own loggers. Jetty, Javalin and Kafka stay at {@code warn} (their
  * {@code debug} output is the web server's internals, not wayhold's) unless the level asks for less
  * ({@code error} or {@code off}), which then applies to them too.
  */
@@ -18,7 +18,7 @@ enum LogLevel {
     TRACE, DEBUG, INFO, WARN, ERROR, OFF;
 
     static final String DEFAULT_PROPERTY = "org.slf4j.simpleLogger.defaultLogLevel";
-    static final List<String> QUIETED_LIBRARIES = List.of("org.eclipse.jetty", "io.javalin");
+    static final List<String> QUIETED_LIBRARIES = List.of("org.eclipse.jetty", "io.javalin", "org.apache.kafka");
     static final String LIBRARY_PROPERTY = "org.slf4j.simpleLogger.log.";
 
     /** The level as the simple logger spells it. */

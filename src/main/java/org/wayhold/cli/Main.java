@@ -20,7 +20,7 @@ import picocli.CommandLine.Spec;
         scope = ScopeType.INHERIT,
         description = "Holds a road vehicle's position through GNSS dropouts.",
         subcommands = {SimulateCommand.class, ScoreCommand.class, FuseCommand.class, ServeCommand.class,
-                CalibrateCommand.class})
+                CalibrateCommand.class, WorkerCommand.class})
 public final class Main implements Callable<Integer> {
 
     @Spec

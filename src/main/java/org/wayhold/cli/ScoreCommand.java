@@ -3,6 +3,7 @@ package org.wayhold.cli;
 import java.io.IOException;
 import java.io.PrintWriter;
 import java.nio.file.Path;
+import java.time.Instant;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
@@ -21,8 +22,10 @@ import org.wayhold.nmea.NmeaReader;
 import org.wayhold.nmea.NmeaResult;
 import org.wayhold.report.ReportFiles;
 import org.wayhold.report.ReportModel;
+import org.wayhold.report.RunInfo;
 import org.wayhold.sample.GnssFix;
 import org.wayhold.sample.Sample;
+import org.wayhold.scoring.InputFile;
 import org.wayhold.scoring.LengthSummary;
 import org.wayhold.scoring.ScoringRun;
 import org.wayhold.scoring.WindowPlan;
@@ -144,9 +147,20 @@ final class ScoreCommand implements Callable<Integer> {
         // line: it fails with one line naming the log and exit code 1, not with the usage.
         List<ScoringRun.LogScores> scores = ScoringRun.run(sources, named, options, progress);
         progress.finish();
-        ReportModel model = ReportModel.of(scores, named, options);
+        ReportModel model = ReportModel.of(scores, named, options,
+                RunInfo.of(spec.commandLine().getParseResult().originalArgs(), Instant.now()));
         ReportFiles.write(model, out);
         summary(model);
+        List<String> why = model.whyNothingWasScored();
+        if (!why.isEmpty()) {
+            // The report is written (it says why), but a run that scored nothing must not pass for a
+            // successful one in a script.
+            PrintWriter err = spec.commandLine().getErr();
+            err.println("score: warning: no window could be scored: " + String.join("; ", why)
+                    + " (see " + out.resolve(ReportFiles.HTML) + ")");
+            err.flush();
+            return 1;
+        }
         return 0;
     }
 
@@ -174,14 +188,24 @@ final class ScoreCommand implements Callable<Integer> {
                 ReportFiles.CSV, ReportFiles.HTML, out, m.rows().size(), m.referenceKind());
         m.summaries().forEach((config, list) -> {
             for (LengthSummary s : list) {
+                String who = m.comparing() ? config + " " : "";
+                if (s.count() == 0) {
+                    o.printf(Locale.ROOT, "  %s%4.0f s:   no window scored%n", who, s.lengthS());
+                    continue;
+                }
                 o.printf(Locale.ROOT, "  %s%4.0f s: %3d windows, final error median %.2f m, p95 %.2f m, "
-                                + "median %.2f%% of distance, inside95 %.2f, missed alerts %d; smoothed max error "
-                                + "median %.2f m, inside95 %.2f, gap-fill ratio median %.3f%n",
-                        m.comparing() ? config + " " : "", s.lengthS(), s.count(), s.medianFinalErrorM(),
-                        s.p95FinalErrorM(), s.medianErrorPct(), s.inside95(), s.missedAlerts(),
-                        s.medianSmoothedMaxErrorM(), s.smoothedInside95(), s.medianGapFillRatio());
+                                + "median %s of distance, inside95 %.2f, warned late %d; smoothed max error "
+                                + "median %.2f m, inside95 %.2f, gap-fill ratio median %.3f%n", who, s.lengthS(),
+                        s.count(), s.medianFinalErrorM(), s.p95FinalErrorM(), Double.isFinite(s.medianErrorPct())
+                                ? String.format(Locale.ROOT, "%.2f%%", s.medianErrorPct()) : "(none long enough)",
+                        s.inside95(), s.warnedLate(), s.medianSmoothedMaxErrorM(), s.smoothedInside95(),
+                        s.medianGapFillRatio());
             }
         });
+        int unscored = m.unscoredCount();
+        if (unscored > 0) {
+            o.printf(Locale.ROOT, "  %d planned windows not scored, each with its reason in the report%n", unscored);
+        }
         o.flush();
     }
 
@@ -203,6 +227,7 @@ final class ScoreCommand implements Callable<Integer> {
         @Override
         public ScoringRun.LoadedLog load() throws IOException {
             List<Sample> samples = new ArrayList<>();
+            AtomicLong accepted = new AtomicLong();
             List<LineError> rejected = new ArrayList<>();
             AtomicInteger rejectedCount = new AtomicInteger();
             boolean replaceFixes = nmea != null;
@@ -210,6 +235,7 @@ final class ScoreCommand implements Callable<Integer> {
             NdjsonReader.readFile(log, new SampleSink() {
                 @Override
                 public void accept(long line, Sample s) {
+                    accepted.incrementAndGet();
                     if (!(replaceFixes && s instanceof GnssFix)) {
                         samples.add(s);
                     }
@@ -230,6 +256,8 @@ final class ScoreCommand implements Callable<Integer> {
             });
             List<Sample> all = samples;
             List<String> notes = new ArrayList<>();
+            List<InputFile> inputs = new ArrayList<>();
+            inputs.add(new InputFile(log.toString(), "ndjson", accepted.get(), rejectedCount.get()));
             if (rejectedCount.get() > 0) {
                 StringBuilder b = new StringBuilder(rejectedCount.get() + " NDJSON lines rejected");
                 rejected.forEach(e -> b.append("; line ").append(e.line()).append(": ").append(e.detail()));
@@ -251,8 +279,9 @@ final class ScoreCommand implements Callable<Integer> {
                         r.deadReckoning(), r.otherQuality(), r.undated()));
                 r.bad().stream().limit(NOTED_ERRORS).forEach(e ->
                         notes.add(nmea.getFileName() + " line " + e.line() + ": " + e.reason()));
+                inputs.add(new InputFile(nmea.toString(), "nmea", r.fixes().size(), r.bad().size()));
             }
-            return new ScoringRun.LoadedLog(name(), all, notes);
+            return new ScoringRun.LoadedLog(name(), all, notes, inputs);
         }
     }
 

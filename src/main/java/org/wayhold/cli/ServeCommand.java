@@ -11,6 +11,8 @@ import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
 import org.wayhold.config.ConfigLoader;
 import org.wayhold.http.BindRule;
+import org.wayhold.http.BoardService;
+import org.wayhold.http.PoseBoard;
 import org.wayhold.http.HttpService;
 import org.wayhold.ingest.LineError;
 import org.wayhold.journal.Journal;
@@ -24,6 +26,8 @@ import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
+import org.wayhold.stream.PoseTopicReader;
+import org.wayhold.stream.SampleProducer;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
@@ -43,6 +47,9 @@ import picocli.CommandLine.Spec;
  *
  * <p>Before anything listens, {@link BindRule} checks the address: a non-loopback {@code --bind} needs write
  * tokens or {@code --insecure}.
+ *
+ * <p>With {@code --from-kafka} it runs no vehicle: it serves, read-only, the poses that {@code wayhold
+ * worker} instances write to Kafka ({@link BoardService}).
  *
  * <p>Shutdown runs from the JVM's shutdown hook: the replay stops, pose streams end cleanly, the
  * connector stops accepting, requests in flight get up to ten seconds to finish, and a last snapshot
@@ -86,8 +93,25 @@ final class ServeCommand implements Callable<Integer> {
             description = "Vehicle id that the replay feeds (default: ${DEFAULT-VALUE}).")
     private String vehicle;
 
+    @Option(names = "--from-kafka", paramLabel = "HOST:PORT",
+            description = "Serves the poses that wayhold workers write to Kafka (worker.poses_topic) instead of "
+                    + "running vehicles here: read routes, pose streams and the live view; no journal, no ingest.")
+    private String fromKafka;
+
+    @Option(names = "--to-kafka",
+            description = "With --from-kafka: POST .../samples hands each body to the samples topic "
+                    + "(worker.samples_topic) and replies 202 once the broker acknowledged it.")
+    private boolean toKafka;
+
     @Override
     public Integer call() throws Exception {
+        if (toKafka && fromKafka == null) {
+            throw new ParameterException(spec.commandLine(), "--to-kafka: needs --from-kafka HOST:PORT (the cluster"
+                    + " the workers read from)");
+        }
+        if (fromKafka != null) {
+            return servePosesFromKafka();
+        }
         PrintWriter out = spec.commandLine().getOut();
         if (!(speed > 0.0 && Double.isFinite(speed))) {
             throw new ParameterException(spec.commandLine(), "--speed: must be a positive number, was " + speed);
@@ -135,7 +159,21 @@ final class ServeCommand implements Callable<Integer> {
         Thread replayThread = null;
         if (replay != null) {
             replayer = new LogReplay(log, speed, batch -> replayBatch(sessions, batch, err));
-            replayThread = new Thread(replayer, "replay-" + vehicle);
+            LogReplay r = replayer;
+            long replayStart = System.nanoTime();
+            double staleAfterS = settings.outage().staleAfterS();
+            replayThread = new Thread(() -> {
+                r.run();
+                if (r.completed()) {
+                    // The vehicle now goes quiet; say so, so that a watcher knows why it turns stale.
+                    out.printf(Locale.ROOT, "replay: the drive has ended: %d samples of %s replayed into vehicle"
+                                    + " '%s' (vehicle time %s to %s s) in %.1f s; the vehicle shows as stale after"
+                                    + " %s s without samples (outage.stale_after_s)%n", r.size(), replay, vehicle,
+                            plain(r.firstT()), plain(r.lastT()), (System.nanoTime() - replayStart) / 1e9,
+                            plain(staleAfterS));
+                    out.flush();
+                }
+            }, "replay-" + vehicle);
             replayThread.setDaemon(true);
             replayThread.start();
             out.printf(java.util.Locale.ROOT, "replaying %d samples of %s into vehicle '%s' at %sx: %s/v1/vehicles/%s/pose%n",
@@ -164,6 +202,71 @@ final class ServeCommand implements Callable<Integer> {
                 out.println("journal: closed with a snapshot of " + sessions.size() + " sessions");
             } catch (Throwable e) {
                 out.println("journal: closing failed: " + e);
+            }
+            out.println("wayhold stopped");
+            out.flush();
+            stopped.countDown();
+        }, "wayhold-shutdown"));
+        stopped.await();
+        return 0;
+    }
+
+    /** A number in plain decimal without a needless ".0" (epoch times included). */
+    static String plain(double v) {
+        if (!Double.isFinite(v)) {
+            return Double.toString(v);
+        }
+        return new java.math.BigDecimal(Double.toString(v)).stripTrailingZeros().toPlainString();
+    }
+
+    /**
+     * The read side of the fleet mode: a {@link PoseBoard} filled from the poses topic by a
+     * {@link PoseTopicReader}, served by a {@link BoardService}, until SIGTERM or Ctrl-C.
+     */
+    private int servePosesFromKafka() throws Exception {
+        WorkerCommand.checkBootstrap(spec, "--from-kafka", fromKafka);
+        if (replay != null) {
+            throw new ParameterException(spec.commandLine(), "--replay: not with --from-kafka, which runs no vehicle"
+                    + " here (send the log to the samples topic instead)");
+        }
+        PrintWriter out = spec.commandLine().getOut();
+        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
+        PoseBoard board = new PoseBoard(settings.history().maxPoses(), settings.outage().staleAfterS(),
+                java.time.Clock.systemUTC());
+        PoseTopicReader reader = new PoseTopicReader(fromKafka, settings.worker(), board).start();
+        SampleProducer producer = toKafka ? new SampleProducer(fromKafka, settings.worker()) : null;
+        BoardService service;
+        try {
+            service = new BoardService(settings.server(), board, "kafka topic " + settings.worker().posesTopic()
+                    + " at " + fromKafka, producer).start();
+        } catch (RuntimeException e) {
+            reader.close();
+            if (producer != null) {
+                producer.close();
+            }
+            throw e;
+        }
+        out.println("wayhold serving on " + service.baseUrl() + "  (poses from kafka topic "
+                + settings.worker().posesTopic() + (toKafka ? ", samples to " + settings.worker().samplesTopic() : "")
+                + " at " + fromKafka + "; Ctrl-C to stop)");
+        out.flush();
+        CountDownLatch stopped = new CountDownLatch(1);
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            service.close();
+            reader.close();
+            if (producer != null) {
+                producer.close();
             }
             out.println("wayhold stopped");
             out.flush();

@@ -18,6 +18,7 @@ import org.wayhold.settings.OutageSettings;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
+import org.wayhold.settings.WorkerSettings;
 
 /**
  * The one table of configuration keys. Each line names a YAML key (with its unit in the name), its YAML
@@ -81,7 +82,8 @@ final class KeyTable {
                 s.section("history", Settings::history, KeyTable::history),
                 s.named("vehicles", Settings::vehicles, VehicleProfile.defaults(), KeyTable::vehicle),
                 s.section("journal", Settings::journal, KeyTable::journal),
-                s.section("ingest", Settings::ingest, KeyTable::ingest));
+                s.section("ingest", Settings::ingest, KeyTable::ingest),
+                s.section("worker", Settings::worker, KeyTable::worker));
     }
 
     static ServerSettings server(Keys<ServerSettings> s) {
@@ -166,7 +168,8 @@ final class KeyTable {
     static OutageSettings outage(Keys<OutageSettings> s) {
         return new OutageSettings(
                 s.number("gap_s", OutageSettings::gapS),
-                s.number("alert_limit_m", OutageSettings::alertLimitM));
+                s.number("alert_limit_m", OutageSettings::alertLimitM),
+                s.number("stale_after_s", OutageSettings::staleAfterS));
     }
 
     static OrderingSettings ordering(Keys<OrderingSettings> s) {
@@ -189,6 +192,23 @@ final class KeyTable {
                 s.number("retention_age_s", JournalSettings::retentionAgeS),
                 s.longInteger("retention_bytes", JournalSettings::retentionBytes),
                 s.number("snapshot_interval_s", JournalSettings::snapshotIntervalS));
+    }
+
+    static WorkerSettings worker(Keys<WorkerSettings> s) {
+        return new WorkerSettings(
+                s.text("application_id", WorkerSettings::applicationId),
+                s.text("samples_topic", WorkerSettings::samplesTopic),
+                s.text("poses_topic", WorkerSettings::posesTopic),
+                s.text("events_topic", WorkerSettings::eventsTopic),
+                s.text("dead_letter_topic", WorkerSettings::deadLetterTopic),
+                s.integer("partitions", WorkerSettings::partitions),
+                s.integer("replication_factor", WorkerSettings::replicationFactor),
+                s.bool("create_topics", WorkerSettings::createTopics),
+                s.number("retention_s", WorkerSettings::retentionS),
+                s.integer("threads", WorkerSettings::threads),
+                s.integer("standby_replicas", WorkerSettings::standbyReplicas),
+                s.number("commit_interval_s", WorkerSettings::commitIntervalS),
+                s.number("session_timeout_s", WorkerSettings::sessionTimeoutS));
     }
 
     static VehicleProfile vehicle(Keys<VehicleProfile> s) {

@@ -9,6 +9,7 @@ import java.io.InputStream;
 import org.eclipse.jetty.ee10.servlet.ServletContextRequest;
 import org.eclipse.jetty.io.EndPoint;
 import java.util.function.BiConsumer;
+import java.util.function.Function;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.wayhold.session.SessionLimitException;
@@ -61,8 +62,10 @@ final class ErrorMapping {
      * @param maxBodyBytes  the body size limit (bytes); a refusal reads up to DRAIN_FACTOR times it
      * @param drainTimeoutS longest time a refusal spends reading the rest of a body (s)
      * @param slots         the upload slots; a drain takes one, and none is read without it
+     * @param allowed       the methods a path answers, as an {@code Allow} value (RFC 9110 sec. 10.2.1)
      */
-    static void install(RoutesConfig routes, long maxBodyBytes, double drainTimeoutS, UploadSlots slots) {
+    static void install(RoutesConfig routes, long maxBodyBytes, double drainTimeoutS, UploadSlots slots,
+                        Function<String, String> allowed) {
         long drainNanos = Math.round(drainTimeoutS * 1e9);
         // Every problem reply first drops what is left of the request body (see the class comment).
         BiConsumer<Context, HttpProblem> reply = (ctx, p) -> {
@@ -83,7 +86,7 @@ final class ErrorMapping {
             }
             switch (e.getStatus()) {
                 case 404 -> reply.accept(ctx, notFound(ctx));
-                case 405 -> reply.accept(ctx, methodNotAllowed(ctx));
+                case 405 -> reply.accept(ctx, methodNotAllowed(ctx, allowed));
                 default -> reply.accept(ctx, new HttpProblem(e.getStatus(), "http-" + e.getStatus(),
                         titleOf(e.getStatus()), null, safeDetail(e)));
             }
@@ -100,7 +103,7 @@ final class ErrorMapping {
         });
         routes.error(405, ctx -> {
             if (!written(ctx) && !isPreflight(ctx)) {
-                reply.accept(ctx, methodNotAllowed(ctx));
+                reply.accept(ctx, methodNotAllowed(ctx, allowed));
             }
         });
     }
@@ -110,9 +113,12 @@ final class ErrorMapping {
                 "path: no resource at " + ctx.method() + " " + ctx.path());
     }
 
-    private static HttpProblem methodNotAllowed(Context ctx) {
+    /** RFC 9110 sec. 15.5.6: a 405 carries {@code Allow} with the methods the resource does answer. */
+    private static HttpProblem methodNotAllowed(Context ctx, Function<String, String> allowed) {
+        String allow = allowed.apply(ctx.path());
+        ctx.header("Allow", allow);
         return new HttpProblem(405, "method-not-allowed", "Method not allowed", "method",
-                "method: " + ctx.method() + " is not allowed on " + ctx.path());
+                "method: " + ctx.method() + " is not allowed on " + ctx.path() + "; allowed: " + allow);
     }
 
     private static String safeDetail(HttpResponseException e) {

@@ -68,7 +68,8 @@ public final class HttpService implements AutoCloseable {
         this.server = sessions.settings().server();
         this.sessions = sessions;
         this.journal = journal;
-        this.streams = new PoseStreams(server.sseKeepAliveS(), server.maxStreams());
+        this.streams = new PoseStreams(server.sseKeepAliveS(), server.maxStreams(),
+                sessions.settings().outage().staleAfterS());
         this.metrics = new ServiceMetrics(sessions, streams, journal);
         this.openApiYaml = readOpenApi();
         sessions.addRemovalListener(streams::closeVehicle);
@@ -163,13 +164,17 @@ public final class HttpService implements AutoCloseable {
                 rule.exposeHeader("ETag");
                 rule.exposeHeader(VehicleRoutes.IDEMPOTENCY_REPLAYED);
                 rule.exposeHeader("Retry-After");
+                rule.exposeHeader(VehicleRoutes.HELD_FROM);
+                rule.exposeHeader(VehicleRoutes.HELD_TO);
+                rule.exposeHeader(VehicleRoutes.TRUNCATED);
             }));
         }
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
                 ctx.statusCode(), ms));
 
         LiveView.serve(config);
-        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads);
+        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads,
+                path -> allowHeader(routes(), path));
         if (!server.corsOrigins().isEmpty()) {
             // Before anything else runs: a write from a page of a disallowed origin is refused unapplied.
             OriginRule origins = new OriginRule(server.corsOrigins());
@@ -307,6 +312,28 @@ public final class HttpService implements AutoCloseable {
         g.writeEndArray();
         g.writeEndObject();
         g.writeEndObject();
+    }
+
+    /**
+     * The methods registered for a path, as an {@code Allow} value: each route template's
+     * {@code {param}} matches one path segment. {@code HEAD} is listed beside {@code GET}, which
+     * answers it (RFC 9110 sec. 9.3.2).
+     */
+    static String allowHeader(List<String> routes, String path) {
+        java.util.Set<String> methods = new java.util.LinkedHashSet<>();
+        for (String route : routes) {
+            String[] parts = route.split(" ", 2);
+            String regex = java.util.Arrays.stream(parts[1].split("/", -1))
+                    .map(seg -> seg.startsWith("{") && seg.endsWith("}") ? "[^/]+" : java.util.regex.Pattern.quote(seg))
+                    .collect(java.util.stream.Collectors.joining("/"));
+            if (path.matches(regex)) {
+                methods.add(parts[0]);
+                if (parts[0].equals("GET")) {
+                    methods.add("HEAD");
+                }
+            }
+        }
+        return String.join(", ", methods);
     }
 
     /** The matched route template for metric labels; never the raw path (unbounded label values). */

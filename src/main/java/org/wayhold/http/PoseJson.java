@@ -8,6 +8,7 @@ import java.io.UncheckedIOException;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
+import org.wayhold.session.Liveness;
 
 /**
  * Writes poses as the contract's pose JSON.
@@ -26,11 +27,15 @@ import org.wayhold.pose.Pose;
  * {@code last_fix_t} (s, vehicle clock, the last fix that corrected the estimate; null before one) and
  * {@code alert_limit} (m, the radius beyond which the state turns unreliable without a fix). In a
  * track requested with {@code crs}, {@code x} and {@code y} give the position in that CRS's units.
+ * The latest pose and the stream's events end with the vehicle's liveness: {@code received_at} (UTC
+ * epoch seconds of the service's clock when its latest accepted sample arrived; null when none has
+ * arrived since the service restored the session) and {@code stale} (true once nothing has arrived for
+ * longer than {@code outage.stale_after_s}); poses from the history have neither.
  *
  * <p>JSON has no NaN: a number that is not finite (for example the latitude before the first fix) is
  * written as {@code null}.
  */
-final class PoseJson {
+public final class PoseJson {
 
     static final JsonFactory FACTORY = new JsonFactory();
 
@@ -39,7 +44,7 @@ final class PoseJson {
 
     /** Writes the content of one JSON document. */
     @FunctionalInterface
-    interface Content {
+    public interface Content {
         void write(JsonGenerator g) throws IOException;
     }
 
@@ -48,7 +53,7 @@ final class PoseJson {
      *
      * @param sizeHint expected size (bytes), to size the buffer
      */
-    static byte[] document(int sizeHint, Content content) {
+    public static byte[] document(int sizeHint, Content content) {
         ByteArrayOutputStream out = new ByteArrayOutputStream(sizeHint);
         try (JsonGenerator g = FACTORY.createGenerator(out)) {
             content.write(g);
@@ -59,9 +64,17 @@ final class PoseJson {
         return out.toByteArray();
     }
 
-    /** One pose as a JSON document (UTF-8). */
-    static byte[] toBytes(Pose p) {
+    /**
+     * One pose as a JSON document (UTF-8): the body of {@code GET /pose}, and the value of a pose record
+     * the stream worker writes, so both carry the same fields.
+     */
+    public static byte[] toBytes(Pose p) {
         return document(768, g -> write(g, p, null));
+    }
+
+    /** The vehicle's latest pose with its liveness, as a JSON document (UTF-8). */
+    static byte[] toBytes(Pose p, Liveness live) {
+        return document(800, g -> write(g, p, null, live));
     }
 
     /**
@@ -71,6 +84,15 @@ final class PoseJson {
      *            position yet)
      */
     static void write(JsonGenerator g, Pose p, ProjectedCrs crs) throws IOException {
+        write(g, p, crs, null);
+    }
+
+    /**
+     * Writes one pose object, followed by the vehicle's liveness when {@code live} is not null.
+     *
+     * @param crs when not null, adds {@code x} and {@code y} projected into it
+     */
+    static void write(JsonGenerator g, Pose p, ProjectedCrs crs, Liveness live) throws IOException {
         g.writeStartObject();
         number(g, "t", p.t());
         number(g, "lat", p.latDeg());
@@ -125,7 +147,52 @@ final class PoseJson {
             number(g, "alt", o.altM());
             g.writeEndObject();
         }
+        if (live != null) {
+            liveness(g, live);
+        }
         g.writeEndObject();
+    }
+
+    /** The fields {@code received_at} (s, UTC epoch, null when unknown) and {@code stale}. */
+    static void liveness(JsonGenerator g, Liveness live) throws IOException {
+        number(g, "received_at", live.receivedAtS());
+        g.writeBooleanField("stale", live.stale());
+    }
+
+    /**
+     * A pose's JSON as another process wrote it ({@link #toBytes(Pose)}) with the vehicle's liveness
+     * added at its end, as {@link #toBytes(Pose, Liveness)} writes it. Anything that is not a JSON object
+     * is returned as it is.
+     */
+    static byte[] withLiveness(byte[] poseJson, Liveness live) {
+        int end = poseJson.length - 1;
+        while (end >= 0 && Character.isWhitespace(poseJson[end])) {
+            end--;
+        }
+        int start = 0;
+        while (start < end && Character.isWhitespace(poseJson[start])) {
+            start++;
+        }
+        if (end <= start || poseJson[start] != '{' || poseJson[end] != '}') {
+            return poseJson;
+        }
+        boolean empty = true;
+        for (int i = start + 1; i < end && empty; i++) {
+            empty = Character.isWhitespace(poseJson[i]);
+        }
+        // {"received_at":...,"stale":...}: its fields follow the pose's.
+        byte[] fields = document(64, g -> {
+            g.writeStartObject();
+            liveness(g, live);
+            g.writeEndObject();
+        });
+        ByteArrayOutputStream out = new ByteArrayOutputStream(end + fields.length + 1);
+        out.write(poseJson, 0, end);
+        if (!empty) {
+            out.write(',');
+        }
+        out.write(fields, 1, fields.length - 1);
+        return out.toByteArray();
     }
 
     /** {x, y} of the pose in the CRS, or null when the pose has no valid position yet. */
@@ -140,8 +207,22 @@ final class PoseJson {
         return Double.isFinite(p.latDeg()) && Double.isFinite(p.lonDeg());
     }
 
+    /**
+     * A number as text the way {@link #value} writes it (plain decimal for epoch times), or the empty
+     * string when it is not finite: for headers.
+     */
+    static String plain(double v) {
+        if (!Double.isFinite(v)) {
+            return "";
+        }
+        if (Math.abs(v) >= 1e7 && Math.abs(v) < 1e21) {
+            return new java.math.BigDecimal(Double.toString(v)).toPlainString();
+        }
+        return Double.toString(v);
+    }
+
     /** A number, or null when it is not finite (JSON has no NaN or infinity). */
-    static void number(JsonGenerator g, String name, double value) throws IOException {
+    public static void number(JsonGenerator g, String name, double value) throws IOException {
         g.writeFieldName(name);
         value(g, value);
     }

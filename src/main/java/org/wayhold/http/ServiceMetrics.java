@@ -20,6 +20,8 @@ import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
 import org.wayhold.BuildInfo;
 import org.wayhold.journal.SessionJournal;
+import org.wayhold.pose.NavState;
+import org.wayhold.pose.Pose;
 import org.wayhold.sample.RejectionReason;
 import org.wayhold.sample.SampleType;
 import org.wayhold.session.SessionRegistry;
@@ -42,6 +44,10 @@ import org.wayhold.session.VehicleSession;
  *   <li>{@code wayhold_sessions}: vehicle sessions held; {@code wayhold_sessions_quarantined}: those
  *       held apart because their state could not be trusted;</li>
  *   <li>{@code wayhold_outages_active}: sessions whose latest pose is in a GNSS outage;</li>
+ *   <li>{@code wayhold_vehicles{state, stale}}: vehicles by the navigation state of their latest pose
+ *       ({@code none} before the first pose) and by whether they have stopped sending ({@code stale}
+ *       {@code true} or {@code false}, {@code outage.stale_after_s}); every combination is exposed, so
+ *       a count that falls to 0 shows as 0, and the values of one scrape are counted together;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
  *   <li>{@code wayhold_http_request_seconds{method, route, status}}: request latency, with a histogram;</li>
  *   <li>{@code wayhold_build_info{version, commit}}: always 1, its labels say what runs;</li>
@@ -66,10 +72,34 @@ final class ServiceMetrics implements AutoCloseable {
     private final ConcurrentHashMap<String, Counter> counters = new ConcurrentHashMap<>();
     private final ConcurrentHashMap<String, Timer> timers = new ConcurrentHashMap<>();
 
+    /** State label of a vehicle without a pose yet. */
+    static final String NO_STATE = "none";
+
+    private final SessionRegistry sessions;
+    /**
+     * Vehicles per (state, stale) as of the last scrape, index {@code 2 * state + (stale ? 1 : 0)} with
+     * {@link #NO_STATE} after the navigation states; refreshed once per scrape so that the gauges of one
+     * scrape add up to the sessions counted.
+     */
+    private final java.util.concurrent.atomic.AtomicIntegerArray vehicles =
+            new java.util.concurrent.atomic.AtomicIntegerArray(2 * (NavState.values().length + 1));
+
     /** Listens to the JVM's collector notifications: closed with the service. */
     private final JvmGcMetrics gc = new JvmGcMetrics();
 
     ServiceMetrics(SessionRegistry sessions, PoseStreams streams, Optional<SessionJournal> journal) {
+        this.sessions = sessions;
+        int states = NavState.values().length;
+        for (int i = 0; i <= states; i++) {
+            String state = i < states ? NavState.values()[i].wireName() : NO_STATE;
+            for (int stale = 0; stale < 2; stale++) {
+                int index = 2 * i + stale;
+                Gauge.builder("wayhold.vehicles", vehicles, v -> v.get(index))
+                        .description("vehicles by the navigation state of their latest pose and by whether"
+                                + " nothing has arrived from them for longer than outage.stale_after_s")
+                        .tags("state", state, "stale", Boolean.toString(stale == 1)).register(registry);
+            }
+        }
         Gauge.builder("wayhold.sessions", sessions, SessionRegistry::size)
                 .description("vehicle sessions held").register(registry);
         Gauge.builder("wayhold.sessions.quarantined", sessions,
@@ -170,7 +200,22 @@ final class ServiceMetrics implements AutoCloseable {
 
     /** The Prometheus text exposition (format 0.0.4). */
     String scrape() {
+        countVehicles();
         return registry.scrape();
+    }
+
+    /** Counts the vehicles by state and staleness for the gauges of this scrape. */
+    private void countVehicles() {
+        int states = NavState.values().length;
+        int[] counts = new int[vehicles.length()];
+        for (VehicleSession s : sessions.sessions()) {
+            Optional<Pose> latest = s.latest();
+            int state = latest.map(p -> p.state().ordinal()).orElse(states);
+            counts[2 * state + (s.liveness().stale() ? 1 : 0)]++;
+        }
+        for (int i = 0; i < counts.length; i++) {
+            vehicles.set(i, counts[i]);
+        }
     }
 
     private Counter counter(String name, String description, String k1, String v1, String k2, String v2) {

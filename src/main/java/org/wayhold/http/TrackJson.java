@@ -6,12 +6,17 @@ import java.util.ArrayList;
 import java.util.List;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
+import org.wayhold.session.VehicleSession;
 
 /**
  * A vehicle's track as JSON, or as GeoJSON (RFC 7946).
  *
- * <p>JSON: {@code {"vehicle", "crs" (when asked), "count", "poses": [pose...]}}; with a CRS every pose
- * carries {@code x} and {@code y} in that CRS.
+ * <p>JSON: {@code {"vehicle", "crs" (when asked), "count", "held_from", "held_to", "truncated",
+ * "poses": [pose...]}}; with a CRS every pose carries {@code x} and {@code y} in that CRS.
+ * {@code held_from} and {@code held_to} are the oldest and newest pose times the vehicle's bounded
+ * history holds (s, vehicle clock; null when it holds none), and {@code truncated} is true when the
+ * requested window starts before {@code held_from} while the history is full, so poses the window asks
+ * for have been let go.
  *
  * <p>GeoJSON: a FeatureCollection whose first feature is a LineString of the whole track (when it has
  * two or more positions; a MultiLineString cut at the antimeridian when the track crosses it, RFC 7946
@@ -25,7 +30,22 @@ final class TrackJson {
     private TrackJson() {
     }
 
-    static byte[] json(String vehicleId, List<Pose> poses, ProjectedCrs crs) {
+    /**
+     * What the history holds against what a request asked for.
+     *
+     * @param fromT     oldest pose held (s, vehicle clock), NaN when none
+     * @param toT       newest pose held (s), NaN when none
+     * @param truncated the request reached back past a full history
+     */
+    record Held(double fromT, double toT, boolean truncated) {
+
+        static Held of(VehicleSession.HeldSpan span, double requestedFromT) {
+            boolean before = !Double.isNaN(span.fromT()) && requestedFromT < span.fromT();
+            return new Held(span.fromT(), span.toT(), before && span.full());
+        }
+    }
+
+    static byte[] json(String vehicleId, List<Pose> poses, ProjectedCrs crs, Held held) {
         return PoseJson.document(256 + 700 * poses.size(), g -> {
             g.writeStartObject();
             g.writeStringField("vehicle", vehicleId);
@@ -33,6 +53,9 @@ final class TrackJson {
                 g.writeStringField("crs", crs.name());
             }
             g.writeNumberField("count", poses.size());
+            PoseJson.number(g, "held_from", held.fromT());
+            PoseJson.number(g, "held_to", held.toT());
+            g.writeBooleanField("truncated", held.truncated());
             g.writeArrayFieldStart("poses");
             for (Pose p : poses) {
                 PoseJson.write(g, p, crs);

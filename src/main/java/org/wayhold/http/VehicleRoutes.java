@@ -9,6 +9,7 @@ import java.util.regex.Pattern;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
 import org.wayhold.pipeline.FixRecord;
+import org.wayhold.session.Liveness;
 import org.wayhold.session.SessionRegistry;
 import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;
@@ -31,6 +32,13 @@ final class VehicleRoutes {
 
     static final String GEOJSON = "application/geo+json";
 
+    /** Oldest pose time the vehicle's history holds (s, vehicle clock; absent when none is held). */
+    static final String HELD_FROM = "Track-Held-From";
+    /** Newest pose time the history holds (s, vehicle clock; absent when none is held). */
+    static final String HELD_TO = "Track-Held-To";
+    /** {@code true} when the requested window starts before what the bounded history still holds. */
+    static final String TRUNCATED = "Track-Truncated";
+
     private final SessionRegistry sessions;
     private final SampleIngest ingest;
     private final PoseStreams streams;
@@ -43,7 +51,7 @@ final class VehicleRoutes {
      */
     private final ConcurrentHashMap<String, PoseBytes> latestJson = new ConcurrentHashMap<>();
 
-    private record PoseBytes(long serial, long version, byte[] json) {
+    private record PoseBytes(long serial, long version, boolean stale, byte[] json) {
     }
 
     VehicleRoutes(SessionRegistry sessions, SampleIngest ingest, PoseStreams streams) {
@@ -115,7 +123,10 @@ final class VehicleRoutes {
         if (session.latest().isEmpty()) {
             throw HttpProblem.noPose("vehicle", "'" + id + "' has no pose yet");
         }
-        String etag = "\"" + entry.serial() + "-" + version + "\"";
+        // Staleness changes with the wall clock alone, without a new pose: it is part of the tag, so a
+        // poll with the old tag learns that the vehicle has turned stale (or fresh) at once.
+        Liveness live = session.liveness();
+        String etag = "\"" + entry.serial() + "-" + version + (live.stale() ? "-stale" : "") + "\"";
         ctx.header("ETag", etag);
         ctx.header("Cache-Control", "no-cache");
         if (matches(ctx.header("If-None-Match"), etag)) {
@@ -124,15 +135,16 @@ final class VehicleRoutes {
         }
         PoseBytes cached = latestJson.get(id);
         byte[] json;
-        if (cached != null && cached.serial() == entry.serial() && cached.version() == version) {
+        if (cached != null && cached.serial() == entry.serial() && cached.version() == version
+                && cached.stale() == live.stale()) {
             json = cached.json();
         } else {
-            json = PoseJson.toBytes(session.latest().orElseThrow());
+            json = PoseJson.toBytes(session.latest().orElseThrow(), live);
             // Filed only while the session is held. A DELETE racing this GET can still leave an entry
             // behind; it carries the old serial, so it is never served, and the id's next session
             // replaces it.
             if (sessions.find(id).filter(e -> e.serial() == entry.serial()).isPresent()) {
-                latestJson.put(id, new PoseBytes(entry.serial(), version, json));
+                latestJson.put(id, new PoseBytes(entry.serial(), version, live.stale(), json));
             }
         }
         ctx.contentType("application/json").result(json);
@@ -189,8 +201,17 @@ final class VehicleRoutes {
             throw HttpProblem.invalidParameter("format", "must be json or geojson, was '" + format + "'");
         }
         ProjectedCrs crs = crs(ctx.queryParam("crs"));
+        VehicleSession.HeldSpan held = session.held();
         List<Pose> poses = session.track(window.fromS(), window.toS());
-        byte[] body = geojson ? TrackJson.geoJson(id, poses, crs) : TrackJson.json(id, poses, crs);
+        TrackJson.Held span = TrackJson.Held.of(held, window.fromS());
+        // The history is bounded: a window reaching back past what it holds gets what is held, and
+        // says so, in the headers for either format and in the JSON body.
+        if (!Double.isNaN(held.fromT())) {
+            ctx.header(HELD_FROM, PoseJson.plain(held.fromT()));
+            ctx.header(HELD_TO, PoseJson.plain(held.toT()));
+        }
+        ctx.header(TRUNCATED, Boolean.toString(span.truncated()));
+        byte[] body = geojson ? TrackJson.geoJson(id, poses, crs) : TrackJson.json(id, poses, crs, span);
         ctx.contentType(geojson ? GEOJSON : "application/json").result(body);
     }
 
@@ -278,6 +299,7 @@ final class VehicleRoutes {
                     // Its state is not to be trusted: no pose, only that it is held apart and why.
                     g.writeStringField("quarantined", quarantined.get());
                 }
+                Liveness live = s.liveness();
                 if (latest.isPresent() && quarantined.isEmpty()) {
                     Pose p = latest.get();
                     g.writeStringField("state", p.state().wireName());
@@ -298,6 +320,7 @@ final class VehicleRoutes {
                     g.writeNullField("last_fix_t");
                     g.writeBooleanField("outage_active", false);
                 }
+                PoseJson.liveness(g, live);
                 g.writeEndObject();
             }
             g.writeEndArray();

@@ -74,6 +74,27 @@ public final class PoseHistory {
         return ring.isEmpty();
     }
 
+    /** Time of the oldest pose held (s, vehicle clock); the history must not be empty. */
+    public double oldestT() {
+        if (ring.isEmpty()) {
+            throw new IllegalStateException("history is empty");
+        }
+        return ring.key(0);
+    }
+
+    /** Time of the newest pose held (s, vehicle clock); the history must not be empty. */
+    public double newestT() {
+        if (ring.isEmpty()) {
+            throw new IllegalStateException("history is empty");
+        }
+        return ring.key(ring.size() - 1);
+    }
+
+    /** True when the history is at its capacity: each new pose lets the oldest go. */
+    public boolean full() {
+        return ring.size() >= ring.capacity();
+    }
+
     /** The newest pose. */
     public Pose newest() {
         if (ring.isEmpty()) {

@@ -21,6 +21,11 @@ import org.jfree.svg.SVGGraphics2D;
 /**
  * Line charts drawn by JFreeChart and turned into inline SVG by JFreeSVG, in the report's own plain
  * style: white ground, thin grey grid, one colour per configuration.
+ *
+ * <p>A report of hours of driving holds hundreds of thousands of evaluation points, far more than a
+ * chart's pixels can show: each line is simplified to what the pixels can show before it is drawn (the
+ * Ramer-Douglas-Peucker algorithm in pixel space, within {@link #TOLERANCE_PX}; Douglas and Peucker,
+ * Canadian Cartographer 10(2), 1973), and the SVG's coordinates are written to a tenth of a pixel.
  */
 final class Charts {
 
@@ -52,8 +57,18 @@ final class Charts {
         return new XYSeries(name, false, true);
     }
 
-    /** One line of a chart. */
-    record Line(XYSeries series, Paint paint, Stroke stroke, boolean inLegend) {
+    /**
+     * Largest distance a simplified line may stray from the full one (px): under half a pixel, which no
+     * one can see.
+     */
+    static final double TOLERANCE_PX = 0.4;
+
+    /** One line of a chart; {@code markers} draws a point marker at each of its points. */
+    record Line(XYSeries series, Paint paint, Stroke stroke, boolean inLegend, boolean markers) {
+
+        Line(XYSeries series, Paint paint, Stroke stroke, boolean inLegend) {
+            this(series, paint, stroke, inLegend, false);
+        }
     }
 
     /**
@@ -73,6 +88,8 @@ final class Charts {
             r.setSeriesPaint(i, l.paint());
             r.setSeriesStroke(i, l.stroke());
             r.setSeriesVisibleInLegend(i, l.inLegend());
+            r.setSeriesShapesVisible(i, l.markers());
+            r.setSeriesShapesFilled(i, true);
         }
         NumberAxis x = new NumberAxis(xLabel);
         NumberAxis y = new NumberAxis(yLabel);
@@ -89,6 +106,7 @@ final class Charts {
         if (equalAspect) {
             equalAspect(plot, data, width, height);
         }
+        simplify(plot, data, lines, width, height);
         JFreeChart chart = new JFreeChart(null, FONT, plot, true);
         chart.setTitle(new TextTitle(title, TITLE_FONT));
         chart.setBackgroundPaint(Color.WHITE);
@@ -100,8 +118,115 @@ final class Charts {
         SVGGraphics2D g = new SVGGraphics2D(width, height);
         // Fixed ids, so the same report gives the same HTML.
         g.setDefsKeyPrefix(idPrefix);
+        g.setGeomDoubleConverter(Charts::tenthOfPixel);
         chart.draw(g, new Rectangle2D.Double(0, 0, width, height));
         return g.getSVGElement();
+    }
+
+    /** A coordinate to a tenth of a pixel, without a needless ".0". */
+    static String tenthOfPixel(double v) {
+        long tenths = Math.round(v * 10.0);
+        if (tenths % 10 == 0) {
+            return Long.toString(tenths / 10);
+        }
+        return (tenths < 0 ? "-" : "") + Math.abs(tenths) / 10 + "." + Math.abs(tenths) % 10;
+    }
+
+    /**
+     * Fixes the axes at the ranges the full data gives, then replaces each line without markers by its
+     * simplification in pixel space (lines with markers keep their points: each is a result).
+     */
+    private static void simplify(XYPlot plot, XYSeriesCollection data, List<Line> lines, int width, int height) {
+        org.jfree.data.Range xr = plot.getDomainAxis().getRange();
+        org.jfree.data.Range yr = plot.getRangeAxis().getRange();
+        plot.getDomainAxis().setRange(xr);
+        plot.getRangeAxis().setRange(yr);
+        // The plot area is the chart less its margins (axis labels, title, legend), as in equalAspect.
+        double pxPerX = (width - 90.0) / Math.max(xr.getLength(), 1e-12);
+        double pxPerY = (height - 110.0) / Math.max(yr.getLength(), 1e-12);
+        XYSeriesCollection simplified = new XYSeriesCollection();
+        for (int i = 0; i < data.getSeriesCount(); i++) {
+            XYSeries s = data.getSeries(i);
+            simplified.addSeries(lines.get(i).markers() ? s : simplified(s, pxPerX, pxPerY, TOLERANCE_PX));
+        }
+        plot.setDataset(simplified);
+    }
+
+    /**
+     * The series with each NaN-separated piece simplified by Ramer-Douglas-Peucker: a point is kept
+     * when it lies farther than {@code tolerancePx} from the chord between the points kept around it,
+     * distances taken in pixels ({@code pxPerX}, {@code pxPerY} per data unit). Ends of pieces are kept.
+     */
+    static XYSeries simplified(XYSeries s, double pxPerX, double pxPerY, double tolerancePx) {
+        int n = s.getItemCount();
+        double[] x = new double[n];
+        double[] y = new double[n];
+        for (int i = 0; i < n; i++) {
+            x[i] = s.getX(i).doubleValue();
+            y[i] = s.getY(i).doubleValue();
+        }
+        XYSeries out = new XYSeries(s.getKey(), false, true);
+        int i = 0;
+        while (i < n) {
+            if (Double.isNaN(x[i]) || Double.isNaN(y[i])) {
+                out.add(Double.NaN, Double.NaN);
+                i++;
+                continue;
+            }
+            int j = i;
+            while (j + 1 < n && !Double.isNaN(x[j + 1]) && !Double.isNaN(y[j + 1])) {
+                j++;
+            }
+            boolean[] keep = rdp(x, y, i, j, pxPerX, pxPerY, tolerancePx);
+            for (int k = i; k <= j; k++) {
+                if (keep[k - i]) {
+                    out.add(x[k], y[k]);
+                }
+            }
+            i = j + 1;
+        }
+        return out;
+    }
+
+    /** Which points of {@code [from, to]} Ramer-Douglas-Peucker keeps (iterative, so long lines cannot overflow the stack). */
+    private static boolean[] rdp(double[] x, double[] y, int from, int to, double sx, double sy, double tol) {
+        boolean[] keep = new boolean[to - from + 1];
+        keep[0] = true;
+        keep[to - from] = true;
+        java.util.ArrayDeque<int[]> stack = new java.util.ArrayDeque<>();
+        stack.push(new int[] {from, to});
+        while (!stack.isEmpty()) {
+            int[] seg = stack.pop();
+            int a = seg[0];
+            int b = seg[1];
+            if (b - a < 2) {
+                continue;
+            }
+            double ax = x[a] * sx;
+            double ay = y[a] * sy;
+            double dx = x[b] * sx - ax;
+            double dy = y[b] * sy - ay;
+            double len2 = dx * dx + dy * dy;
+            double worst = -1.0;
+            int at = -1;
+            for (int k = a + 1; k < b; k++) {
+                double px = x[k] * sx - ax;
+                double py = y[k] * sy - ay;
+                // Distance to the chord as a segment (a track may double back beyond its ends).
+                double u = len2 == 0.0 ? 0.0 : Math.max(0.0, Math.min(1.0, (px * dx + py * dy) / len2));
+                double d = Math.hypot(px - u * dx, py - u * dy);
+                if (d > worst) {
+                    worst = d;
+                    at = k;
+                }
+            }
+            if (worst > tol) {
+                keep[at - from] = true;
+                stack.push(new int[] {a, at});
+                stack.push(new int[] {at, b});
+            }
+        }
+        return keep;
     }
 
     /** Widens one axis so a metre is as long on both (about: the plot area is the chart less margins). */

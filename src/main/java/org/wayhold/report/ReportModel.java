@@ -17,13 +17,17 @@ import org.wayhold.scoring.WindowScore;
  * @param logs        the scored logs
  * @param configs     the configurations, the first being the baseline of comparisons
  * @param options     how the windows were chosen and scored
+ * @param run         the tool, command line and date the report was made with
  * @param rows        one row per window, per configuration: logs in order, then configurations, then
  *                    simulated windows by start and length, then real gaps
- * @param summaries   per configuration, one summary per outage length (simulated windows only)
+ * @param summaries   per configuration, one summary per outage length (simulated windows of all logs)
+ * @param byLog       per log, then per configuration, one summary per outage length
  * @param comparisons per configuration after the first, one comparison per length
  */
 public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.NamedSettings> configs,
-                          ScoringRun.Options options, List<OutageRow> rows, Map<String, List<LengthSummary>> summaries,
+                          ScoringRun.Options options, RunInfo run, List<OutageRow> rows,
+                          Map<String, List<LengthSummary>> summaries,
+                          Map<String, Map<String, List<LengthSummary>>> byLog,
                           Map<String, List<Comparison>> comparisons) {
 
     /**
@@ -43,11 +47,14 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
 
     /** Builds the model. */
     public static ReportModel of(List<ScoringRun.LogScores> logs, List<ScoringRun.NamedSettings> configs,
-                                 ScoringRun.Options options) {
+                                 ScoringRun.Options options, RunInfo run) {
         List<OutageRow> rows = new ArrayList<>();
         Map<String, List<WindowScore>> byConfig = new HashMap<>();
+        Map<String, Map<String, List<LengthSummary>>> byLog = new java.util.LinkedHashMap<>();
         for (ScoringRun.LogScores log : logs) {
+            Map<String, List<LengthSummary>> perConfig = new java.util.LinkedHashMap<>();
             for (ScoringRun.ConfigScores cs : log.configs()) {
+                perConfig.put(cs.config(), LengthSummary.byLength(cs.windows(), options.schedule().lengthsS()));
                 for (WindowScore w : cs.windows()) {
                     rows.add(row(log, cs.config(), OutageRow.SIMULATED, w));
                 }
@@ -56,6 +63,7 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
                 }
                 byConfig.computeIfAbsent(cs.config(), k -> new ArrayList<>()).addAll(cs.windows());
             }
+            byLog.put(log.name(), perConfig);
         }
         double[] lengths = options.schedule().lengthsS();
         Map<String, List<LengthSummary>> summaries = new java.util.LinkedHashMap<>();
@@ -87,8 +95,8 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
             }
             comparisons.put(name, list);
         }
-        return new ReportModel(List.copyOf(logs), List.copyOf(configs), options, List.copyOf(rows), summaries,
-                comparisons);
+        return new ReportModel(List.copyOf(logs), List.copyOf(configs), options, run, List.copyOf(rows), summaries,
+                byLog, comparisons);
     }
 
     private static OutageRow row(ScoringRun.LogScores log, String config, String kind, WindowScore w) {
@@ -110,11 +118,49 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
         double start = OutageRow.REAL_GAP.equals(kind) ? Math.nextDown(w.window().startT()) : w.window().startT();
         double seconds = OutageRow.REAL_GAP.equals(kind) ? w.window().endT() - start : w.window().lengthS();
         return new OutageRow(log.name(), config, kind, log.reference().wireName(), start, start - log.startT(),
-                seconds, w.distanceM(), w.finalErrorM(), w.maxErrorM(), w.errorPct(), w.inside95(), endLat, endLon,
-                refLat, refLon, w.timeToAlertS(), w.timeToUnreliableS(), w.missedAlert(), w.meanNees(), w.finalNees(),
-                w.alongTrackErrorM(), w.crossTrackErrorM(), w.samples(), w.smoothed().finalErrorM(),
+                seconds, w.distanceM(), w.finalErrorM(), w.maxErrorM(), w.shownErrorPct(), w.inside95(), endLat,
+                endLon, refLat, refLon, w.timeToLimitS(), w.timeToUnreliableS(), w.warnedLate(), w.meanNees(),
+                w.finalNees(), w.alongTrackErrorM(), w.crossTrackErrorM(), w.samples(), w.smoothed().finalErrorM(),
                 w.smoothed().maxErrorM(), w.smoothed().inside95(), w.smoothed().meanNees(), w.smoothed().fixesAfter(),
-                w.gapFillRatio());
+                w.gapFillRatio(), log.timeDecimals());
+    }
+
+    /** Simulated windows scored, over all logs and configurations (count). */
+    public long simulatedRows() {
+        return rows.stream().filter(r -> r.kind().equals(OutageRow.SIMULATED)).count();
+    }
+
+    /** Planned windows not scored, over all logs (count; a random schedule's shortfall counts each window). */
+    public int unscoredCount() {
+        return logs.stream().mapToInt(l -> l.unscored().stream().mapToInt(u -> u.count()).sum()).sum();
+    }
+
+    /**
+     * Why nothing was scored, in one sentence per reason with its count, for the warning a run without a
+     * single scored window gives; empty when windows were scored.
+     */
+    public List<String> whyNothingWasScored() {
+        if (simulatedRows() > 0) {
+            return List.of();
+        }
+        Map<org.wayhold.scoring.UnscoredWindow.Reason, Integer> counts = new java.util.EnumMap<>(
+                org.wayhold.scoring.UnscoredWindow.Reason.class);
+        for (ScoringRun.LogScores l : logs) {
+            for (org.wayhold.scoring.UnscoredWindow u : l.unscored()) {
+                counts.merge(u.reason(), u.count(), Integer::sum);
+            }
+        }
+        List<String> out = new ArrayList<>();
+        counts.forEach((reason, n) -> out.add(n + (n == 1 ? " planned window: " : " planned windows: ")
+                + reason.words()));
+        if (out.isEmpty()) {
+            out.add("the schedule planned no window");
+        }
+        if (counts.containsKey(org.wayhold.scoring.UnscoredWindow.Reason.BEYOND_LOG_END)) {
+            double longest = logs.stream().mapToDouble(l -> l.endT() - l.startT()).max().orElse(0.0);
+            out.add(String.format(java.util.Locale.ROOT, "the longest log lasts %.1f s", longest));
+        }
+        return out;
     }
 
     /** The one reference kind of all logs, or {@code mixed}. */

@@ -90,8 +90,13 @@ public final class OutageReplay {
         this.assembler = new PoseAssembler(settings.outage());
     }
 
-    /** Per-window scores, and the traces of the branches when asked for. */
-    public record Result(List<WindowScore> scores, List<WindowTrace> traces) {
+    /**
+     * Per-window scores, the traces of the branches when asked for, and the windows given that could not
+     * be scored, with the reason (the filter not started or the reference not covering the window,
+     * {@link UnscoredWindow.Reason#REFERENCE_DOES_NOT_COVER}; the log ending first,
+     * {@link UnscoredWindow.Reason#LOG_ENDS_INSIDE}).
+     */
+    public record Result(List<WindowScore> scores, List<WindowTrace> traces, List<UnscoredWindow> unscored) {
     }
 
     /**
@@ -169,8 +174,13 @@ public final class OutageReplay {
                           ReferenceTrack reference, boolean keepTraces, ProgressListener progress) {
         List<WindowScore> scores = new ArrayList<>();
         List<WindowTrace> traces = new ArrayList<>();
+        List<UnscoredWindow> unscored = new ArrayList<>();
         if (samples.isEmpty()) {
-            return new Result(scores, traces);
+            for (Start st : starts) {
+                unscored.add(new UnscoredWindow(st.window().startT(), st.window().lengthS(),
+                        UnscoredWindow.Reason.LOG_ENDS_INSIDE));
+            }
+            return new Result(scores, traces, unscored);
         }
         List<Start> pending = new ArrayList<>(starts);
         pending.sort(Comparator.comparingDouble(st -> st.window().startT()));
@@ -184,11 +194,17 @@ public final class OutageReplay {
                 Start st = pending.get(next++);
                 OutageWindow w = st.window();
                 VehicleTrack from = withMain ? main : st.state();
-                if (from.initialized() && reference.covers(w.startT()) && reference.covers(w.endT())) {
+                if (!from.initialized()) {
+                    unscored.add(new UnscoredWindow(w.startT(), w.lengthS(),
+                            UnscoredWindow.Reason.NOT_AIDED_LONG_ENOUGH));
+                } else if (reference.covers(w.startT()) && reference.covers(w.endT())) {
                     Branch b = new Branch(w, from.branchForGapFill(w.endT()), reference, keepTraces);
                     b.track.predictTo(w.startT());
                     b.evaluateUpTo(w.startT());
                     active.add(b);
+                } else {
+                    unscored.add(new UnscoredWindow(w.startT(), w.lengthS(),
+                            UnscoredWindow.Reason.REFERENCE_DOES_NOT_COVER));
                 }
             }
             for (int i = tailing.size() - 1; i >= 0; i--) {
@@ -232,12 +248,22 @@ public final class OutageReplay {
         for (Branch b : tailing) {
             finish(b, scores, traces, keepTraces);
         }
-        // Windows still open when the drive ends are not scored: their length was not reached.
+        // Windows still open when the drive ends, or not begun, are not scored: their length was not
+        // reached.
+        for (Branch b : active) {
+            unscored.add(new UnscoredWindow(b.window.startT(), b.window.lengthS(),
+                    UnscoredWindow.Reason.LOG_ENDS_INSIDE));
+        }
+        for (int i = next; i < pending.size(); i++) {
+            OutageWindow w = pending.get(i).window();
+            unscored.add(new UnscoredWindow(w.startT(), w.lengthS(), UnscoredWindow.Reason.LOG_ENDS_INSIDE));
+        }
+        unscored.sort(Comparator.comparingDouble(UnscoredWindow::startT).thenComparingDouble(UnscoredWindow::lengthS));
         scores.sort(Comparator.comparingDouble((WindowScore w) -> w.window().startT())
                 .thenComparingDouble(w -> w.window().lengthS()));
         traces.sort(Comparator.comparingDouble((WindowTrace w) -> w.window().startT())
                 .thenComparingDouble(w -> w.window().lengthS()));
-        return new Result(scores, traces);
+        return new Result(scores, traces, unscored);
     }
 
     private static void finish(Branch b, List<WindowScore> scores, List<WindowTrace> traces, boolean keepTraces) {
@@ -264,7 +290,7 @@ public final class OutageReplay {
         double distance;
         double lastRefEast = Double.NaN;
         double lastRefNorth = Double.NaN;
-        double timeToAlert = Double.NaN;
+        double timeToLimit = Double.NaN;
         double timeToUnreliable = Double.NaN;
         double lastErrEast;
         double lastErrNorth;
@@ -344,8 +370,8 @@ public final class OutageReplay {
             maxError = Math.max(maxError, err);
             double radius = Radius95.of(a, b, c);
             double elapsed = t - window.startT();
-            if (Double.isNaN(timeToAlert) && err > settings.outage().alertLimitM()) {
-                timeToAlert = elapsed;
+            if (Double.isNaN(timeToLimit) && err > settings.outage().alertLimitM()) {
+                timeToLimit = elapsed;
             }
             if (Double.isNaN(timeToUnreliable) && assembler.classify(s, radius) == NavState.UNRELIABLE) {
                 timeToUnreliable = elapsed;
@@ -429,12 +455,13 @@ public final class OutageReplay {
                 along = lastErrEast * Math.cos(yaw) + lastErrNorth * Math.sin(yaw);
                 cross = -lastErrEast * Math.sin(yaw) + lastErrNorth * Math.cos(yaw);
             }
-            boolean missed = !Double.isNaN(timeToAlert)
-                    && (Double.isNaN(timeToUnreliable) || timeToUnreliable > timeToAlert);
+            // Late when the error passed the limit before the state said unreliable (or it never did).
+            boolean late = !Double.isNaN(timeToLimit)
+                    && (Double.isNaN(timeToUnreliable) || timeToUnreliable > timeToLimit);
             double pct = distance > 0.0 ? 100.0 * lastError / distance : Double.NaN;
             return new WindowScore(window, distance, lastError, maxError, pct, count == 0 ? Double.NaN
-                    : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, lastNees, timeToAlert,
-                    timeToUnreliable, missed, along, cross, s.eastM(), s.northM(), count, lastT, lastEstEast, lastEstNorth,
+                    : (double) inside / count, count == 0 ? Double.NaN : neesSum / count, lastNees, timeToLimit,
+                    timeToUnreliable, late, along, cross, s.eastM(), s.northM(), count, lastT, lastEstEast, lastEstNorth,
                     lastRefEastFinal, lastRefNorthFinal);
         }
     }

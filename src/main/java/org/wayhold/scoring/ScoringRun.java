@@ -132,8 +132,19 @@ public final class ScoringRun {
      * @param samples its samples in the order a rig would have posted them (file order); put in processing
      *                order here by the service's time ordering ({@link OrderedLog})
      * @param notes   what the reader wants said about the input (rejected lines and the like)
+     * @param inputs  the files it was read from, with their rejected-line counts (empty when it did not
+     *                come from files)
      */
-    public record LoadedLog(String name, List<Sample> samples, List<String> notes) {
+    public record LoadedLog(String name, List<Sample> samples, List<String> notes, List<InputFile> inputs) {
+
+        public LoadedLog {
+            inputs = List.copyOf(inputs);
+        }
+
+        /** A log that did not come from files (tests, simulations). */
+        public LoadedLog(String name, List<Sample> samples, List<String> notes) {
+            this(name, samples, notes, List.of());
+        }
     }
 
     /** Reads one log when its turn comes, so that not every log is in memory at once. */
@@ -176,10 +187,12 @@ public final class ScoringRun {
      * @param traces        evaluation points of the simulated windows (empty unless kept)
      * @param realGapTraces evaluation points of the real gaps (empty unless kept)
      * @param aidedSpans    where this configuration's filter was aided
+     * @param unscored      planned windows this configuration's replay could not score, with the reason
      */
     public record ConfigScores(String config, List<WindowScore> windows, List<WindowScore> realGaps,
                                List<OutageReplay.WindowTrace> traces,
-                               List<OutageReplay.WindowTrace> realGapTraces, List<TimeSpan> aidedSpans) {
+                               List<OutageReplay.WindowTrace> realGapTraces, List<TimeSpan> aidedSpans,
+                               List<UnscoredWindow> unscored) {
     }
 
     /**
@@ -197,10 +210,29 @@ public final class ScoringRun {
      * @param plan      the simulated windows
      * @param configs   scores per configuration, in the order given
      * @param notes     the reader's notes
+     * @param inputs    the files the log was read from
+     * @param timeDecimals decimals of the log's own times (the most any sample time has, at most 9): the
+     *                  precision a report gives its times in
      */
     public record LogScores(String name, int index, int samples, double startT, double endT, LocalFrame frame,
                             ReferenceKind reference, InterpolatedTrack track, List<TimeSpan> gaps, WindowPlan plan,
-                            List<ConfigScores> configs, List<String> notes) {
+                            List<ConfigScores> configs, List<String> notes, List<InputFile> inputs,
+                            int timeDecimals) {
+
+        /**
+         * Every planned window that was not scored, with the reason: those the plan left out, then those
+         * the scoring of the first configuration could not score (the windows and the reference are the
+         * same for every configuration), by start then length.
+         */
+        public List<UnscoredWindow> unscored() {
+            List<UnscoredWindow> all = new ArrayList<>(plan.unscored());
+            if (!configs.isEmpty()) {
+                all.addAll(configs.get(0).unscored());
+            }
+            all.sort(Comparator.comparing((UnscoredWindow u) -> Double.isNaN(u.startT()))
+                    .thenComparingDouble(UnscoredWindow::startT).thenComparingDouble(UnscoredWindow::lengthS));
+            return all;
+        }
     }
 
     /**
@@ -293,7 +325,8 @@ public final class ScoringRun {
             }
             return CompletableFuture.allOf(scored.toArray(CompletableFuture[]::new)).thenApply(d2 ->
                     new LogScores(log.name(), index, p.samples.size(), p.startT, p.endT, p.frame, p.kind, p.track,
-                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), p.notes));
+                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), p.notes,
+                            log.inputs(), p.timeDecimals));
         });
     }
 
@@ -318,9 +351,19 @@ public final class ScoringRun {
                 listener::samplesDone);
         List<WindowScore> windows = new ArrayList<>();
         List<WindowScore> gaps = new ArrayList<>();
+        List<UnscoredWindow> unscored = new ArrayList<>();
+        for (UnscoredWindow u : r.unscored()) {
+            if (!real.contains(new OutageWindow(u.startT(), u.lengthS()))) {
+                unscored.add(u);
+            }
+        }
         for (WindowScore w : r.scores()) {
             // A window with no withheld fix inside has nothing to be scored against.
             if (w.samples() == 0) {
+                if (!real.contains(w.window())) {
+                    unscored.add(new UnscoredWindow(w.window().startT(), w.window().lengthS(),
+                            UnscoredWindow.Reason.NO_REFERENCE_INSIDE));
+                }
                 continue;
             }
             (real.contains(w.window()) ? gaps : windows).add(w);
@@ -330,7 +373,7 @@ public final class ScoringRun {
         for (OutageReplay.WindowTrace t : r.traces()) {
             (real.contains(t.window()) ? gapTraces : traces).add(t);
         }
-        return new ConfigScores(cfg.name(), windows, gaps, traces, gapTraces, survey.aidedSpans());
+        return new ConfigScores(cfg.name(), windows, gaps, traces, gapTraces, survey.aidedSpans(), unscored);
     }
 
     /** What every configuration of a log shares. */
@@ -347,6 +390,36 @@ public final class ScoringRun {
         List<OutageWindow> realGapWindows = new ArrayList<>();
         List<String> notes;
         double[] extraTimes = new double[0];
+        int timeDecimals;
+    }
+
+    /** Most decimals a time may carry in a report (a nanosecond). */
+    static final int MAX_TIME_DECIMALS = 9;
+
+    /**
+     * Decimals of the log's own times: the most that any of its sample times has in its shortest
+     * decimal form ({@link Double#toString}), at most {@link #MAX_TIME_DECIMALS}.
+     */
+    static int timeDecimals(List<? extends Sample> samples) {
+        int most = 0;
+        for (Sample s : samples) {
+            int d = decimals(s.t());
+            if (d > most) {
+                most = d;
+                if (most >= MAX_TIME_DECIMALS) {
+                    return MAX_TIME_DECIMALS;
+                }
+            }
+        }
+        return most;
+    }
+
+    /** Decimals of a number's shortest decimal form (0 for a whole number). */
+    static int decimals(double v) {
+        if (!Double.isFinite(v)) {
+            return 0;
+        }
+        return Math.max(0, new java.math.BigDecimal(Double.toString(v)).stripTrailingZeros().scale());
     }
 
     private static Prepared prepare(LoadedLog log, List<NamedSettings> configs, Options options) {
@@ -355,6 +428,7 @@ public final class ScoringRun {
         // implausible times refused, samples put in processing order.
         OrderedLog ordered = OrderedLog.order(log.samples(), configs.get(0).settings().ordering());
         p.samples = ordered.samples();
+        p.timeDecimals = timeDecimals(p.samples);
         p.notes = new ArrayList<>(log.notes());
         if (ordered.duplicates() > 0) {
             p.notes.add(ordered.duplicates() + " duplicate samples ignored, as the service ignores them");

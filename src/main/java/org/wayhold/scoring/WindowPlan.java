@@ -15,18 +15,26 @@ import java.util.function.IntPredicate;
  * filter had been aided for the minimum time at c in every configuration compared (the caller's
  * predicate); [c, c + L] lies between the first and last fix and overlaps no real gap.
  *
- * <p>Fixed schedule: one window of each length at every {@code everyS} from the skip; a start that is
- * not allowed is left out and counted. Random: {@code perLength} distinct allowed starts for each length,
- * drawn with {@link java.util.Random} (its generator is specified by the Java platform, so a seed gives
- * the same windows on every JVM) seeded from the seed, the log's index and the length's index.
+ * <p>Fixed schedule: one window of each length at every {@code everyS} from the skip; a window that is
+ * not allowed is left out and listed with its reason. Random: {@code perLength} distinct allowed starts
+ * for each length, drawn with {@link java.util.Random} (its generator is specified by the Java platform,
+ * so a seed gives the same windows on every JVM) seeded from the seed, the log's index and the length's
+ * index; windows short of the ask are listed as {@link UnscoredWindow.Reason#TOO_FEW_STARTS}.
  *
- * @param windows the windows, ordered by start then length
- * @param skipped fixed schedule: nominal windows left out (count); random: windows short of the ask
+ * @param windows  the windows, ordered by start then length
+ * @param unscored planned windows left out, with the reason, ordered by start then length (the
+ *                 random schedule's shortfalls last)
  */
-public record WindowPlan(List<OutageWindow> windows, int skipped) {
+public record WindowPlan(List<OutageWindow> windows, List<UnscoredWindow> unscored) {
 
     public WindowPlan {
         windows = List.copyOf(windows);
+        unscored = List.copyOf(unscored);
+    }
+
+    /** Planned windows left out (count). */
+    public int skipped() {
+        return unscored.stream().mapToInt(UnscoredWindow::count).sum();
     }
 
     /**
@@ -101,21 +109,27 @@ public record WindowPlan(List<OutageWindow> windows, int skipped) {
     public static WindowPlan choose(Schedule schedule, Log log, int logIndex) {
         int skipSteps = wholeSteps("skip", schedule.skipS(), log.gridStepS());
         List<OutageWindow> out = new ArrayList<>();
-        int skipped = 0;
+        List<UnscoredWindow> left = new ArrayList<>();
+        List<UnscoredWindow> shortfalls = new ArrayList<>();
         double[] lengths = schedule.lengthsS();
         if (schedule.perLength() == 0) {
             int everySteps = wholeSteps("every", schedule.everyS(), log.gridStepS());
             for (int k = skipSteps; k < log.gridCount(); k += everySteps) {
                 double start = log.gridStartT() + k * log.gridStepS();
                 for (double len : lengths) {
-                    if (start + len > log.lastFixT()) {
-                        continue;
-                    }
-                    if (eligible(log, k, len)) {
+                    UnscoredWindow.Reason why = refusal(log, k, len);
+                    if (why == null) {
                         out.add(new OutageWindow(start, len));
                     } else {
-                        skipped++;
+                        left.add(new UnscoredWindow(start, len, why));
                     }
+                }
+            }
+            if (out.isEmpty() && left.isEmpty()) {
+                // Not even one grid time after the skip: every window of the schedule is past the end.
+                double start = log.gridStartT() + skipSteps * log.gridStepS();
+                for (double len : lengths) {
+                    left.add(new UnscoredWindow(start, len, UnscoredWindow.Reason.BEYOND_LOG_END));
                 }
             }
         } else {
@@ -124,7 +138,7 @@ public record WindowPlan(List<OutageWindow> windows, int skipped) {
                 int[] candidates = new int[Math.max(log.gridCount() - skipSteps, 0)];
                 int n = 0;
                 for (int k = skipSteps; k < log.gridCount(); k++) {
-                    if (eligible(log, k, len)) {
+                    if (refusal(log, k, len) == null) {
                         candidates[n++] = k;
                     }
                 }
@@ -139,25 +153,41 @@ public record WindowPlan(List<OutageWindow> windows, int skipped) {
                     candidates[j] = tmp;
                     out.add(new OutageWindow(log.gridStartT() + candidates[i] * log.gridStepS(), len));
                 }
-                skipped += schedule.perLength() - take;
+                if (take < schedule.perLength()) {
+                    shortfalls.add(new UnscoredWindow(Double.NaN, len, UnscoredWindow.Reason.TOO_FEW_STARTS,
+                            schedule.perLength() - take));
+                }
             }
         }
         out.sort(Comparator.comparingDouble(OutageWindow::startT).thenComparingDouble(OutageWindow::lengthS));
-        return new WindowPlan(out, skipped);
+        left.sort(Comparator.comparingDouble(UnscoredWindow::startT).thenComparingDouble(UnscoredWindow::lengthS));
+        left.addAll(shortfalls);
+        return new WindowPlan(out, left);
     }
 
-    private static boolean eligible(Log log, int k, double len) {
+    /**
+     * Why a window of length {@code len} may not start at grid time {@code k}, or null when it may. The
+     * first reason that applies is given, data before filter: past the fixes, then a real gap, then the
+     * filter's aided time.
+     */
+    private static UnscoredWindow.Reason refusal(Log log, int k, double len) {
         double start = log.gridStartT() + k * log.gridStepS();
         double end = start + len;
-        if (!(start >= log.firstFixT()) || !(end <= log.lastFixT()) || !log.allowed().test(k)) {
-            return false;
+        if (!(end <= log.lastFixT())) {
+            return UnscoredWindow.Reason.BEYOND_LOG_END;
+        }
+        if (!(start >= log.firstFixT())) {
+            return UnscoredWindow.Reason.BEFORE_FIRST_FIX;
         }
         for (TimeSpan g : log.gaps()) {
             if (g.overlaps(start, end)) {
-                return false;
+                return UnscoredWindow.Reason.OVERLAPS_REAL_GAP;
             }
         }
-        return true;
+        if (!log.allowed().test(k)) {
+            return UnscoredWindow.Reason.NOT_AIDED_LONG_ENOUGH;
+        }
+        return null;
     }
 
     /** A seed per log and length from the user's seed (SplitMix64 finaliser, Steele et al., OOPSLA 2014). */

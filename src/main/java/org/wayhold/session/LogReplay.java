@@ -23,6 +23,7 @@ public final class LogReplay implements Runnable {
     private final double speed;
     private final Consumer<List<Sample>> target;
     private volatile boolean stopped;
+    private volatile boolean completed;
 
     /**
      * @param samples the log, in recorded order
@@ -43,10 +44,31 @@ public final class LogReplay implements Runnable {
         stopped = true;
     }
 
+    /** True once every sample of the log has been handed over (false while running, or when stopped). */
+    public boolean completed() {
+        return completed;
+    }
+
+    /** Vehicle time of the first sample (s), NaN for an empty log. */
+    public double firstT() {
+        return samples.isEmpty() ? Double.NaN : samples.get(0).t();
+    }
+
+    /** Vehicle time of the last sample (s), NaN for an empty log. */
+    public double lastT() {
+        return samples.isEmpty() ? Double.NaN : samples.get(samples.size() - 1).t();
+    }
+
+    /** Samples in the log (count). */
+    public int size() {
+        return samples.size();
+    }
+
     /** Replays the whole log on the calling thread; returns early when stopped or interrupted. */
     @Override
     public void run() {
         if (samples.isEmpty()) {
+            completed = true;
             return;
         }
         double t0 = samples.get(0).t();
@@ -62,6 +84,7 @@ public final class LogReplay implements Runnable {
                 target.accept(due);
             }
             if (next >= samples.size()) {
+                completed = true;
                 return;
             }
             long wait = Math.max(BATCH_NANOS, dueNanos(samples.get(next).t(), t0) - (System.nanoTime() - start));

@@ -1,6 +1,7 @@
 package org.wayhold.session;
 
 import java.io.IOException;
+import java.time.Clock;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -71,6 +72,7 @@ public final class SessionRegistry {
     private final Settings settings;
     private final Geodetic configuredOrigin;
     private final SessionLog log;
+    private final Clock clock;
     private final ConcurrentHashMap<String, Entry> sessions = new ConcurrentHashMap<>();
     private final AtomicLong serials = new AtomicLong();
     private final List<Consumer<String>> removalListeners = new java.util.concurrent.CopyOnWriteArrayList<>();
@@ -89,9 +91,25 @@ public final class SessionRegistry {
      * @param log              where {@link #submit} and {@link #delete} record what they change
      */
     public SessionRegistry(Settings settings, Geodetic configuredOrigin, SessionLog log) {
+        this(settings, configuredOrigin, log, Clock.systemUTC());
+    }
+
+    /**
+     * @param settings         settings of every session; {@code server.maxSessions} bounds the count
+     * @param configuredOrigin ENU origin for every session instead of its first fix, or null
+     * @param log              where {@link #submit} and {@link #delete} record what they change
+     * @param clock            the service's wall clock: when samples arrive, and which vehicles are stale
+     */
+    public SessionRegistry(Settings settings, Geodetic configuredOrigin, SessionLog log, Clock clock) {
         this.settings = java.util.Objects.requireNonNull(settings, "settings");
         this.configuredOrigin = configuredOrigin;
         this.log = java.util.Objects.requireNonNull(log, "log");
+        this.clock = java.util.Objects.requireNonNull(clock, "clock");
+    }
+
+    /** The wall clock the sessions judge arrivals and staleness by. */
+    public Clock clock() {
+        return clock;
     }
 
     /** The settings each session is created with. */
@@ -121,7 +139,7 @@ public final class SessionRegistry {
             if (sessions.size() >= max) {
                 throw new SessionLimitException(max);
             }
-            VehicleSession session = new VehicleSession(vehicleId, settings, configuredOrigin);
+            VehicleSession session = new VehicleSession(vehicleId, settings, configuredOrigin, clock);
             // Every record of the new session will be numbered from here on.
             session.startAfter(log.nextSequence() - 1);
             Entry created = new Entry(session, serials.incrementAndGet());

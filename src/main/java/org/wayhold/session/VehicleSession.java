@@ -3,6 +3,7 @@ package org.wayhold.session;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import java.time.Clock;
 import java.util.ArrayDeque;
 import java.util.List;
 import java.util.Optional;
@@ -49,6 +50,12 @@ import org.wayhold.settings.Settings;
  * vehicle); {@link #latest()} reads a volatile snapshot and never waits for an ingest. Callers that
  * must record a change in the same order as it is applied (the journal) pass the recording step in,
  * and it runs under that lock ({@link #submit}, {@link #retire}, {@link #writeSnapshot}).
+ *
+ * <p>Besides the vehicle's own timeline the session notes, on the service's wall clock, when samples
+ * last arrived through the live path ({@link #submit(List, BatchRecorder)}), so that a vehicle that
+ * stopped sending can be told from one that is merely in a long outage ({@link #liveness()}). That time
+ * is not part of the state: a session restored from a snapshot or the journal has none until its next
+ * sample, and counts its silence from the moment it was restored.
  */
 public final class VehicleSession {
 
@@ -111,10 +118,16 @@ public final class VehicleSession {
         }
     }
 
-    /** A batch waiting for its record to be durable. */
+    /**
+     * A batch waiting for its record to be durable, with the wall time it arrived (ms since the epoch),
+     * {@link #NOT_ARRIVED} when it did not come through the live path.
+     */
     private record Queued(List<? extends Sample> samples, CompletableFuture<Long> recorded,
-                          CompletableFuture<List<Admission>> applied) {
+                          CompletableFuture<List<Admission>> applied, long arrivedAtMillis) {
     }
+
+    /** Arrival time of a batch that did not arrive live (unrecorded submissions, journal replay). */
+    private static final long NOT_ARRIVED = Long.MIN_VALUE;
 
     /** What {@link #writeSnapshot(DataOutput)} wrote: the last record held, or the quarantine reason. */
     public record Captured(long lastSeq, String quarantineReason) {
@@ -130,6 +143,12 @@ public final class VehicleSession {
     private final VehiclePipeline pipeline;
     private final List<Consumer<Pose>> listeners = new CopyOnWriteArrayList<>();
     private final ArrayDeque<Queued> queue = new ArrayDeque<>();
+    private final Clock clock;
+    private final double staleAfterS;
+    /** Wall time of the latest live arrival of an applied sample (ms since the epoch), MIN_VALUE if none. */
+    private volatile long receivedAtMillis = Long.MIN_VALUE;
+    /** Wall time silence is counted from: the latest arrival, else the session's creation (ms). */
+    private volatile long quietSinceMillis;
 
     /** Time of the newest pose given to listeners (s, vehicle clock); not part of the state. */
     private double emittedUpToT = Double.NEGATIVE_INFINITY;
@@ -153,7 +172,20 @@ public final class VehicleSession {
      * @param configuredOrigin ENU origin to use instead of the first fix, or null
      */
     public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin) {
+        this(vehicleId, settings, configuredOrigin, Clock.systemUTC());
+    }
+
+    /**
+     * @param vehicleId        the vehicle's id
+     * @param settings         filter, gating, outage, ordering and history settings
+     * @param configuredOrigin ENU origin to use instead of the first fix, or null
+     * @param clock            the service's wall clock, for arrival times and staleness
+     */
+    public VehicleSession(String vehicleId, Settings settings, Geodetic configuredOrigin, Clock clock) {
         this.vehicleId = vehicleId;
+        this.clock = java.util.Objects.requireNonNull(clock, "clock");
+        this.staleAfterS = settings.outage().staleAfterS();
+        this.quietSinceMillis = clock.millis();
         this.history = new PoseHistory(settings.history().maxPoses());
         this.fixes = new FixLog(settings.history().maxPoses());
         this.pipeline = new VehiclePipeline(settings, settings.profileFor(vehicleId), configuredOrigin,
@@ -202,7 +234,7 @@ public final class VehicleSession {
      * @return one admission per sample, in the order given
      */
     public List<Admission> submit(List<? extends Sample> samples) {
-        Applied applied = submit(samples, b -> SessionLog.DONE);
+        Applied applied = submit(samples, b -> SessionLog.DONE, false);
         if (applied == null) {
             throw new IllegalStateException("vehicle '" + vehicleId + "': the session was dropped");
         }
@@ -214,7 +246,8 @@ public final class VehicleSession {
     }
 
     /**
-     * Applies a batch read back from the journal, with its sequence number (recovery).
+     * Applies a batch read back from the journal, with its sequence number (recovery). A replayed batch
+     * did not arrive now: it leaves the arrival time (see {@link #liveness()}) as it is.
      *
      * @throws VehicleQuarantinedException when the session is quarantined, or is quarantined now because
      *                                     applying the batch failed
@@ -224,18 +257,24 @@ public final class VehicleSession {
             if (quarantine != null) {
                 throw new VehicleQuarantinedException(vehicleId, quarantine, null);
             }
-            return applyLocked(samples, seq);
+            return applyLocked(samples, seq, NOT_ARRIVED);
         }
     }
 
     /**
-     * Records a batch and queues it to be applied once the record is durable (see the class comment).
+     * Records a batch that has just arrived and queues it to be applied once the record is durable (see
+     * the class comment). The wall time of its arrival is taken now and noted when a sample of it is
+     * applied (see {@link #liveness()}), before listeners hear of the poses.
      *
      * @return the queued batch, or null when the session has been retired (the caller must submit to the
      *         vehicle's current session instead, once the retirement is settled: {@link #retirement()})
      * @throws VehicleQuarantinedException when the session is quarantined (nothing is recorded)
      */
     public Applied submit(List<? extends Sample> samples, BatchRecorder recorder) {
+        return submit(samples, recorder, true);
+    }
+
+    private Applied submit(List<? extends Sample> samples, BatchRecorder recorder, boolean arrived) {
         synchronized (lock) {
             if (retired) {
                 return null;
@@ -245,12 +284,14 @@ public final class VehicleSession {
             }
             if (samples.isEmpty()) {
                 return new Applied(this, new Queued(List.of(), SessionLog.DONE,
-                        CompletableFuture.completedFuture(List.of())));
+                        CompletableFuture.completedFuture(List.of()), NOT_ARRIVED));
             }
+            // The batch arrives now, though it is applied once its record is durable.
+            long arrivedAtMillis = arrived ? clock.millis() : NOT_ARRIVED;
             CompletableFuture<Long> recorded = recorder.record(samples);
             // The caller may reuse its list once this returns; a batch that waits keeps its own copy.
             List<? extends Sample> kept = recorded.isDone() && queue.isEmpty() ? samples : List.copyOf(samples);
-            Queued q = new Queued(kept, recorded, new CompletableFuture<>());
+            Queued q = new Queued(kept, recorded, new CompletableFuture<>(), arrivedAtMillis);
             queue.addLast(q);
             drainLocked();
             return new Applied(this, q);
@@ -285,7 +326,7 @@ public final class VehicleSession {
                 continue;
             }
             try {
-                q.applied().complete(applyLocked(q.samples(), seq));
+                q.applied().complete(applyLocked(q.samples(), seq, q.arrivedAtMillis()));
             } catch (VehicleQuarantinedException e) {
                 q.applied().completeExceptionally(e);
             }
@@ -297,7 +338,7 @@ public final class VehicleSession {
      * even an error such as running out of memory) leaves the state unknown: the session is quarantined
      * rather than left to serve or journal on from it.
      */
-    private List<Admission> applyLocked(List<? extends Sample> samples, long seq) {
+    private List<Admission> applyLocked(List<? extends Sample> samples, long seq, long arrivedAtMillis) {
         List<Admission> result;
         try {
             result = pipeline.submit(samples);
@@ -315,6 +356,11 @@ public final class VehicleSession {
             appliedSeq = seq;
         }
         holdsState = true;
+        // Noted before listeners hear of the poses, so that what they are given is not stale.
+        if (arrivedAtMillis != NOT_ARRIVED && result.stream().anyMatch(a -> a.kind() == Admission.Kind.APPLIED)) {
+            receivedAtMillis = arrivedAtMillis;
+            quietSinceMillis = arrivedAtMillis;
+        }
         refreshLatest();
         notifyListeners();
         return result;
@@ -464,6 +510,72 @@ public final class VehicleSession {
      */
     public void addListener(Consumer<Pose> listener) {
         listeners.add(listener);
+    }
+
+    /**
+     * What a new subscriber starts from, taken under the same lock as the listener's registration, so
+     * that the backlog and the poses the listener hears later neither overlap nor leave a hole.
+     *
+     * @param backlog the poses to send first, oldest first
+     * @param resumed true when the backlog continues after the time the subscriber asked for, false
+     *                when it is only the latest pose (no time given, or nothing held after it)
+     * @param heldFromT oldest pose time the history holds (s, vehicle clock), NaN when empty
+     */
+    public record Subscription(List<Pose> backlog, boolean resumed, double heldFromT) {
+    }
+
+    /**
+     * Registers a listener (as {@link #addListener}) and returns what it must be given first: the
+     * history's poses after {@code afterT} when that is a number and the history holds the time (a
+     * client resuming a stream it lost), else the latest pose alone.
+     *
+     * @param afterT time of the last pose the subscriber saw (s, vehicle clock), or NaN for none
+     */
+    public Subscription subscribe(Consumer<Pose> listener, double afterT) {
+        synchronized (lock) {
+            // Durable batches are applied before the listener joins: their poses belong to the backlog.
+            drainLocked();
+            listeners.add(listener);
+            double heldFrom = history.isEmpty() ? Double.NaN : history.oldestT();
+            if (!Double.isNaN(afterT) && !history.isEmpty()) {
+                List<Pose> after = new java.util.ArrayList<>();
+                for (Pose p : history.between(afterT, Double.POSITIVE_INFINITY)) {
+                    if (p.t() > afterT) {
+                        after.add(p);
+                    }
+                }
+                return new Subscription(after, true, heldFrom);
+            }
+            Pose p = latest;
+            return new Subscription(p == null ? List.of() : List.of(p), false, heldFrom);
+        }
+    }
+
+    /** Whether the vehicle is still sending, on the wall clock now ({@code outage.stale_after_s}). */
+    public Liveness liveness() {
+        return Liveness.of(receivedAtMillis, quietSinceMillis, clock.millis(), staleAfterS);
+    }
+
+    /**
+     * The stretch of vehicle time the pose history holds now.
+     *
+     * @param fromT   oldest pose (s, vehicle clock), NaN when the history is empty
+     * @param toT     newest pose (s), NaN when empty
+     * @param full    true when the history is at its capacity, so older poses have been (or are being)
+     *                let go to keep it bounded
+     */
+    public record HeldSpan(double fromT, double toT, boolean full) {
+    }
+
+    /** What the pose history holds (see {@link HeldSpan}). */
+    public HeldSpan held() {
+        synchronized (lock) {
+            drainLocked();
+            if (history.isEmpty()) {
+                return new HeldSpan(Double.NaN, Double.NaN, false);
+            }
+            return new HeldSpan(history.oldestT(), history.newestT(), history.full());
+        }
     }
 
     public void removeListener(Consumer<Pose> listener) {

@@ -31,7 +31,7 @@ final class AccuracyStudy {
     static final double SPACING_S = 150;
 
     record LengthFigures(double lengthS, int count, double medianFinalM, double p95FinalM, double medianPct,
-                         double inside95, double meanNees, int missedAlerts, int alerts) {
+                         double inside95, double meanNees, int warnedLate, int pastLimit) {
     }
 
     record Figures(List<LengthFigures> lengths, double openSkyRmsM, double rawFixRmsM, double maxBiasErrDegPerS,
@@ -112,10 +112,10 @@ final class AccuracyStudy {
                     / w.stream().mapToDouble(WindowScore::samples).sum();
             double nees = w.stream().mapToDouble(s -> s.meanNees() * s.samples()).sum()
                     / w.stream().mapToDouble(WindowScore::samples).sum();
-            int missed = (int) w.stream().filter(WindowScore::missedAlert).count();
-            int alerts = (int) w.stream().filter(s -> !Double.isNaN(s.timeToAlertS())).count();
+            int late = (int) w.stream().filter(WindowScore::warnedLate).count();
+            int pastLimit = (int) w.stream().filter(s -> !Double.isNaN(s.timeToLimitS())).count();
             lengths.add(new LengthFigures(len, w.size(), Quantiles.of(fin, 0.5), Quantiles.of(fin, 0.95),
-                    Quantiles.of(pct, 0.5), inside, nees, missed, alerts));
+                    Quantiles.of(pct, 0.5), inside, nees, late, pastLimit));
         }
         return new Figures(lengths, Math.sqrt(sqFused / nFused), Math.sqrt(sqRaw / nRaw), maxBiasErr, maxScaleErr,
                 neesSum / nFused, neesPerDrive, firstWindows, all);

@@ -21,9 +21,9 @@ public final class AccuracyStudyMain {
                 f.maxScaleErr());
         for (AccuracyStudy.LengthFigures l : f.lengths()) {
             System.out.printf(Locale.ROOT,
-                    "%5.0f s: n=%d median %.2f m p95 %.2f m median%% %.3f inside95 %.3f NEES %.2f alerts %d missed %d%n",
+                    "%5.0f s: n=%d median %.2f m p95 %.2f m median%% %.3f inside95 %.3f NEES %.2f past limit %d warned late %d%n",
                     l.lengthS(), l.count(), l.medianFinalM(), l.p95FinalM(), l.medianPct(), l.inside95(),
-                    l.meanNees(), l.alerts(), l.missedAlerts());
+                    l.meanNees(), l.pastLimit(), l.warnedLate());
         }
         System.out.printf(Locale.ROOT, "open-sky NEES per drive mean %.2f%n",
                 java.util.Arrays.stream(f.openSkyNeesPerDrive()).average().orElse(Double.NaN));

@@ -89,7 +89,7 @@ public final class EffectStudy {
         }
         double inside = windows.stream().mapToDouble(w -> w.inside95() * w.samples()).sum()
                 / windows.stream().mapToDouble(WindowScore::samples).sum();
-        int late = (int) windows.stream().filter(WindowScore::missedAlert).count();
+        int late = (int) windows.stream().filter(WindowScore::warnedLate).count();
         double[] finals60 = windows.stream().filter(w -> w.window().lengthS() == 60)
                 .mapToDouble(WindowScore::finalErrorM).toArray();
         return new Row(sc == null ? "none" : sc.label(), seeds, falseConf, aidedIn / aided,

@@ -67,7 +67,7 @@ public final class HonestyStudyMain {
                 double[] finals = w.stream().mapToDouble(WindowScore::finalErrorM).toArray();
                 double[] pct = w.stream().mapToDouble(WindowScore::errorPct).filter(Double::isFinite).toArray();
                 double inside = w.stream().mapToDouble(WindowScore::inside95).average().orElse(Double.NaN);
-                long late = w.stream().filter(WindowScore::missedAlert).count();
+                long late = w.stream().filter(WindowScore::warnedLate).count();
                 System.out.printf(Locale.ROOT, "%-9s %3.0f s: n=%2d inside95 %.2f median %.2f m p95 %.2f m "
                                 + "median %.2f%% warned late %d%n", g, len, w.size(), inside, Quantiles.of(finals, 0.5),
                         Quantiles.of(finals, 0.95), Quantiles.of(pct, 0.5), late);

@@ -90,7 +90,7 @@ class RealDriveHonestyTest {
                 assertThat(l).as("%s %s s", group, len).hasSizeGreaterThanOrEqualTo(8);
                 double inside = l.stream().mapToDouble(WindowScore::inside95).average().orElseThrow();
                 assertThat(inside).as("inside95 of %s %s s windows", group, len).isGreaterThanOrEqualTo(0.90);
-                assertThat(l.stream().filter(WindowScore::missedAlert).count()).as("%s %s s warned late", group, len)
+                assertThat(l.stream().filter(WindowScore::warnedLate).count()).as("%s %s s warned late", group, len)
                         .isZero();
             }
         });

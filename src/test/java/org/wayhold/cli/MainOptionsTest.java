@@ -21,7 +21,8 @@ import picocli.CommandLine;
 class MainOptionsTest {
 
     private static final String[] PROPERTIES = {LogLevel.DEFAULT_PROPERTY,
-        LogLevel.LIBRARY_PROPERTY + "org.eclipse.jetty", LogLevel.LIBRARY_PROPERTY + "io.javalin"};
+        LogLevel.LIBRARY_PROPERTY + "org.eclipse.jetty", LogLevel.LIBRARY_PROPERTY + "io.javalin",
+        LogLevel.LIBRARY_PROPERTY + "org.apache.kafka"};
     private final Map<String, String> saved = new HashMap<>();
     private final StringWriter out = new StringWriter();
     private final StringWriter err = new StringWriter();

@@ -74,6 +74,68 @@ class ScoreCommandTest {
         assertThat(out.resolve("report.html")).exists();
     }
 
+    /**
+     * A report says what made it: the tool's version (the build's own, org.wayhold.BuildInfo), the
+     * command line as given, the date, and every input with its rejected-line count (two bad lines
+     * planted here), in the JSON and the HTML.
+     */
+    @Test
+    void theReportRecordsTheToolTheCommandLineTheDateAndEveryInput(@TempDir Path dir) throws Exception {
+        SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(4).withWarmUpS(120)
+                .withStartT(1_800_000_000.0), 64L);
+        Path log = dir.resolve("drive.ndjson");
+        try (NdjsonWriter w = NdjsonWriter.open(log)) {
+            for (Sample s : drive.samples()) {
+                w.write(s);
+            }
+        }
+        Files.writeString(log, "not json\n{\"type\":\"warp\",\"t\":1}\n" + Files.readString(log));
+        Path config = dir.resolve("mine.yaml");
+        Files.writeString(config, "outage:\n  alert_limit_m: 8.0\n");
+        Path out = dir.resolve("out");
+        Instant before = Instant.now().minusSeconds(1);
+        Run r = run("score", log.toString(), "--outage", "10", "--every", "30", "--config", config.toString(),
+                "--out", out.toString(), "--quiet");
+        assertThat(r.exit()).as(r.err()).isZero();
+        JsonNode json = new ObjectMapper().readTree(out.resolve("report.json").toFile());
+        JsonNode about = json.get("report");
+        assertThat(about.get("version").asText()).isEqualTo(org.wayhold.BuildInfo.current().version());
+        assertThat(about.get("command_line").asText()).isEqualTo("wayhold score " + log + " --outage 10 --every 30"
+                + " --config " + config + " --out " + out + " --quiet");
+        Instant date = Instant.parse(about.get("date").asText());
+        assertThat(date).isBetween(before, Instant.now().plusSeconds(1));
+        JsonNode inputs = json.get("inputs");
+        assertThat(inputs.get(0).get("file").asText()).isEqualTo(log.toString());
+        assertThat(inputs.get(0).get("rejected_lines").asInt()).isEqualTo(2);
+        assertThat(inputs.get(0).get("accepted").asInt()).isEqualTo(drive.samples().size());
+        assertThat(inputs.get(1).get("file").asText()).isEqualTo(config.toString());
+        assertThat(inputs.get(1).get("kind").asText()).isEqualTo("config");
+        String html = Files.readString(out.resolve("report.html"));
+        assertThat(html).contains(about.get("command_line").asText()).contains(about.get("date").asText())
+                .contains("<td>2</td>").contains(org.wayhold.BuildInfo.current().version());
+    }
+
+    /**
+     * A run in which no window can be scored (1000 s outages in a 4-minute log) must not pass for a good
+     * one: a warning on stderr that says why, exit code 1, and the report written with every planned
+     * window and its reason.
+     */
+    @Test
+    void aRunThatScoresNoWindowWarnsAndExitsNonZero(@TempDir Path dir) throws Exception {
+        SimulatedDrive drive = DriveSimulator.simulate(SimulationSettings.defaults().withMinutes(4), 65L);
+        Path log = writeLog(dir, drive);
+        Path out = dir.resolve("out");
+        Run r = run("score", log.toString(), "--outage", "1000", "--out", out.toString(), "--quiet");
+        assertThat(r.exit()).isEqualTo(1);
+        assertThat(r.err()).startsWith("score: warning: no window could be scored: ")
+                .contains("it would end after the log's last GNSS fix").contains("the longest log lasts");
+        JsonNode json = new ObjectMapper().readTree(out.resolve("report.json").toFile());
+        assertThat(json.get("outages").size()).isZero();
+        assertThat(json.get("unscored_windows").size()).isPositive();
+        json.get("unscored_windows").forEach(u -> assertThat(u.get("reason").asText()).isEqualTo("beyond_log_end"));
+        assertThat(Files.readString(out.resolve("report.html"))).contains("id=\"nothing-scored\"");
+    }
+
     @Test
     void badOptionsExitWithTwoAndNameTheOptionInOneLineAndAPointerToTheHelp(@TempDir Path dir) throws Exception {
         Path log = dir.resolve("some.ndjson");
@@ -127,7 +189,8 @@ class ScoreCommandTest {
         }
         Files.write(log, Files.readAllBytes(dir.resolve("rest.ndjson")), java.nio.file.StandardOpenOption.APPEND);
         Path out = dir.resolve("out");
-        Run r = run("score", log.toString(), "--outage", "10", "--every", "30", "--out", out.toString(), "--quiet");
+        Run r = run("score", log.toString(), "--outage", "10", "--every", "30", "--min-aided", "0", "--out",
+                out.toString(), "--quiet");
         assertThat(r.exit()).as(r.err()).isZero();
         String notes = new ObjectMapper().readTree(out.resolve("report.json").toFile()).get("logs").get(0)
                 .get("notes").toString();
@@ -164,6 +227,13 @@ class ScoreCommandTest {
         JsonNode b = mapper.readTree(outB.resolve("report.json").toFile());
         assertThat(b.get("logs").get(0).get("notes").toString()).contains(fixes + " fixes").contains("1 sentences skipped")
                 .contains("line 1: checksum");
+        // Both files are recorded as inputs, each with its count of refused lines.
+        JsonNode inputs = b.get("inputs");
+        assertThat(inputs.get(0).get("kind").asText()).isEqualTo("ndjson");
+        assertThat(inputs.get(1).get("kind").asText()).isEqualTo("nmea");
+        assertThat(inputs.get(1).get("file").asText()).isEqualTo(nmea.toString());
+        assertThat(inputs.get(1).get("accepted").asInt()).isEqualTo(fixes);
+        assertThat(inputs.get(1).get("rejected_lines").asInt()).isEqualTo(1);
         assertThat(a.get("outages").size()).isPositive();
         assertThat(b.get("outages").size()).isPositive();
         // The fixes read back are the drive's own, to the 1e-7 minute written (0.2 mm) and the millisecond.

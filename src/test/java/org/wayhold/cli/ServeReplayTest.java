@@ -65,6 +65,48 @@ class ServeReplayTest {
         }
     }
 
+    /**
+     * When the replayed drive ends the command says so, and the vehicle, which then goes quiet, turns
+     * stale after {@code outage.stale_after_s} (1 s here) while its state stays the filter's last.
+     */
+    @Test
+    void theEndOfTheDriveIsPrintedAndTheVehicleThenTurnsStale() throws Exception {
+        int lines;
+        try (InputStream in = new GZIPInputStream(Files.newInputStream(LOG))) {
+            lines = (int) new String(in.readAllBytes(), java.nio.charset.StandardCharsets.UTF_8).lines()
+                    .filter(l -> !l.isBlank()).count();
+        }
+        Path config = tmp.resolve("stale.yaml");
+        Files.writeString(config, "outage:\n  stale_after_s: 1.0\n");
+        ServeChild child = ServeChild.start(tmp.resolve("serve-end.log"), List.of("--data",
+                tmp.resolve("data-end").toString(), "--config", config.toString(), "--replay", LOG.toString(),
+                "--speed", "200"), "replaying ", 60);
+        try {
+            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(60);
+            String out = "";
+            while (System.nanoTime() < deadline && !out.contains("the drive has ended")) {
+                Thread.sleep(50);
+                out = Files.readString(child.output());
+            }
+            assertThat(out).contains("replay: the drive has ended: " + lines + " samples of " + LOG
+                    + " replayed into vehicle 'replay'").contains("stale after 1 s");
+            JsonNode pose = null;
+            while (System.nanoTime() < deadline) {
+                pose = JSON.readTree(CLIENT.send(HttpRequest.newBuilder(URI.create(child.baseUrl()
+                        + "/v1/vehicles/replay/pose")).GET().build(), HttpResponse.BodyHandlers.ofString()).body());
+                if (pose.get("stale").asBoolean()) {
+                    break;
+                }
+                Thread.sleep(100);
+            }
+            assertThat(pose.get("stale").asBoolean()).as("the vehicle turns stale after the drive").isTrue();
+            assertThat(pose.get("state").asText()).isIn("aided", "degraded", "bridging", "unreliable");
+            assertThat(pose.get("received_at").asDouble()).isLessThan(System.currentTimeMillis() / 1000.0 - 1.0);
+        } finally {
+            child.stop();
+        }
+    }
+
     /** The pose time of vehicle 'replay' once it exists and is at least {@code minT}; fails after a bound. */
     private static double waitForPoseT(String baseUrl, double minT, int timeoutS) throws Exception {
         long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutS);

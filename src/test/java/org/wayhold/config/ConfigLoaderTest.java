@@ -20,6 +20,7 @@ import org.wayhold.sample.FixType;
 import org.wayhold.settings.FilterSettings;
 import org.wayhold.settings.IngestSettings;
 import org.wayhold.settings.JournalSettings;
+import org.wayhold.settings.WorkerSettings;
 import org.wayhold.settings.ServerSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.settings.VehicleProfile;
@@ -198,6 +199,38 @@ class ConfigLoaderTest {
                 .startsWith("ingest.max_alt_m: the upper bound 5.0 m is below the lower bound 10.0 m");
         assertThat(errorOf("vehicles:\n  van_9:\n    lever_arm_up_m: 1e999\n"))
                 .startsWith("vehicles.van_9.lever_arm_up_m: must be a finite number");
+    }
+
+    @Test
+    void everyWorkerKeyReachesItsOwnField() {
+        Settings s = parse("""
+                worker:
+                  application_id: fleet-b
+                  samples_topic: b.samples
+                  poses_topic: b.poses
+                  events_topic: b.events
+                  dead_letter_topic: b.rejected
+                  partitions: 6
+                  replication_factor: 1
+                  create_topics: false
+                  retention_s: 3600.0
+                  threads: 2
+                  standby_replicas: 1
+                  commit_interval_s: 0.5
+                  session_timeout_s: 6.0
+                """);
+        assertThat(s.worker()).isEqualTo(new WorkerSettings("fleet-b", "b.samples", "b.poses", "b.events",
+                "b.rejected", 6, 1, false, 3600.0, 2, 1, 0.5, 6.0));
+    }
+
+    @ParameterizedTest
+    @CsvSource(delimiter = '|', value = {
+        "'worker:\n  poses_topic: wayhold.samples\n' | worker.poses_topic: the samples, poses, events and dead-letter topics must be four different topics, 'wayhold.samples' is named twice",
+        "'worker:\n  samples_topic: a b\n'           | worker.samples_topic: must be 1 to 249 letters, digits, '.', '_' or '-' (a Kafka name), was 'a b'",
+        "'worker:\n  partitions: 0\n'                | worker.partitions: must be at least 1, was 0",
+        "'worker:\n  session_timeout_s: 0\n'         | worker.session_timeout_s: must be a positive finite number, was 0.0"})
+    void aBadWorkerValueIsNamedWithItsKey(String yaml, String message) {
+        assertThat(errorOf(yaml)).isEqualTo(message + " (in test.yaml)");
     }
 
     @Test

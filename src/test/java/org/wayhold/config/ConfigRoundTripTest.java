@@ -35,7 +35,7 @@ class ConfigRoundTripTest {
 
     private static Settings withoutTokens(Settings s) {
         return new Settings(s.server().withTokens(List.of(), List.of()), s.filter(), s.gating(), s.outage(),
-                s.ordering(), s.history(), s.vehicles(), s.journal(), s.ingest());
+                s.ordering(), s.history(), s.vehicles(), s.journal(), s.ingest(), s.worker());
     }
 
     @Test

@@ -27,7 +27,12 @@ final class LiveServer implements AutoCloseable {
     final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     LiveServer(Settings settings) {
-        this.sessions = new SessionRegistry(settings, null);
+        this(settings, java.time.Clock.systemUTC());
+    }
+
+    /** A service whose sessions judge arrivals and staleness by {@code clock}. */
+    LiveServer(Settings settings, java.time.Clock clock) {
+        this.sessions = new SessionRegistry(settings, null, org.wayhold.session.SessionLog.NONE, clock);
         this.service = new HttpService(sessions).start();
     }
 
@@ -82,6 +87,15 @@ final class LiveServer implements AutoCloseable {
 
     HttpResponse<String> delete(String path) {
         return send(request(path).DELETE().build());
+    }
+
+    /**
+     * A latest pose's JSON without the vehicle's liveness ({@code received_at}, {@code stale}), which
+     * follows the service's wall clock and not the samples: for comparing the poses of two vehicles fed
+     * the same data, or of one vehicle across a restart.
+     */
+    static String withoutLiveness(String poseJson) {
+        return poseJson.replaceFirst(",\"received_at\":[^,]*,\"stale\":(true|false)}$", "}");
     }
 
     static JsonNode json(HttpResponse<String> r) {

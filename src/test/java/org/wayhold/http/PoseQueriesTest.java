@@ -14,8 +14,8 @@ import org.locationtech.proj4j.BasicCoordinateTransform;
 import org.locationtech.proj4j.CRSFactory;
 import org.locationtech.proj4j.CoordinateReferenceSystem;
 import org.locationtech.proj4j.ProjCoordinate;
-import org.wayhold.pose.Pose;
 import org.wayhold.sample.Sample;
+import org.wayhold.session.VehicleSession;
 import org.wayhold.simulate.SimulationSettings;
 
 /**
@@ -87,16 +87,18 @@ class PoseQueriesTest {
                 for (int twice = 0; twice < 2; twice++) {
                     HttpResponse<String> r = server.get("/v1/vehicles/cached/pose");
                     assertThat(r.statusCode()).isEqualTo(200);
-                    Pose latest = server.sessions.find("cached").orElseThrow().session().latest().orElseThrow();
-                    assertThat(r.body()).isEqualTo(new String(PoseJson.toBytes(latest), StandardCharsets.UTF_8));
+                    VehicleSession session = server.sessions.find("cached").orElseThrow().session();
+                    assertThat(r.body()).isEqualTo(new String(PoseJson.toBytes(session.latest().orElseThrow(),
+                            session.liveness()), StandardCharsets.UTF_8));
                 }
             }
             // Deleted and fed a shorter stretch: the new session's pose, not the old one's kept JSON.
             assertThat(server.delete("/v1/vehicles/cached").statusCode()).isEqualTo(204);
             server.postNdjson("cached", Drives.ndjson(samples.subList(0, 50)));
             HttpResponse<String> reborn = server.get("/v1/vehicles/cached/pose");
-            Pose latest = server.sessions.find("cached").orElseThrow().session().latest().orElseThrow();
-            assertThat(reborn.body()).isEqualTo(new String(PoseJson.toBytes(latest), StandardCharsets.UTF_8));
+            VehicleSession session = server.sessions.find("cached").orElseThrow().session();
+            assertThat(reborn.body()).isEqualTo(new String(PoseJson.toBytes(session.latest().orElseThrow(),
+                    session.liveness()), StandardCharsets.UTF_8));
             assertThat(server.delete("/v1/vehicles/cached").statusCode()).isEqualTo(204);
         }
     }
@@ -187,7 +189,8 @@ class PoseQueriesTest {
         JsonNode p = LiveServer.json(server.get("/v1/vehicles/" + CAR + "/pose"));
         assertThat(p.fieldNames()).toIterable().containsExactly("t", "lat", "lon", "alt", "east", "north", "up",
                 "heading_deg", "heading_sigma_deg", "speed", "yaw_rate", "cov", "ellipse95", "radius95", "state",
-                "reasons", "outage", "gyro_bias", "speed_scale", "last_fix_t", "alert_limit", "origin");
+                "reasons", "outage", "gyro_bias", "speed_scale", "last_fix_t", "alert_limit", "origin", "received_at",
+                "stale");
         assertThat(p.get("cov").fieldNames()).toIterable().containsExactly("ee", "en", "nn");
         assertThat(p.get("ellipse95").fieldNames()).toIterable().containsExactly("semi_major", "semi_minor",
                 "orientation_deg");

@@ -103,9 +103,17 @@ class ProblemResponsesTest {
         problem(server.delete("/v1/vehicles/ghost"), 404, "vehicle");
     }
 
+    /**
+     * RFC 9110 sec. 12.5.1: an Accept that rules text/event-stream out (another type only, or a weight
+     * of 0 on it that beats the wildcard by being more specific) is 406; wildcards and a missing Accept
+     * are served (PoseStreamTest).
+     */
     @Test
-    void aStreamRequestThatDoesNotAcceptEventsIs406() {
-        problem(server.get("/v1/vehicles/car-1/stream"), 406, "Accept");
+    void aStreamRequestWhoseAcceptRulesEventsOutIs406() {
+        for (String accept : List.of("application/json", "text/event-stream;q=0, */*", "text/html, image/*")) {
+            problem(server.send(server.request("/v1/vehicles/car-1/stream").header("Accept", accept).GET().build()),
+                    406, "Accept");
+        }
     }
 
     @Test
@@ -113,12 +121,27 @@ class ProblemResponsesTest {
         problem(server.get("/v1/vehicles/car-1/pose?at=1000"), 404, "at");
     }
 
+    /** RFC 9110 sec. 15.5.6: a 405 reply must carry Allow with the methods the resource answers. */
     @Test
-    void anUnknownPathIs404AndAWrongMethodIs405() {
+    void anUnknownPathIs404AndAWrongMethodIs405WithAllow() {
         problem(server.get("/v2/nothing"), 404, "path");
-        problem(server.send(server.request("/health").DELETE().build()), 405, "method");
-        problem(server.send(server.request("/v1/vehicles").POST(HttpRequest.BodyPublishers.noBody()).build()),
-                405, "method");
+        HttpResponse<String> health = server.send(server.request("/health").DELETE().build());
+        problem(health, 405, "method");
+        assertThat(health.headers().firstValue("Allow")).contains("GET, HEAD");
+        HttpResponse<String> list = server.send(server.request("/v1/vehicles").POST(HttpRequest.BodyPublishers.noBody())
+                .build());
+        problem(list, 405, "method");
+        assertThat(list.headers().firstValue("Allow")).contains("GET, HEAD");
+        HttpResponse<String> vehicle = server.send(server.request("/v1/vehicles/car-1").PUT(
+                HttpRequest.BodyPublishers.noBody()).build());
+        problem(vehicle, 405, "method");
+        assertThat(vehicle.headers().firstValue("Allow")).contains("DELETE");
+        HttpResponse<String> samples = server.send(server.request("/v1/vehicles/car-1/samples").GET().build());
+        problem(samples, 405, "method");
+        assertThat(samples.headers().firstValue("Allow")).contains("POST");
+        // Every method Allow names is answered (not 405): HEAD included.
+        assertThat(server.send(server.request("/health").method("HEAD", HttpRequest.BodyPublishers.noBody()).build())
+                .statusCode()).isEqualTo(200);
     }
 
     @Test

@@ -101,7 +101,8 @@ class SampleIngestTest {
                 return n;
             }
         };
-        PoseStreams streams = new PoseStreams(settings.server().sseKeepAliveS(), settings.server().maxStreams());
+        PoseStreams streams = new PoseStreams(settings.server().sseKeepAliveS(), settings.server().maxStreams(),
+                settings.outage().staleAfterS());
         try (ServiceMetrics metrics = new ServiceMetrics(sessions, streams, Optional.empty())) {
             SampleIngest ingest = new SampleIngest(sessions, metrics,
                     new IngestRate(settings.server().maxSamplesPerSecondPerVehicle(), settings.server().rateBurstS(),
@@ -112,6 +113,8 @@ class SampleIngestTest {
                     SampleIngest.Encoding.IDENTITY, -1, in, null));
             assertThat(new ObjectMapper().readTree(outcome.json()).get("accepted").asLong()).isEqualTo(samples);
         }
+        // The streams' staleness checker is a thread of its own: stopped, so the test leaves none behind.
+        streams.closeAll();
         assertThat(records).hasSize(chunks);
         assertThat(waitingAtEnd[0]).isBetween(1L, (long) SampleIngest.CHUNKS_IN_FLIGHT);
         assertThat(records).allMatch(CompletableFuture::isDone);

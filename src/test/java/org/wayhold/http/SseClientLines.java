@@ -18,14 +18,23 @@ final class SseClientLines implements AutoCloseable {
     static final String FAILED = "\u0000failed";
 
     final int status;
+    final String contentType;
     private final InputStream body;
     private final BlockingQueue<String> lines = new LinkedBlockingQueue<>();
     private final Thread reader;
 
     SseClientLines(LiveServer server, String path) throws IOException, InterruptedException {
-        HttpResponse<InputStream> r = server.client.send(server.request(path).header("Accept", "text/event-stream").GET().build(),
-                HttpResponse.BodyHandlers.ofInputStream());
+        this(server, path, java.util.Map.of("Accept", "text/event-stream"));
+    }
+
+    /** A stream asked with exactly these request headers (none: no Accept at all). */
+    SseClientLines(LiveServer server, String path, java.util.Map<String, String> headers)
+            throws IOException, InterruptedException {
+        HttpRequest.Builder b = server.request(path);
+        headers.forEach(b::header);
+        HttpResponse<InputStream> r = server.client.send(b.GET().build(), HttpResponse.BodyHandlers.ofInputStream());
         this.status = r.statusCode();
+        this.contentType = r.headers().firstValue("Content-Type").orElse("");
         this.body = r.body();
         this.reader = new Thread(() -> {
             try (BufferedReader in = new BufferedReader(new InputStreamReader(body, StandardCharsets.UTF_8))) {

@@ -24,6 +24,10 @@ import org.wayhold.simulate.SimulationSettings;
 
 class ReportTest {
 
+    /** A fixed run record, so that two reports of the same inputs can be compared byte for byte. */
+    static final RunInfo RUN = new RunInfo("0.1.0", "0123456789ab", "wayhold score drive0 --out report",
+            "2026-12-05T00:00:00Z");
+
     private static final List<ScoringRun.NamedSettings> ONE =
             List.of(new ScoringRun.NamedSettings("default", "built-in defaults", Settings.defaults()));
 
@@ -48,7 +52,7 @@ class ReportTest {
             sources.add(source("drive" + i, drives.get(i).samples()));
         }
         ScoringRun.Options o = new ScoringRun.Options(schedule, 45, 0.1, "default", true, threads);
-        return ReportModel.of(ScoringRun.run(sources, configs, o, ScoringRun.Listener.NONE), configs, o);
+        return ReportModel.of(ScoringRun.run(sources, configs, o, ScoringRun.Listener.NONE), configs, o, RUN);
     }
 
     private static SimulatedDrive drive(long seed) {
@@ -70,8 +74,8 @@ class ReportTest {
         assertThat(m.rows()).hasSizeGreaterThan(10);
         for (OutageRow r : m.rows()) {
             GeodesicData g = Geodesic.WGS84.Inverse(r.refLat(), r.refLon(), r.endLat(), r.endLon());
-            assertThat(g.s12).as("row %s", r).isCloseTo(r.finalError(),
-                    org.assertj.core.data.Offset.offset(5e-4 + 1e-4 * r.finalError()));
+            assertThat(g.s12).as("row %s", r).isCloseTo(r.finalErrorM(),
+                    org.assertj.core.data.Offset.offset(5e-4 + 1e-4 * r.finalErrorM()));
         }
         assertThat(m.rows()).anyMatch(r -> r.kind().equals(OutageRow.REAL_GAP));
     }
@@ -98,15 +102,21 @@ class ReportTest {
         ReportModel m = model(List.of(drive(51L)), two, new WindowPlan.Schedule(new double[] {10, 30}, 0, 30, 0, 0), 2);
         ReportFiles.write(m, dir);
         String json = Files.readString(dir.resolve(ReportFiles.JSON));
-        for (String field : List.of("\"outages\"", "\"log\"", "\"start\"", "\"seconds\"", "\"meters\"",
-                "\"final_error\"", "\"max_error\"", "\"error_pct\"", "\"inside95\"", "\"end_lat\"", "\"end_lon\"",
-                "\"time_to_alert\"", "\"summary\"", "\"count\"", "\"median_final_error\"", "\"p95_final_error\"",
-                "\"median_error_pct\"", "\"config\"", "\"comparison\"", "\"median_final_error_diff\"")) {
+        // The v2 interface contract's names, units in the keys.
+        for (String field : List.of("\"outages\"", "\"log\"", "\"start_t\"", "\"length_s\"", "\"distance_m\"",
+                "\"final_error_m\"", "\"max_error_m\"", "\"error_pct\"", "\"inside95\"", "\"mean_nees\"",
+                "\"end_lat\"", "\"end_lon\"", "\"time_to_limit_s\"", "\"time_to_unreliable_s\"", "\"warned_late\"",
+                "\"summary\"", "\"count\"", "\"median_final_error_m\"", "\"p95_final_error_m\"",
+                "\"median_error_pct\"", "\"config\"", "\"comparison\"", "\"difference\"")) {
             assertThat(json).contains(field);
+        }
+        for (String old : List.of("\"start\"", "\"seconds\"", "\"meters\"", "\"final_error\"", "\"time_to_alert\"",
+                "\"time_to_unreliable\"", "\"missed_alert\"", "\"missed_alerts\"")) {
+            assertThat(json).doesNotContain(old);
         }
         assertThat(json).contains("\"reference\" : \"reference\"");
         List<String> csv = Files.readAllLines(dir.resolve(ReportFiles.CSV), StandardCharsets.UTF_8);
-        assertThat(csv.get(0)).isEqualTo(CsvReport.HEADER).contains("final_error[m]");
+        assertThat(csv.get(0)).isEqualTo(CsvReport.HEADER).contains("final_error_m");
         assertThat(csv).hasSize(m.rows().size() + 1);
         // Both configurations scored every window: each simulated window appears once per configuration.
         assertThat(m.rows().stream().filter(r -> r.config().equals("strict")).count())
@@ -138,7 +148,7 @@ class ReportTest {
         List<Settings> scored = List.of(Settings.defaults(), new Settings(
                 everyKey.server().withTokens(List.of(), List.of()), everyKey.filter(), everyKey.gating(),
                 everyKey.outage(), everyKey.ordering(), everyKey.history(), everyKey.vehicles(), everyKey.journal(),
-                everyKey.ingest()));
+                everyKey.ingest(), everyKey.worker()));
         assertThat(configs).hasSize(2);
         for (int i = 0; i < 2; i++) {
             Path yaml = dir.resolve("config-" + i + ".yaml");
