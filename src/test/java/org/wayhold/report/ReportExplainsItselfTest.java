@@ -108,7 +108,8 @@ class ReportExplainsItselfTest {
     void everyKeyOfAWindowCarriesItsUnitAndTheCsvUsesTheSameKeys() {
         Pattern withUnit = Pattern.compile(".*_(t|s|m|pct|lat|lon)$");
         List<String> unitless = List.of("log", "config", "kind", "reference", "inside95", "mean_nees", "final_nees",
-                "evaluations", "warned_late");
+                "evaluations", "warned_late", "smoothed_inside95", "smoothed_mean_nees", "smoothed_fixes_after",
+                "gap_fill_ratio");
         List<String> keys = new ArrayList<>();
         json.get("outages").get(0).fieldNames().forEachRemaining(keys::add);
         for (String k : keys) {
@@ -116,12 +117,13 @@ class ReportExplainsItselfTest {
         }
         assertThat(keys).contains("start_t", "length_s", "distance_m", "final_error_m", "max_error_m", "error_pct",
                 "inside95", "mean_nees", "end_lat", "end_lon", "time_to_limit_s", "time_to_unreliable_s",
-                "warned_late");
+                "warned_late", "smoothed_final_error_m", "smoothed_max_error_m", "smoothed_inside95", "gap_fill_ratio");
         assertThat(List.of(csv.get(0).split(","))).containsExactlyInAnyOrderElementsOf(keys);
         for (Iterator<String> it = json.get("summary").get(0).fieldNames(); it.hasNext(); ) {
             String k = it.next();
             assertThat(withUnit.matcher(k).matches() || k.endsWith("_count") || List.of("config", "count",
-                    "inside95", "mean_nees").contains(k)).as("summary key %s", k).isTrue();
+                    "inside95", "mean_nees", "smoothed_inside95", "median_gap_fill_ratio").contains(k))
+                    .as("summary key %s", k).isTrue();
         }
     }
 

@@ -50,7 +50,9 @@ class ReportSizeTest {
         assertThat(m.simulatedRows()).as("windows scored").isGreaterThan(50);
         byte[] html = HtmlReport.html(m).getBytes(StandardCharsets.UTF_8);
         assertThat(html.length).isLessThan(LIMIT_BYTES);
-        // Every plot is still there: drift, one per length, the real gaps, one track per log.
-        assertThat(new String(html, StandardCharsets.UTF_8).split("<svg", -1).length - 1).isEqualTo(1 + 3 + 1 + 2);
+        // Every plot is still there: drift, the forward drift and the smoothed gap fill per length and for
+        // the real gaps, one track per log.
+        assertThat(new String(html, StandardCharsets.UTF_8).split("<svg", -1).length - 1)
+                .isEqualTo(1 + 2 * (3 + 1) + 2);
     }
 }
