@@ -12,9 +12,6 @@ import java.util.Comparator;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
-import org.eclipse.jetty.server.HttpConnectionFactory;
-import org.eclipse.jetty.server.ServerConnector;
-import org.eclipse.jetty.server.handler.GracefulHandler;
 import org.wayhold.settings.ServerSettings;
 
 /**
@@ -76,56 +73,13 @@ public final class BoardService implements AutoCloseable {
     }
 
     private void configure(JavalinConfig config) {
-        config.startup.showJavalinBanner = false;
-        config.startup.showOldJavalinVersionWarning = false;
-        config.http.prefer405over404 = true;
-        config.http.maxRequestSize = server.maxBodyBytes();
-        long idleMillis = Math.max(1L, Math.round(server.idleTimeoutS() * 1000.0));
-        config.jetty.modifyServer(s -> {
-            s.insertHandler(new GracefulHandler());
-            s.setStopTimeout(HttpService.STOP_TIMEOUT_MS);
-            s.setErrorHandler(new ProblemErrorHandler());
-        });
-        config.jetty.modifyHttpConfiguration(http -> http.setIdleTimeout(idleMillis));
-        config.jetty.addConnector((jetty, http) -> {
-            ServerConnector c = new ServerConnector(jetty, new HttpConnectionFactory(http));
-            c.setHost(server.bind());
-            c.setPort(server.port());
-            c.setIdleTimeout(idleMillis);
-            return c;
-        });
-        config.events.serverStopping(streams::closeAll);
-        config.events.handlerAdded(h -> {
-            if (h.getHttpMethod().isHttpMethod()) {
-                routes.add(h.getHttpMethod().name() + " " + h.getPath());
-            }
-        });
-        if (!server.corsOrigins().isEmpty()) {
-            config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
-                for (String origin : server.corsOrigins()) {
-                    if (origin.equals("*")) {
-                        rule.anyHost();
-                    } else {
-                        rule.allowHost(origin);
-                    }
-                }
-                rule.exposeHeader("ETag");
-                rule.exposeHeader(VehicleRoutes.HELD_FROM);
-                rule.exposeHeader(VehicleRoutes.HELD_TO);
-                rule.exposeHeader(VehicleRoutes.TRUNCATED);
-            }));
-        }
-        LiveView.serve(config);
+        ServerWiring.configure(config, server, streams, routes, List.of("ETag", VehicleRoutes.HELD_FROM,
+                VehicleRoutes.HELD_TO, VehicleRoutes.TRUNCATED));
         if (forwarder == null) {
             refused.add("POST /v1/vehicles/{vehicle}/samples");
         }
         refused.add("DELETE /v1/vehicles/{vehicle}");
-        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads, this::allow);
-        if (!server.corsOrigins().isEmpty()) {
-            OriginRule origins = new OriginRule(server.corsOrigins());
-            config.routes.before(origins::check);
-        }
-        config.routes.before(tokens::check);
+        ServerWiring.guard(config, server, uploads, tokens, this::allow);
         config.routes.post("/v1/vehicles/{vehicle}/samples", ctx -> {
             if (forwarder == null) {
                 throw readOnly(ctx, "samples go to the workers' samples topic; this service only reads their poses"

@@ -12,9 +12,6 @@ import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
 import java.util.Optional;
-import org.eclipse.jetty.server.HttpConnectionFactory;
-import org.eclipse.jetty.server.ServerConnector;
-import org.eclipse.jetty.server.handler.GracefulHandler;
 import org.wayhold.journal.Journal;
 import org.wayhold.journal.SessionJournal;
 import org.wayhold.session.SessionRegistry;
@@ -122,65 +119,14 @@ public final class HttpService implements AutoCloseable {
     }
 
     private void configure(JavalinConfig config, VehicleRoutes vehicles) {
-        config.startup.showJavalinBanner = false;
-        config.startup.showOldJavalinVersionWarning = false;
         config.jetty.host = server.bind();
         config.jetty.port = server.port();
-        config.http.prefer405over404 = true;
-        config.http.maxRequestSize = server.maxBodyBytes();
-        long idleMillis = Math.max(1L, Math.round(server.idleTimeoutS() * 1000.0));
-        config.jetty.modifyServer(s -> {
-            // Jetty 12 waits for requests in flight on stop only with a GracefulHandler in the chain.
-            s.insertHandler(new GracefulHandler());
-            s.setStopTimeout(STOP_TIMEOUT_MS);
-            // Errors Jetty answers before any route (bad request line, 414, 431, 503 while stopping).
-            s.setErrorHandler(new ProblemErrorHandler());
-        });
-        // The idle timeout bounds each blocked read or write of a request (HttpConfiguration) and each
-        // silent connection (the connector): a client that stops sending or reading is let go.
-        config.jetty.modifyHttpConfiguration(http -> http.setIdleTimeout(idleMillis));
-        config.jetty.addConnector((jetty, http) -> {
-            ServerConnector c = new ServerConnector(jetty, new HttpConnectionFactory(http));
-            c.setHost(server.bind());
-            c.setPort(server.port());
-            c.setIdleTimeout(idleMillis);
-            return c;
-        });
-        config.events.serverStopping(streams::closeAll);
-        config.events.handlerAdded(h -> {
-            if (h.getHttpMethod().isHttpMethod()) {
-                routes.add(h.getHttpMethod().name() + " " + h.getPath());
-            }
-        });
-        if (!server.corsOrigins().isEmpty()) {
-            config.bundledPlugins.enableCors(cors -> cors.addRule(rule -> {
-                for (String origin : server.corsOrigins()) {
-                    if (origin.equals("*")) {
-                        rule.anyHost();
-                    } else {
-                        rule.allowHost(origin);
-                    }
-                }
-                rule.exposeHeader("ETag");
-                rule.exposeHeader(VehicleRoutes.IDEMPOTENCY_REPLAYED);
-                rule.exposeHeader("Retry-After");
-                rule.exposeHeader(VehicleRoutes.HELD_FROM);
-                rule.exposeHeader(VehicleRoutes.HELD_TO);
-                rule.exposeHeader(VehicleRoutes.TRUNCATED);
-            }));
-        }
+        ServerWiring.configure(config, server, streams, routes, List.of("ETag", VehicleRoutes.IDEMPOTENCY_REPLAYED,
+                "Retry-After", VehicleRoutes.HELD_FROM, VehicleRoutes.HELD_TO, VehicleRoutes.TRUNCATED));
         config.requestLogger.http((ctx, ms) -> metrics.request(ctx.method().name(), routeOf(ctx),
                 ctx.statusCode(), ms));
 
-        LiveView.serve(config);
-        ErrorMapping.install(config.routes, server.maxBodyBytes(), server.drainTimeoutS(), uploads,
-                path -> allowHeader(routes(), path));
-        if (!server.corsOrigins().isEmpty()) {
-            // Before anything else runs: a write from a page of a disallowed origin is refused unapplied.
-            OriginRule origins = new OriginRule(server.corsOrigins());
-            config.routes.before(origins::check);
-        }
-        config.routes.before(tokens::check);
+        ServerWiring.guard(config, server, uploads, tokens, path -> allowHeader(routes(), path));
         config.routes.post("/v1/vehicles/{vehicle}/samples", vehicles::postSamples);
         config.routes.get("/v1/vehicles/{vehicle}/pose", vehicles::getPose);
         config.routes.get("/v1/vehicles/{vehicle}/track", vehicles::getTrack);
