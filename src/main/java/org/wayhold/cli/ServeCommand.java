@@ -119,18 +119,8 @@ final class ServeCommand implements Callable<Integer> {
         if (replay != null && !Files.isRegularFile(replay)) {
             throw new ParameterException(spec.commandLine(), "--replay: no such file " + replay);
         }
-        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
-        List<String> warnings;
-        try {
-            warnings = BindRule.check(settings.server(), insecure);
-        } catch (BindRule.Refused e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage());
-        }
+        Settings settings = checkedSettings();
         PrintWriter err = spec.commandLine().getErr();
-        for (String w : warnings) {
-            err.println(w);
-        }
-        err.flush();
         List<Sample> log = replay == null ? List.of() : readLog(replay, settings, out);
 
         // Every session is restored before the connector opens: no request sees a half-recovered state.
@@ -230,18 +220,7 @@ final class ServeCommand implements Callable<Integer> {
                     + " here (send the log to the samples topic instead)");
         }
         PrintWriter out = spec.commandLine().getOut();
-        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
-        List<String> warnings;
-        try {
-            warnings = BindRule.check(settings.server(), insecure);
-        } catch (BindRule.Refused e) {
-            throw new ParameterException(spec.commandLine(), e.getMessage());
-        }
-        PrintWriter err = spec.commandLine().getErr();
-        for (String w : warnings) {
-            err.println(w);
-        }
-        err.flush();
+        Settings settings = checkedSettings();
         PoseBoard board = new PoseBoard(settings.history().maxPoses(), settings.outage().staleAfterS(),
                 java.time.Clock.systemUTC());
         PoseTopicReader reader = new PoseTopicReader(fromKafka, settings.worker(), board).start();
@@ -350,5 +329,22 @@ final class ServeCommand implements Callable<Integer> {
             out.println("replay: " + rejected[0] + " lines skipped in total");
         }
         return samples;
+    }
+
+    /** The settings with the command line's overrides, refused if the bind rule refuses them; its warnings on stderr. */
+    private Settings checkedSettings() throws IOException {
+        Settings settings = withOverrides(ConfigLoader.loadOrDefaults(config));
+        List<String> warnings;
+        try {
+            warnings = BindRule.check(settings.server(), insecure);
+        } catch (BindRule.Refused e) {
+            throw new ParameterException(spec.commandLine(), e.getMessage());
+        }
+        PrintWriter err = spec.commandLine().getErr();
+        for (String w : warnings) {
+            err.println(w);
+        }
+        err.flush();
+        return settings;
     }
 }
