@@ -59,7 +59,7 @@ final class VehicleRoutes {
         this.ingest = ingest;
         this.streams = streams;
         this.maxIdChars = sessions.settings().server().maxVehicleIdChars();
-        sessions.addRemovalListener(latestJson::remove);
+        sessions.addRemovalListener(s -> latestJson.remove(s.vehicleId()));
     }
 
     void postSamples(Context ctx) {
