@@ -249,11 +249,12 @@ final class ServiceMetrics implements AutoCloseable {
      *
      * <p>Monotonic: a deleted vehicle's counts move into the retired total when its session is dropped
      * ({@link #retire}). The list of held sessions and the retired total are read under one lock, and the
-     * removal listener runs after the session has left the list, so a vehicle is counted once or, for
-     * the instant between the two, not at all; and a re-filtering after late samples may revise a
-     * vehicle's decisions (a fix gated on the first pass taken once the late samples are in), lowering
-     * one of its counts. Both would make the sum go down, so each exported value is the largest sum seen
-     * so far: it holds still until the events since pass it.
+     * removal listener runs after the session has left the list, so a vehicle is counted once, never
+     * twice. Two things can still lower the sum: the instant between a session leaving the list and its
+     * counts reaching the retired total, and a re-filtering after late samples, which recounts from a
+     * checkpoint and may revise a decision (a fix taken before the odometry of its time arrived, gated
+     * once it is in, is one fewer used fix). So each exported value is the largest sum seen so far: it
+     * holds still until the events since pass it.
      *
      * <p>Each session's counts are copied under its own lock ({@link VehicleSession#stats()}), never
      * while holding the retired lock.
