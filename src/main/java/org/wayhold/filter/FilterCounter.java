@@ -7,7 +7,10 @@ package org.wayhold.filter;
 public enum FilterCounter {
     /** Fixes that initialised or corrected the state. */
     FIXES_USED("fixes_used"),
-    /** Fixes that failed the chi-square gate. */
+    /**
+     * Fixes rejected: outside the chi-square gate, in doubt against the odometry ({@link FixConsistency}),
+     * or whose update was refused. Fixes merely held for agreement are {@link #FIXES_PENDING}.
+     */
     FIXES_GATED("fixes_gated"),
     /** Fixes held back while waiting for agreement after a gap or a gated fix. */
     FIXES_PENDING("fixes_pending"),

@@ -588,6 +588,11 @@ public final class NavigationFilter {
         return off > least && off > 3.0 * Math.sqrt(variance(p, i));
     }
 
+    /** A copy of the running counts alone: what metrics read, without building a whole snapshot. */
+    public FilterCounts counts() {
+        return s.counts();
+    }
+
     /** An immutable copy of the current estimate. */
     public FilterSnapshot snapshot() {
         double[] x = s.x;

@@ -327,8 +327,10 @@ public final class BoardService implements AutoCloseable {
                 Map<String, Object> fields = v.latest().map(e -> summary(e.json())).orElse(Map.of());
                 g.writeStartObject();
                 g.writeStringField("vehicle", v.id);
-                // The workers count samples; their poses do not carry the count.
+                // The workers count samples and keep the filter's counts in their stores; their poses
+                // carry neither.
                 g.writeNullField("samples");
+                g.writeNullField("filter_events");
                 for (String name : LISTED) {
                     Object value = fields.get(name);
                     if (value instanceof String text) {

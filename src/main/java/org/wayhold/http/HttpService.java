@@ -69,14 +69,14 @@ public final class HttpService implements AutoCloseable {
                 sessions.settings().outage().staleAfterS());
         this.metrics = new ServiceMetrics(sessions, streams, journal);
         this.openApiYaml = readOpenApi();
-        sessions.addRemovalListener(streams::closeVehicle);
+        sessions.addRemovalListener(s -> streams.closeVehicle(s.vehicleId()));
         this.rate = new IngestRate(server.maxSamplesPerSecondPerVehicle(), server.rateBurstS(), System::nanoTime);
-        sessions.addRemovalListener(rate::forget);
+        sessions.addRemovalListener(s -> rate.forget(s.vehicleId()));
         this.tokens = new BearerTokens(server);
         IngestSettings ingestSettings = sessions.settings().ingest();
         this.replies = new IdempotentReplies(ingestSettings.idempotencyKeysPerVehicle(),
                 ingestSettings.idempotencyTtlS(), ingestSettings.idempotencyMaxBytes(), System::currentTimeMillis);
-        sessions.addRemovalListener(replies::forgetVehicle);
+        sessions.addRemovalListener(s -> replies.forgetVehicle(s.vehicleId()));
         SampleIngest.ReplyLog replyLog = SampleIngest.ReplyLog.NONE;
         if (journal.isPresent()) {
             SessionJournal j = journal.get();

@@ -14,11 +14,14 @@ import io.micrometer.core.instrument.binder.system.ProcessorMetrics;
 import io.micrometer.core.instrument.binder.system.UptimeMetrics;
 import io.micrometer.prometheusmetrics.PrometheusConfig;
 import io.micrometer.prometheusmetrics.PrometheusMeterRegistry;
-import java.util.Locale;
+import java.util.List;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicLongArray;
 import org.wayhold.BuildInfo;
+import org.wayhold.filter.FilterCounter;
+import org.wayhold.filter.FilterCounts;
 import org.wayhold.journal.SessionJournal;
 import org.wayhold.pose.NavState;
 import org.wayhold.pose.Pose;
@@ -48,6 +51,13 @@ import org.wayhold.session.VehicleSession;
  *       ({@code none} before the first pose) and by whether they have stopped sending ({@code stale}
  *       {@code true} or {@code false}, {@code outage.stale_after_s}); every combination is exposed, so
  *       a count that falls to 0 shows as 0, and the values of one scrape are counted together;</li>
+ *   <li>{@code wayhold_filter_events_total{event}}: what the vehicles' filters counted since this process
+ *       started, summed over the vehicles, one {@code event} per {@link FilterCounter} under its wire name
+ *       ({@code fixes_used}, {@code fixes_gated}, {@code fixes_pending}, {@code fixes_dropped},
+ *       {@code fixes_unusable}, {@code velocity_gated}, {@code covariance_repairs}, {@code updates_refused},
+ *       {@code inputs_refused}, {@code covariance_widenings}, {@code resets}); see
+ *       {@link #countFilterEvents()} for how deleted vehicles, restarts and re-filtering are kept out of
+ *       its way down;</li>
  *   <li>{@code wayhold_sse_clients}: open pose streams;</li>
  *   <li>{@code wayhold_http_request_seconds{method, route, status}}: request latency, with a histogram;</li>
  *   <li>{@code wayhold_build_info{version, commit}}: always 1, its labels say what runs;</li>
@@ -87,8 +97,31 @@ final class ServiceMetrics implements AutoCloseable {
     /** Listens to the JVM's collector notifications: closed with the service. */
     private final JvmGcMetrics gc = new JvmGcMetrics();
 
+    /**
+     * The exported {@code wayhold_filter_events_total}, index {@link FilterCounter#ordinal()}: never
+     * lower than at an earlier scrape (see {@link #countFilterEvents()}).
+     */
+    private final AtomicLongArray filterEvents = new AtomicLongArray(FilterCounter.values().length);
+    /**
+     * Final counts of the sessions dropped since this process started, index {@link FilterCounter#ordinal()};
+     * read and added to under {@link #retiredLock}, together with the list of held sessions.
+     */
+    private final long[] retiredEvents = new long[FilterCounter.values().length];
+    private final Object retiredLock = new Object();
+    /** Counts the sessions held when this process's metrics began (restored from the journal) already had. */
+    private final long[] restoredEvents;
+
     ServiceMetrics(SessionRegistry sessions, PoseStreams streams, Optional<SessionJournal> journal) {
         this.sessions = sessions;
+        this.restoredEvents = sumOfFilterCounts(sessions.sessions());
+        sessions.addRemovalListener(this::retire);
+        for (FilterCounter c : FilterCounter.values()) {
+            int index = c.ordinal();
+            FunctionCounter.builder("wayhold.filter.events", filterEvents, a -> a.get(index))
+                    .description("what the vehicles' filters counted since this process started, summed over"
+                            + " the vehicles (deleted ones included), by event")
+                    .tags("event", c.wireName()).register(registry);
+        }
         int states = NavState.values().length;
         for (int i = 0; i <= states; i++) {
             String state = i < states ? NavState.values()[i].wireName() : NO_STATE;
@@ -201,7 +234,65 @@ final class ServiceMetrics implements AutoCloseable {
     /** The Prometheus text exposition (format 0.0.4). */
     String scrape() {
         countVehicles();
+        countFilterEvents();
         return registry.scrape();
+    }
+
+    /**
+     * Refreshes {@code wayhold_filter_events_total} for this scrape: the held sessions' counts, plus the
+     * final counts of the sessions dropped since this process started, less what the sessions held at
+     * its start already had. So the family counts what happened in this process, as every other
+     * {@code _total} here does: a restart starts it again from 0, which Prometheus takes as a counter
+     * reset, while the restored vehicles keep their own counts in the vehicle list. Counting the
+     * restored history again would look, after a restart that forgot deleted vehicles, like a reset
+     * followed by the whole fleet's history happening at once.
+     *
+     * <p>Monotonic: a deleted vehicle's counts move into the retired total when its session is dropped
+     * ({@link #retire}). The list of held sessions and the retired total are read under one lock, and the
+     * removal listener runs after the session has left the list, so a vehicle is counted once, never
+     * twice. Two things can still lower the sum: the instant between a session leaving the list and its
+     * counts reaching the retired total, and a re-filtering after late samples, which recounts from a
+     * checkpoint and may revise a decision (a fix taken before the odometry of its time arrived, gated
+     * once it is in, is one fewer used fix). So each exported value is the largest sum seen so far: it
+     * holds still until the events since pass it.
+     *
+     * <p>Each session's counts are copied under its own lock ({@link VehicleSession#stats()}), never
+     * while holding the retired lock.
+     */
+    private void countFilterEvents() {
+        List<VehicleSession> held;
+        long[] total;
+        synchronized (retiredLock) {
+            held = sessions.sessions();
+            total = retiredEvents.clone();
+        }
+        long[] current = sumOfFilterCounts(held);
+        for (int i = 0; i < total.length; i++) {
+            long sinceStart = total[i] + current[i] - restoredEvents[i];
+            filterEvents.accumulateAndGet(i, sinceStart, Math::max);
+        }
+    }
+
+    /** Keeps a dropped session's final counts in the retired total. */
+    private void retire(VehicleSession session) {
+        long[] last = sumOfFilterCounts(List.of(session));
+        synchronized (retiredLock) {
+            for (int i = 0; i < last.length; i++) {
+                retiredEvents[i] += last[i];
+            }
+        }
+    }
+
+    /** The sessions' filter counts added up, index {@link FilterCounter#ordinal()}. */
+    private static long[] sumOfFilterCounts(List<VehicleSession> held) {
+        long[] sum = new long[FilterCounter.values().length];
+        for (VehicleSession s : held) {
+            FilterCounts counts = s.stats().filter();
+            for (FilterCounter c : FilterCounter.values()) {
+                sum[c.ordinal()] += counts.get(c);
+            }
+        }
+        return sum;
     }
 
     /** Counts the vehicles by state and staleness for the gauges of this scrape. */

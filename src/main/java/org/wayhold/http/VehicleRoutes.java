@@ -1,11 +1,14 @@
 package org.wayhold.http;
 
+import com.fasterxml.jackson.core.JsonGenerator;
 import io.javalin.http.Context;
 import java.io.IOException;
 import java.util.List;
 import java.util.Optional;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.regex.Pattern;
+import org.wayhold.filter.FilterCounter;
+import org.wayhold.filter.FilterCounts;
 import org.wayhold.geo.ProjectedCrs;
 import org.wayhold.pose.Pose;
 import org.wayhold.pipeline.FixRecord;
@@ -59,7 +62,7 @@ final class VehicleRoutes {
         this.ingest = ingest;
         this.streams = streams;
         this.maxIdChars = sessions.settings().server().maxVehicleIdChars();
-        sessions.addRemovalListener(latestJson::remove);
+        sessions.addRemovalListener(s -> latestJson.remove(s.vehicleId()));
     }
 
     void postSamples(Context ctx) {
@@ -295,6 +298,7 @@ final class VehicleRoutes {
                 SessionStats stats = s.stats();
                 g.writeNumberField("samples", stats.wheelSpeedApplied() + stats.yawRateApplied() + stats.gnssApplied()
                         + stats.referenceApplied());
+                filterEvents(g, stats.filter());
                 if (quarantined.isPresent()) {
                     // Its state is not to be trusted: no pose, only that it is held apart and why.
                     g.writeStringField("quarantined", quarantined.get());
@@ -327,6 +331,21 @@ final class VehicleRoutes {
             g.writeEndObject();
         });
         ctx.contentType("application/json").result(json);
+    }
+
+    /**
+     * The vehicle's filter counts as {@code filter_events}, one member per {@link FilterCounter} under its
+     * wire name, in the enum's order: the same names as the {@code event} label of
+     * {@code wayhold_filter_events_total}. They are the counts of the vehicle's timeline as the service
+     * holds it (restored with the session after a restart; a re-filtering after late samples may revise
+     * them), also for a quarantined vehicle, whose counts stop where its state was set apart.
+     */
+    private static void filterEvents(JsonGenerator g, FilterCounts counts) throws IOException {
+        g.writeObjectFieldStart("filter_events");
+        for (FilterCounter c : FilterCounter.values()) {
+            g.writeNumberField(c.wireName(), counts.get(c));
+        }
+        g.writeEndObject();
     }
 
     /** The vehicle's session; 404 when it has none, 503 when it is quarantined. */

@@ -4,6 +4,7 @@ import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
 import java.util.List;
+import org.wayhold.filter.FilterCounts;
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.geo.Geodetic;
 import org.wayhold.ordering.Admission;
@@ -77,6 +78,11 @@ public final class VehiclePipeline {
     /** The filter's newest estimate (times relative to {@link #epochT()}). */
     public FilterSnapshot snapshot() {
         return track.snapshot();
+    }
+
+    /** A copy of the filter's running counts (see {@link FilterCounts}). */
+    public FilterCounts filterCounts() {
+        return track.filterCounts();
     }
 
     /** The session epoch (s, vehicle clock), NaN before the first sample. */

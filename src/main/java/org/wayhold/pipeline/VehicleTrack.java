@@ -3,6 +3,7 @@ package org.wayhold.pipeline;
 import java.io.DataInput;
 import java.io.DataOutput;
 import java.io.IOException;
+import org.wayhold.filter.FilterCounts;
 import org.wayhold.filter.FilterSnapshot;
 import org.wayhold.filter.FilterState;
 import org.wayhold.filter.GnssOutcome;
@@ -257,6 +258,11 @@ public final class VehicleTrack {
     /** The filter's current estimate (times relative to {@link #epochT()}). */
     public FilterSnapshot snapshot() {
         return filter.snapshot();
+    }
+
+    /** A copy of the filter's running counts (see {@link FilterCounts}). */
+    public FilterCounts filterCounts() {
+        return filter.counts();
     }
 
     /** The pose of the current estimate; null before an epoch exists. */

@@ -75,7 +75,7 @@ public final class SessionRegistry {
     private final Clock clock;
     private final ConcurrentHashMap<String, Entry> sessions = new ConcurrentHashMap<>();
     private final AtomicLong serials = new AtomicLong();
-    private final List<Consumer<String>> removalListeners = new java.util.concurrent.CopyOnWriteArrayList<>();
+    private final List<Consumer<VehicleSession>> removalListeners = new java.util.concurrent.CopyOnWriteArrayList<>();
 
     /**
      * @param settings         settings of every session; {@code server.maxSessions} bounds the count
@@ -208,8 +208,8 @@ public final class SessionRegistry {
                 sessions.remove(vehicleId, entry);
             }
             entry.session().settleRetirement(true);
-            for (Consumer<String> l : removalListeners) {
-                l.accept(vehicleId);
+            for (Consumer<VehicleSession> l : removalListeners) {
+                l.accept(entry.session());
             }
             return true;
         }
@@ -224,8 +224,8 @@ public final class SessionRegistry {
             sessions.remove(entry.session().vehicleId(), entry);
         }
         entry.session().settleRetirement(true);
-        for (Consumer<String> l : removalListeners) {
-            l.accept(entry.session().vehicleId());
+        for (Consumer<VehicleSession> l : removalListeners) {
+            l.accept(entry.session());
         }
     }
 
@@ -250,14 +250,18 @@ public final class SessionRegistry {
         }
         removed.session().retire(() -> SessionLog.DONE);
         removed.session().settleRetirement(true);
-        for (Consumer<String> l : removalListeners) {
-            l.accept(vehicleId);
+        for (Consumer<VehicleSession> l : removalListeners) {
+            l.accept(removed.session());
         }
         return true;
     }
 
-    /** Called with the vehicle id after each {@link #remove}. */
-    public void addRemovalListener(Consumer<String> listener) {
+    /**
+     * Called with the dropped session after each removal ({@link #delete}, {@link #remove}, or a first
+     * batch that could not be written). The session takes no more writes by then, so what it holds is
+     * final.
+     */
+    public void addRemovalListener(Consumer<VehicleSession> listener) {
         removalListeners.add(listener);
     }
 

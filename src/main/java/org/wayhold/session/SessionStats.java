@@ -12,7 +12,7 @@ import org.wayhold.filter.FilterCounts;
  * @param duplicates        exact duplicates ignored
  * @param orderingRejected  samples rejected as too late or too far ahead
  * @param rewinds           times late samples made the session re-filter
- * @param filter            the filter's decisions on fixes
+ * @param filter            the filter's running counts: its decisions on fixes, repairs, widenings and resets
  * @param historySize       poses held in the history
  */
 public record SessionStats(long wheelSpeedApplied, long yawRateApplied, long gnssApplied, long referenceApplied,

@@ -616,14 +616,16 @@ public final class VehicleSession {
         }
     }
 
-    /** A consistent set of counters for metrics and the vehicle list. */
+    /**
+     * A consistent set of counters for metrics and the vehicle list: copied under the lock, nothing
+     * more (the filter's counts alone, not a whole snapshot of its estimate).
+     */
     public SessionStats stats() {
         synchronized (lock) {
             drainLocked();
-            FilterSnapshot s = pipeline.snapshot();
             return new SessionStats(pipeline.applied(SampleType.WHEEL_SPEED), pipeline.applied(SampleType.YAW_RATE),
-                    pipeline.applied(SampleType.GNSS), pipeline.applied(SampleType.REFERENCE), pipeline.duplicates(), pipeline.rejected(), pipeline.rewinds(), s.counts(),
-                    history.size());
+                    pipeline.applied(SampleType.GNSS), pipeline.applied(SampleType.REFERENCE), pipeline.duplicates(),
+                    pipeline.rejected(), pipeline.rewinds(), pipeline.filterCounts(), history.size());
         }
     }
 

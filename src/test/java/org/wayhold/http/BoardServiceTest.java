@@ -2,6 +2,10 @@ package org.wayhold.http;
 
 import static org.assertj.core.api.Assertions.assertThat;
 
+import com.atlassian.oai.validator.OpenApiInteractionValidator;
+import com.atlassian.oai.validator.model.Request;
+import com.atlassian.oai.validator.model.SimpleResponse;
+import com.atlassian.oai.validator.report.ValidationReport;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.BufferedReader;
@@ -11,6 +15,8 @@ import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
@@ -118,12 +124,36 @@ class BoardServiceTest {
         JsonNode newest = JSON.readTree(POSES.get(POSES.size() - 2));
         assertThat(v.get("vehicle").asText()).isEqualTo("bus-1");
         assertThat(v.get("samples").isNull()).isTrue();
+        // The poses carry no filter counts: present, and null.
+        assertThat(v.has("filter_events")).isTrue();
+        assertThat(v.get("filter_events").isNull()).isTrue();
         assertThat(v.get("state").asText()).isEqualTo(newest.get("state").asText());
         assertThat(v.get("t").asDouble()).isEqualTo(newest.get("t").asDouble());
         assertThat(v.get("radius95").asDouble()).isEqualTo(newest.get("radius95").asDouble());
         assertThat(v.get("outage_active").asBoolean()).isEqualTo(newest.get("outage").get("active").asBoolean());
         assertThat(v.get("received_at").asDouble()).isEqualTo(NOW_MS / 1000.0);
         assertThat(v.get("stale").asBoolean()).isFalse();
+    }
+
+    /**
+     * The read service's list satisfies the full service's schema in openapi.yaml, null counts and all
+     * (checked by swagger-request-validator, an outside OpenAPI 3.0 implementation); a count object
+     * that leaves out a counter does not.
+     */
+    @Test
+    void theListFollowsTheSpecOfTheFullService() throws Exception {
+        OpenApiInteractionValidator validator = OpenApiInteractionValidator.createForInlineApiSpecification(
+                Files.readString(Path.of("openapi.yaml"))).build();
+        HttpResponse<String> list = get("/v1/vehicles");
+        assertThat(validate(validator, list.body()).getMessages()).as(list.body()).isEmpty();
+        String partial = list.body().replace("\"filter_events\":null", "\"filter_events\":{\"fixes_used\":3}");
+        assertThat(partial).isNotEqualTo(list.body());
+        assertThat(validate(validator, partial).hasErrors()).as("a count object without every counter").isTrue();
+    }
+
+    private static ValidationReport validate(OpenApiInteractionValidator validator, String body) {
+        return validator.validateResponse("/v1/vehicles", Request.Method.GET, SimpleResponse.Builder.ok()
+                .withContentType("application/json").withBody(body).build());
     }
 
     @Test

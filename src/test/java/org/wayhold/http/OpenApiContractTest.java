@@ -25,6 +25,7 @@ import java.util.Map;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
+import org.wayhold.filter.FilterCounter;
 import org.wayhold.sample.Sample;
 
 /**
@@ -161,6 +162,37 @@ class OpenApiContractTest {
         ValidationReport clean = validator.validateResponse("/v1/vehicles/" + CAR + "/pose", Request.Method.GET,
                 SimpleResponse.Builder.ok().withContentType("application/json").withBody(pose).build());
         assertThat(clean.hasErrors()).as(clean.getMessages().toString()).isFalse();
+    }
+
+    /**
+     * The vehicle list's {@code filter_events} names every {@link FilterCounter} under its wire name, in
+     * the enum's order, and requires them all; a live list passes and one with a counter renamed does not.
+     */
+    @Test
+    void theFilterEventsOfTheListAreTheFiltersCountersByTheirWireNames() {
+        JsonNode events = spec.at("/components/schemas/VehicleSummary/properties/filter_events");
+        List<String> wireNames = new ArrayList<>();
+        for (FilterCounter c : FilterCounter.values()) {
+            wireNames.add(c.wireName());
+        }
+        List<String> described = new ArrayList<>();
+        events.get("properties").fieldNames().forEachRemaining(described::add);
+        List<String> required = new ArrayList<>();
+        events.get("required").forEach(n -> required.add(n.asText()));
+        assertThat(described).isEqualTo(wireNames);
+        assertThat(required).isEqualTo(wireNames);
+
+        String list = server.get("/v1/vehicles").body();
+        assertThat(LiveServer.json(server.get("/v1/vehicles")).at("/vehicles/0/filter_events").size())
+                .isEqualTo(wireNames.size());
+        ValidationReport clean = validator.validateResponse("/v1/vehicles", Request.Method.GET,
+                SimpleResponse.Builder.ok().withContentType("application/json").withBody(list).build());
+        assertThat(clean.hasErrors()).as(clean.getMessages().toString()).isFalse();
+        String renamed = list.replace("\"fixes_gated\":", "\"gated_fixes\":");
+        assertThat(renamed).isNotEqualTo(list);
+        assertThat(validator.validateResponse("/v1/vehicles", Request.Method.GET, SimpleResponse.Builder.ok()
+                .withContentType("application/json").withBody(renamed).build()).hasErrors())
+                .as("a renamed counter must be caught").isTrue();
     }
 
     @Test

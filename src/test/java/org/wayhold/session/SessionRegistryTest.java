@@ -54,7 +54,7 @@ class SessionRegistryTest {
     void sessionsAreListedByIdAndRemovalsAreAnnounced() {
         SessionRegistry r = new SessionRegistry(withMaxSessions(10), null);
         List<String> removed = new ArrayList<>();
-        r.addRemovalListener(removed::add);
+        r.addRemovalListener(s -> removed.add(s.vehicleId()));
         r.getOrCreate("b");
         r.getOrCreate("a");
         r.getOrCreate("c");
