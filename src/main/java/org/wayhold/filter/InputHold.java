@@ -10,9 +10,8 @@ import org.wayhold.filter.FilterState.Slot;
  * not, and its noise telescopes over consecutive steps (the weights 1.5 and -0.5 of two readings sum
  * to 1), so the integrated noise is that of holding.
  *
- * <p>A stream that stops for longer than {@link #GAP_FACTOR} of its usual interval (and at least
- * {@link #GAP_MIN_S}) is interrupted: its last reading is held, and {@link ProcessNoise} lets the
- * uncertainty grow with the reading's age.
+ * <p>A stream that stops for longer than {@link OdometryInterruption} allows is interrupted: its last
+ * reading is held, and {@link ProcessNoise} lets the uncertainty grow with the reading's age.
  */
 final class InputHold {
 
@@ -23,10 +22,6 @@ final class InputHold {
      * {@link FilterState#WHEEL_MARKS} spans two speed windows at any reading rate.
      */
     static final double MARK_SPACING_S = 0.04;
-    /** A stream is interrupted when its newest reading is older than this many usual intervals. */
-    static final double GAP_FACTOR = 3.0;
-    /** ... and older than this (s): jitter of a few tens of milliseconds is no gap. */
-    static final double GAP_MIN_S = 0.3;
     private InputHold() {
     }
 
@@ -161,13 +156,12 @@ final class InputHold {
     }
 
     private static double interval(double newestT, double previousT, double nominalS) {
-        double dt = newestT - previousT;
-        return dt > 0.0 ? dt : nominalS;
+        return OdometryInterruption.usualIntervalS(newestT, previousT, nominalS);
     }
 
     private static double gap(double tRel, double newestT, double intervalS) {
         double age = tRel - newestT;
-        return age > Math.max(GAP_FACTOR * intervalS, GAP_MIN_S) ? age : 0.0;
+        return OdometryInterruption.interrupted(age, intervalS) ? age : 0.0;
     }
 
     /**

@@ -74,8 +74,8 @@ final class ProcessNoise {
         this.scaleWalk2 = rwScale * rwScale;
         double rwGyroScale = settings.gyroScaleRandomWalkPerSqrtS();
         this.gyroScaleWalk2 = rwGyroScale * rwGyroScale;
-        this.wheelNominalIntervalS = 1.0 / settings.wheelSpeedRateHz();
-        this.yawRateNominalIntervalS = 1.0 / settings.gyroRateHz();
+        this.wheelNominalIntervalS = OdometryInterruption.wheelSpeedNominalIntervalS(settings);
+        this.yawRateNominalIntervalS = OdometryInterruption.yawRateNominalIntervalS(settings);
         this.tyreGrowth = settings.rollingRadiusGrowthAt30Mps();
     }
 

@@ -18,7 +18,7 @@ public final class CsvReport {
             + "final_error_m,max_error_m,error_pct,inside95,end_lat,end_lon,ref_lat,ref_lon,time_to_limit_s,"
             + "time_to_unreliable_s,warned_late,mean_nees,final_nees,along_track_error_m,cross_track_error_m,"
             + "evaluations,smoothed_final_error_m,smoothed_max_error_m,smoothed_inside95,smoothed_mean_nees,"
-            + "smoothed_fixes_after,gap_fill_ratio";
+            + "smoothed_fixes_after,gap_fill_ratio,odometry_gap_s";
 
     private CsvReport() {
     }
@@ -38,7 +38,8 @@ public final class CsvReport {
                         f(r.meanNees(), 4), f(r.finalNees(), 4), f(r.alongTrackErrorM(), 4),
                         f(r.crossTrackErrorM(), 4), Integer.toString(r.evaluations()), f(r.smoothedFinalErrorM(), 4),
                         f(r.smoothedMaxErrorM(), 4), f(r.smoothedInside95(), 4), f(r.smoothedMeanNees(), 4),
-                        Integer.toString(r.smoothedFixesAfter()), f(r.gapFillRatio(), 4)));
+                        Integer.toString(r.smoothedFixesAfter()), f(r.gapFillRatio(), 4),
+                        f(r.odometryGapS(), td)));
                 w.write("\r\n");
             }
         }

@@ -8,9 +8,11 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.jfree.data.xy.XYSeries;
+import org.wayhold.filter.OdometryInterruption;
 import org.wayhold.scoring.InputFile;
 import org.wayhold.scoring.InterpolatedTrack;
 import org.wayhold.scoring.LengthSummary;
+import org.wayhold.scoring.OdometryGap;
 import org.wayhold.scoring.OutageReplay;
 import org.wayhold.scoring.ScoringRun;
 import org.wayhold.scoring.UnscoredWindow;
@@ -139,7 +141,12 @@ public final class HtmlReport {
         ScoringRun.Options o = m.options();
         b.append("<p>Error measured against ").append(esc(describe(m.referenceKind()))).append(". ");
         b.append(String.format(Locale.ROOT, "Outage lengths %s s; %s; each window starts after at least %s s of "
-                        + "aided filtering and overlaps no real gap in the fixes. ",
+                        + "aided filtering and overlaps no real gap in the fixes and no odometry gap (a wheel-speed "
+                        + "or yaw-rate stream silent for longer than the filter allows, the poses' "
+                        + "<code>odometry_interrupted</code>, or not yet begun): over one, dead reckoning would "
+                        + "measure the missing readings. Real gaps in the fixes are scored whole all the same; "
+                        + "where the odometry was silent inside one, the windows table gives those seconds "
+                        + "(odometry silent) and that row's error owes to the missing readings too. ",
                 lengths(o.schedule().lengthsS()), o.schedule().perLength() == 0
                         ? String.format(Locale.ROOT, "one window of each length every %s s after the first %s s",
                         g(o.schedule().everyS()), g(o.schedule().skipS()))
@@ -256,7 +263,7 @@ public final class HtmlReport {
                 + "<th>final error [m]</th><th>max error [m]</th><th>error [% of distance]</th><th>inside 95%</th>"
                 + "<th>along [m]</th><th>across [m]</th><th>time to limit [s]</th><th>warned late</th>"
                 + "<th>smoothed max error [m]</th><th>smoothed inside 95%</th><th>fixes after</th>"
-                + "<th>gap-fill ratio</th></tr>\n");
+                + "<th>gap-fill ratio</th><th>odometry silent [s]</th></tr>\n");
         for (OutageRow r : m.rows()) {
             b.append("<tr><td class=\"l\">").append(esc(r.log())).append("</td>");
             if (m.comparing()) {
@@ -271,7 +278,7 @@ public final class HtmlReport {
                     .append(td(f(r.timeToLimitS(), dd))).append(td(r.warnedLate() ? "yes" : "no"))
                     .append(td(f(r.smoothedMaxErrorM(), 2))).append(td(f(r.smoothedInside95(), 2)))
                     .append(td(Integer.toString(r.smoothedFixesAfter()))).append(td(f(r.gapFillRatio(), 3)))
-                    .append("</tr>\n");
+                    .append(td(f(r.odometryGapS(), r.timeDecimals()))).append("</tr>\n");
         }
         b.append("</table>\n</details>\n</section>\n");
     }
@@ -304,7 +311,30 @@ public final class HtmlReport {
                         .append("<td class=\"l\">").append(esc(u.reason().words())).append("</td></tr>\n");
             }
         }
-        b.append("</table>\n</section>\n");
+        b.append("</table>\n");
+        odometryGapTable(b, m);
+        b.append("</section>\n");
+    }
+
+    /** The odometry gaps of every log, when there are any: where windows could not go. */
+    private static void odometryGapTable(StringBuilder b, ReportModel m) {
+        if (m.logs().stream().allMatch(l -> l.odometryGaps().isEmpty())) {
+            return;
+        }
+        b.append("<h3 id=\"odometry-gaps\">Odometry gaps</h3>\n<p>Stretches where a wheel-speed or yaw-rate "
+                + "stream was silent for longer than the filter allows (more than " + g(OdometryInterruption.GAP_FACTOR)
+                + " of its usual intervals and more than " + g(OdometryInterruption.GAP_MIN_S) + " s), from its last "
+                + "reading before to its first after; or where it had not begun or had ended.</p>\n<table>\n<tr><th class=\"l\">log</th><th class=\"l\">stream</th>"
+                + "<th>start after log start [s]</th><th>length [s]</th></tr>\n");
+        for (ScoringRun.LogScores l : m.logs()) {
+            for (OdometryGap g : l.odometryGaps()) {
+                b.append("<tr><td class=\"l\">").append(esc(l.name())).append("</td><td class=\"l\">")
+                        .append(esc(g.stream().wireName())).append("</td>")
+                        .append(td(f(g.startT() - l.startT(), l.timeDecimals())))
+                        .append(td(f(g.lengthS(), l.timeDecimals()))).append("</tr>\n");
+            }
+        }
+        b.append("</table>\n");
     }
 
     /** Most logs drawn with a curve of their own in the drift plot: beyond it the plot turns to a tangle. */

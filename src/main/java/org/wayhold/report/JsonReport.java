@@ -13,6 +13,7 @@ import java.nio.file.Path;
 import org.wayhold.config.ConfigLoader;
 import org.wayhold.scoring.InputFile;
 import org.wayhold.scoring.LengthSummary;
+import org.wayhold.scoring.OdometryGap;
 import org.wayhold.scoring.ScoringRun;
 import org.wayhold.scoring.TimeSpan;
 import org.wayhold.scoring.UnscoredWindow;
@@ -28,7 +29,10 @@ import org.wayhold.scoring.WindowScore;
  * (one entry per scored window), {@code summary} (per outage length, all logs pooled),
  * {@code summary_by_log}, {@code comparison} (with several configurations), {@code unscored_windows}
  * (every planned window that was not scored, with the reason), {@code config} and {@code configs} (the
- * settings used, loadable with {@code --config}), {@code options} and {@code logs}.
+ * settings used, loadable with {@code --config}), {@code options} and {@code logs} (each with its real
+ * gaps in the fixes, its odometry gaps and its notes). An outage entry's {@code odometry_gap_s} is the
+ * seconds of it in which a wheel-speed or yaw-rate stream was silent: 0 for simulated windows, which
+ * are never placed over an odometry gap; above 0 a real gap's error owes to the missing readings too.
  *
  * <p>Apart from {@code report.date} the output depends only on the inputs and options: fields in a
  * fixed order and numbers rounded to fixed decimals (metres to 0.1 mm, degrees to 1e-9, about 0.1 mm),
@@ -125,6 +129,7 @@ public final class JsonReport {
             num(o, "smoothed_mean_nees", r.smoothedMeanNees(), 4);
             o.put("smoothed_fixes_after", r.smoothedFixesAfter());
             num(o, "gap_fill_ratio", r.gapFillRatio(), 4);
+            num(o, "odometry_gap_s", r.odometryGapS(), td);
         }
         ArrayNode summary = root.putArray("summary");
         m.summaries().forEach((config, list) -> {
@@ -201,6 +206,14 @@ public final class JsonReport {
             for (TimeSpan g : l.gaps()) {
                 ObjectNode go = gaps.addObject();
                 num(go, "start_t", g.startT(), td);
+                num(go, "length_s", g.lengthS(), td);
+            }
+            ArrayNode odometryGaps = o.putArray("odometry_gaps");
+            for (OdometryGap g : l.odometryGaps()) {
+                ObjectNode go = odometryGaps.addObject();
+                go.put("stream", g.stream().wireName());
+                num(go, "start_t", g.startT(), td);
+                num(go, "start_offset_s", g.startT() - l.startT(), td);
                 num(go, "length_s", g.lengthS(), td);
             }
             o.put("windows_planned", l.plan().windows().size() + l.plan().skipped());

@@ -35,6 +35,9 @@ package org.wayhold.report;
  * @param smoothedMeanNees    mean NEES of the smoothed gap fill (unitless)
  * @param smoothedFixesAfter  fixes after the window the smoother used (count)
  * @param gapFillRatio        smoothed largest error over the forward final error (unitless)
+ * @param odometryGapS        seconds of the window in which a wheel-speed or yaw-rate stream was silent
+ *                            (an odometry gap); always 0 for a simulated window, which is never placed
+ *                            over one; above 0 a real gap's error owes to the missing readings too
  * @param timeDecimals      decimals of the log's own times, the precision its times are given in
  */
 public record OutageRow(String log, String config, String kind, String reference, double startT, double startOffsetS,
@@ -43,7 +46,8 @@ public record OutageRow(String log, String config, String kind, String reference
                         double timeToLimitS, double timeToUnreliableS, boolean warnedLate, double meanNees,
                         double finalNees, double alongTrackErrorM, double crossTrackErrorM, int evaluations,
                         double smoothedFinalErrorM, double smoothedMaxErrorM, double smoothedInside95,
-                        double smoothedMeanNees, int smoothedFixesAfter, double gapFillRatio, int timeDecimals) {
+                        double smoothedMeanNees, int smoothedFixesAfter, double gapFillRatio, double odometryGapS,
+                        int timeDecimals) {
 
     public static final String SIMULATED = "simulated";
     public static final String REAL_GAP = "real_gap";

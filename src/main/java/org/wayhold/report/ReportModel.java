@@ -122,7 +122,7 @@ public record ReportModel(List<ScoringRun.LogScores> logs, List<ScoringRun.Named
                 endLon, refLat, refLon, w.timeToLimitS(), w.timeToUnreliableS(), w.warnedLate(), w.meanNees(),
                 w.finalNees(), w.alongTrackErrorM(), w.crossTrackErrorM(), w.samples(), w.smoothed().finalErrorM(),
                 w.smoothed().maxErrorM(), w.smoothed().inside95(), w.smoothed().meanNees(), w.smoothed().fixesAfter(),
-                w.gapFillRatio(), log.timeDecimals());
+                w.gapFillRatio(), log.odometryGapS(w.window()), log.timeDecimals());
     }
 
     /** Simulated windows scored, over all logs and configurations (count). */

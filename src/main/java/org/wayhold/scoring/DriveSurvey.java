@@ -24,6 +24,9 @@ import org.wayhold.settings.VehicleProfile;
  * {@link OutageReplay#run} branches from. It is kept only where the filter has been aided for at least
  * {@code minAidedS}; states at the extra times (the starts of real gaps) are kept whatever the state.
  *
+ * <p>The survey also finds the log's odometry gaps ({@link OdometryGaps}, under this configuration's
+ * reading rates), where a simulated outage would measure missing readings rather than dead reckoning.
+ *
  * <p>The navigation state is classified as the service does ({@link PoseAssembler}) just before and
  * just after each fix and at each grid time, so a run of {@code aided} is broken by any gap in the
  * fixes, however short the grid misses it by.
@@ -36,15 +39,17 @@ public final class DriveSurvey {
     private final double[] extraTimes;
     private final VehicleTrack[] extraStates;
     private final List<TimeSpan> aidedSpans;
+    private final List<OdometryGap> odometryGaps;
 
     private DriveSurvey(double gridStartT, double gridStepS, VehicleTrack[] gridStates, double[] extraTimes,
-                        VehicleTrack[] extraStates, List<TimeSpan> aidedSpans) {
+                        VehicleTrack[] extraStates, List<TimeSpan> aidedSpans, List<OdometryGap> odometryGaps) {
         this.gridStartT = gridStartT;
         this.gridStepS = gridStepS;
         this.gridStates = gridStates;
         this.extraTimes = extraTimes;
         this.extraStates = extraStates;
         this.aidedSpans = List.copyOf(aidedSpans);
+        this.odometryGaps = List.copyOf(odometryGaps);
     }
 
     /**
@@ -113,7 +118,13 @@ public final class DriveSurvey {
         }
         progress.samplesDone(unreported);
         aided.close();
-        return new DriveSurvey(gridStartT, gridStepS, grid, extraTimes.clone(), extra, aided.spans);
+        return new DriveSurvey(gridStartT, gridStepS, grid, extraTimes.clone(), extra, aided.spans,
+                OdometryGaps.find(samples, settings.filter()));
+    }
+
+    /** Where a wheel-speed or yaw-rate stream was silent ({@link OdometryGaps}), by start time. */
+    public List<OdometryGap> odometryGaps() {
+        return odometryGaps;
     }
 
     /** Runs of the {@code aided} state as observed (s, vehicle clock), in time order. */

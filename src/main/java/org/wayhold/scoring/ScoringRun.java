@@ -33,6 +33,13 @@ import org.wayhold.settings.Settings;
  * scored too, each from just after its last fix to its first fix after. At most {@code threads + 1}
  * logs are held in memory at once.
  *
+ * <p>Odometry gaps ({@link OdometryGaps}: a wheel-speed or yaw-rate stream silent for longer than the
+ * filter allows, as found by each configuration's survey) keep simulated windows off them, like real
+ * gaps in the fixes: dead reckoning over missing readings measures the missing readings. A real gap in
+ * the fixes that contains one is still scored, because it is what the vehicle went through, but its
+ * row says for how many of its seconds the odometry was silent (reports: {@code odometry_gap_s}); it
+ * never enters the summaries, which hold simulated windows only.
+ *
  * <p>The result does not depend on the number of threads or on timing: each task is deterministic and
  * the results are put in the order of the logs and configurations given.
  */
@@ -207,6 +214,8 @@ public final class ScoringRun {
      * @param reference what the error was measured against
      * @param track     the reference as interpolated
      * @param gaps      its real GNSS gaps
+     * @param odometryGaps where its wheel-speed or yaw-rate stream was silent, in any configuration's
+     *                  survey, by start time
      * @param plan      the simulated windows
      * @param configs   scores per configuration, in the order given
      * @param notes     the reader's notes
@@ -215,9 +224,18 @@ public final class ScoringRun {
      *                  precision a report gives its times in
      */
     public record LogScores(String name, int index, int samples, double startT, double endT, LocalFrame frame,
-                            ReferenceKind reference, InterpolatedTrack track, List<TimeSpan> gaps, WindowPlan plan,
-                            List<ConfigScores> configs, List<String> notes, List<InputFile> inputs,
-                            int timeDecimals) {
+                            ReferenceKind reference, InterpolatedTrack track, List<TimeSpan> gaps,
+                            List<OdometryGap> odometryGaps, WindowPlan plan, List<ConfigScores> configs,
+                            List<String> notes, List<InputFile> inputs, int timeDecimals) {
+
+        public LogScores {
+            odometryGaps = List.copyOf(odometryGaps);
+        }
+
+        /** Seconds of the window in which the odometry was silent (an odometry gap covered it). */
+        public double odometryGapS(OutageWindow w) {
+            return OdometryGaps.silentS(odometryGaps, w.startT(), w.endT());
+        }
 
         /**
          * Every planned window that was not scored, with the reason: those the plan left out, then those
@@ -310,9 +328,14 @@ public final class ScoringRun {
         return CompletableFuture.allOf(surveys.toArray(CompletableFuture[]::new)).thenCompose(done -> {
             List<DriveSurvey> ss = surveys.stream().map(CompletableFuture::join).toList();
             int gridCount = ss.get(0).gridCount();
+            List<OdometryGap> odometryGaps = union(ss);
+            List<String> notes = new ArrayList<>(p.notes);
+            if (!odometryGaps.isEmpty()) {
+                notes.add(odometryNote(odometryGaps, p.startT, p.timeDecimals));
+            }
             WindowPlan plan = WindowPlan.choose(options.schedule(),
                     new WindowPlan.Log(p.startT, GRID_STEP_S, gridCount, p.firstFixT, p.lastFixT, p.gaps,
-                            k -> ss.stream().allMatch(s -> s.startAllowed(k))), index);
+                            odometryGaps, k -> ss.stream().allMatch(s -> s.startAllowed(k))), index);
             List<CompletableFuture<ConfigScores>> scored = new ArrayList<>();
             for (int c = 0; c < configs.size(); c++) {
                 NamedSettings cfg = configs.get(c);
@@ -325,9 +348,42 @@ public final class ScoringRun {
             }
             return CompletableFuture.allOf(scored.toArray(CompletableFuture[]::new)).thenApply(d2 ->
                     new LogScores(log.name(), index, p.samples.size(), p.startT, p.endT, p.frame, p.kind, p.track,
-                            p.gaps, plan, scored.stream().map(CompletableFuture::join).toList(), p.notes,
+                            p.gaps, odometryGaps, plan, scored.stream().map(CompletableFuture::join).toList(), notes,
                             log.inputs(), p.timeDecimals));
         });
+    }
+
+    /** The odometry gaps of every configuration's survey, each once, by start time. */
+    private static List<OdometryGap> union(List<DriveSurvey> surveys) {
+        java.util.LinkedHashSet<OdometryGap> all = new java.util.LinkedHashSet<>();
+        for (DriveSurvey s : surveys) {
+            all.addAll(s.odometryGaps());
+        }
+        List<OdometryGap> out = new ArrayList<>(all);
+        out.sort(Comparator.comparingDouble(OdometryGap::startT).thenComparing(OdometryGap::stream)
+                .thenComparingDouble(OdometryGap::endT));
+        return out;
+    }
+
+    /** The note a log with odometry gaps carries: how many, how long, the longest, and what was done. */
+    static String odometryNote(List<OdometryGap> gaps, double logStartT, int timeDecimals) {
+        OdometryGap longest = gaps.get(0);
+        for (OdometryGap g : gaps) {
+            if (g.lengthS() > longest.lengthS()) {
+                longest = g;
+            }
+        }
+        String format = "%." + timeDecimals + "f";
+        return String.format(java.util.Locale.ROOT, "%d odometry %s (a wheel-speed or yaw-rate stream silent for"
+                        + " longer than the filter allows, the poses' odometry_interrupted; or not yet begun), %s s"
+                        + " in all, the longest %s s of %s from %s s after the log's start: planned windows over"
+                        + " them are not scored (overlaps_odometry_gap); a real gap in the fixes that contains one"
+                        + " is scored and gives the silent seconds as odometry_gap_s",
+                gaps.size(), gaps.size() == 1 ? "gap" : "gaps",
+                String.format(java.util.Locale.ROOT, format, OdometryGaps.silentS(gaps, Double.NEGATIVE_INFINITY,
+                        Double.POSITIVE_INFINITY)),
+                String.format(java.util.Locale.ROOT, format, longest.lengthS()), longest.stream().wireName(),
+                String.format(java.util.Locale.ROOT, format, longest.startT() - logStartT));
     }
 
     private static ConfigScores scoreConfig(Prepared p, NamedSettings cfg, DriveSurvey survey, WindowPlan plan,

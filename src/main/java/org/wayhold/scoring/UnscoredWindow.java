@@ -39,6 +39,12 @@ public record UnscoredWindow(double startT, double lengthS, Reason reason, int c
         BEFORE_FIRST_FIX("it would start before the log's first GNSS fix"),
         /** It overlaps a real gap in the fixes, whose error could not be told from the simulated one's. */
         OVERLAPS_REAL_GAP("it overlaps a real gap in the log's fixes"),
+        /**
+         * It overlaps an odometry gap ({@link OdometryGaps}): dead reckoning over it would measure the
+         * missing wheel-speed or yaw-rate readings, not the odometry.
+         */
+        OVERLAPS_ODOMETRY_GAP("it overlaps a stretch where the wheel-speed or yaw-rate readings stopped "
+                + "(odometry_interrupted) or had not begun"),
         /** The filter had not been aided for the minimum time at its start (in every configuration). */
         NOT_AIDED_LONG_ENOUGH("the filter had not been aided for the minimum time (--min-aided) at its start"),
         /** The reference trajectory has a hole at its start or end. */

@@ -13,7 +13,8 @@ import java.util.function.IntPredicate;
  * <p>Starts lie on a grid (one start state per grid time is kept by {@link DriveSurvey}). A window may
  * start at grid time c with length L when: c is at least {@code skipS} after the grid's start; the
  * filter had been aided for the minimum time at c in every configuration compared (the caller's
- * predicate); [c, c + L] lies between the first and last fix and overlaps no real gap.
+ * predicate); [c, c + L] lies between the first and last fix and overlaps no real gap in the fixes and
+ * no odometry gap (a wheel-speed or yaw-rate stream silent, {@link OdometryGaps}).
  *
  * <p>Fixed schedule: one window of each length at every {@code everyS} from the skip; a window that is
  * not allowed is left out and listed with its reason. Random: {@code perLength} distinct allowed starts
@@ -94,11 +95,17 @@ public record WindowPlan(List<OutageWindow> windows, List<UnscoredWindow> unscor
      * @param gridCount  number of grid times
      * @param firstFixT  first fix (s)
      * @param lastFixT   last fix (s)
-     * @param gaps       real gaps
+     * @param gaps       real gaps in the fixes
+     * @param odometryGaps stretches where a wheel-speed or yaw-rate stream was silent
      * @param allowed    whether the filter state allows a start at grid index k in every configuration
      */
     public record Log(double gridStartT, double gridStepS, int gridCount, double firstFixT, double lastFixT,
-                      List<TimeSpan> gaps, IntPredicate allowed) {
+                      List<TimeSpan> gaps, List<OdometryGap> odometryGaps, IntPredicate allowed) {
+
+        public Log {
+            gaps = List.copyOf(gaps);
+            odometryGaps = List.copyOf(odometryGaps);
+        }
     }
 
     /**
@@ -167,8 +174,8 @@ public record WindowPlan(List<OutageWindow> windows, List<UnscoredWindow> unscor
 
     /**
      * Why a window of length {@code len} may not start at grid time {@code k}, or null when it may. The
-     * first reason that applies is given, data before filter: past the fixes, then a real gap, then the
-     * filter's aided time.
+     * first reason that applies is given, data before filter: past the fixes, then a real gap in the
+     * fixes, then an odometry gap, then the filter's aided time.
      */
     private static UnscoredWindow.Reason refusal(Log log, int k, double len) {
         double start = log.gridStartT() + k * log.gridStepS();
@@ -183,6 +190,9 @@ public record WindowPlan(List<OutageWindow> windows, List<UnscoredWindow> unscor
             if (g.overlaps(start, end)) {
                 return UnscoredWindow.Reason.OVERLAPS_REAL_GAP;
             }
+        }
+        if (OdometryGaps.anyOverlaps(log.odometryGaps(), start, end)) {
+            return UnscoredWindow.Reason.OVERLAPS_ODOMETRY_GAP;
         }
         if (!log.allowed().test(k)) {
             return UnscoredWindow.Reason.NOT_AIDED_LONG_ENOUGH;

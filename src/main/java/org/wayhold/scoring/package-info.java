@@ -8,7 +8,8 @@
  *
  * <p>Flow of an offline scoring ({@link org.wayhold.scoring.ScoringRun}): survey each log once per
  * configuration ({@link org.wayhold.scoring.DriveSurvey}: aided runs and saved filter states on a 1 s
- * grid), choose windows clear of real gaps ({@link org.wayhold.scoring.WindowPlan}), score them from the
+ * grid, and the log's odometry gaps), choose windows clear of real gaps in the fixes and of odometry gaps
+ * ({@link org.wayhold.scoring.WindowPlan}), score them from the
  * saved states ({@link org.wayhold.scoring.OutageReplay#runFrom}), sum them up per length
  * ({@link org.wayhold.scoring.LengthSummary}, R-7 quantiles in {@link org.wayhold.scoring.Quantiles}).
  */

@@ -30,7 +30,8 @@ class ScoringRunTest {
                 startT, 1.0, 30, new double[0], TrackOutput.NONE, ProgressListener.NONE);
         WindowPlan plan = WindowPlan.choose(new WindowPlan.Schedule(LENGTHS, 0, 20, 0, 0),
                 new WindowPlan.Log(startT, 1.0, survey.gridCount(), GnssGaps.firstFixT(samples),
-                        GnssGaps.lastFixT(samples), GnssGaps.find(samples, 1.5), survey::startAllowed), 0);
+                        GnssGaps.lastFixT(samples), GnssGaps.find(samples, 1.5), survey.odometryGaps(),
+                        survey::startAllowed), 0);
         assertThat(plan.windows()).hasSizeGreaterThan(10);
         List<OutageReplay.Start> starts = new ArrayList<>();
         for (OutageWindow w : plan.windows()) {

@@ -4,17 +4,18 @@ import static org.assertj.core.api.Assertions.assertThat;
 
 import java.util.List;
 import org.junit.jupiter.api.Test;
+import org.wayhold.sample.SampleType;
 
 /**
  * The plan gives every window it leaves out a reason: past the last fix, before the first, over a real
- * gap, or without enough aided time; a random schedule short of starts says how many. Hand cases on a
- * grid of one second from t = 0: fixes from 5 s to 100 s, a real gap from 40 s to 50 s, the filter
- * not aided long enough before 10 s.
+ * gap in the fixes or an odometry gap, or without enough aided time; a random schedule short of starts
+ * says how many. Hand cases on a grid of one second from t = 0: fixes from 5 s to 100 s, a real gap
+ * from 40 s to 50 s, the filter not aided long enough before 10 s.
  */
 class WindowPlanReasonsTest {
 
     private static final WindowPlan.Log LOG = new WindowPlan.Log(0.0, 1.0, 121, 5.0, 100.0,
-            List.of(new TimeSpan(40.0, 50.0)), k -> k >= 10);
+            List.of(new TimeSpan(40.0, 50.0)), List.of(), k -> k >= 10);
 
     private static UnscoredWindow.Reason reasonAt(WindowPlan plan, double startT, double lengthS) {
         return plan.unscored().stream().filter(u -> u.startT() == startT && u.lengthS() == lengthS)
@@ -38,10 +39,31 @@ class WindowPlanReasonsTest {
 
     @Test
     void theAidedTimeIsAReasonOfItsOwn() {
-        WindowPlan.Log late = new WindowPlan.Log(0.0, 1.0, 121, 0.0, 100.0, List.of(), k -> k >= 25);
+        WindowPlan.Log late = new WindowPlan.Log(0.0, 1.0, 121, 0.0, 100.0, List.of(), List.of(), k -> k >= 25);
         WindowPlan plan = WindowPlan.choose(new WindowPlan.Schedule(new double[] {5}, 0, 10, 0, 0), late, 0);
         assertThat(reasonAt(plan, 10.0, 5)).isEqualTo(UnscoredWindow.Reason.NOT_AIDED_LONG_ENOUGH);
         assertThat(plan.windows()).contains(new OutageWindow(30.0, 5));
+    }
+
+    /**
+     * An odometry gap from 62.98 s to 66.0 s (a 3 s wheel-speed silence): the 10 s windows at 60 and
+     * 65 s lie over it, those at 50 s (ends 60 s) and 70 s do not. Over a real gap as well, a window
+     * gives the real gap as its reason (data in the order of the plan: fixes first).
+     */
+    @Test
+    void aWindowOverAnOdometryGapIsLeftOutWithAReasonOfItsOwn() {
+        WindowPlan.Log log = new WindowPlan.Log(0.0, 1.0, 121, 5.0, 100.0, List.of(new TimeSpan(40.0, 50.0)),
+                List.of(new OdometryGap(SampleType.WHEEL_SPEED, 62.98, 66.0),
+                        new OdometryGap(SampleType.YAW_RATE, 44.0, 45.0)), k -> k >= 10);
+        WindowPlan plan = WindowPlan.choose(new WindowPlan.Schedule(new double[] {10}, 0, 5, 0, 0), log, 0);
+        assertThat(reasonAt(plan, 60.0, 10)).isEqualTo(UnscoredWindow.Reason.OVERLAPS_ODOMETRY_GAP);
+        assertThat(reasonAt(plan, 65.0, 10)).isEqualTo(UnscoredWindow.Reason.OVERLAPS_ODOMETRY_GAP);
+        assertThat(plan.windows()).contains(new OutageWindow(50.0, 10), new OutageWindow(70.0, 10));
+        assertThat(reasonAt(plan, 40.0, 10)).isEqualTo(UnscoredWindow.Reason.OVERLAPS_REAL_GAP);
+        assertThat(UnscoredWindow.Reason.OVERLAPS_ODOMETRY_GAP.code()).isEqualTo("overlaps_odometry_gap");
+        // A random schedule draws only from starts clear of it.
+        WindowPlan random = WindowPlan.choose(new WindowPlan.Schedule(new double[] {10}, 0, 5, 40, 3L), log, 0);
+        assertThat(random.windows()).isNotEmpty().noneMatch(w -> w.startT() + 10 > 62.98 && w.startT() < 66.0);
     }
 
     @Test
