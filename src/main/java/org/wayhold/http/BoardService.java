@@ -436,11 +436,7 @@ public final class BoardService implements AutoCloseable {
 
     /** {@code http://host:port} of the bound connector. */
     public String baseUrl() {
-        String host = server.bind();
-        if (host.contains(":") && !host.startsWith("[")) {
-            host = "[" + host + "]";
-        }
-        return "http://" + host + ":" + port();
+        return ServerWiring.baseUrl(server, port());
     }
 
     @Override

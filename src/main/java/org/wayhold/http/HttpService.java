@@ -317,11 +317,7 @@ public final class HttpService implements AutoCloseable {
 
     /** {@code http://host:port} of the bound connector. */
     public String baseUrl() {
-        String host = server.bind();
-        if (host.contains(":") && !host.startsWith("[")) {
-            host = "[" + host + "]";
-        }
-        return "http://" + host + ":" + port();
+        return ServerWiring.baseUrl(server, port());
     }
 
     /** Every registered route as {@code "METHOD /path/{param}"}, in registration order. */

@@ -87,4 +87,13 @@ final class ServerWiring {
         }
         config.routes.before(tokens::check);
     }
+
+    /** {@code http://host:port} of a bound connector; an IPv6 host in brackets (RFC 3986, 3.2.2). */
+    static String baseUrl(ServerSettings server, int port) {
+        String host = server.bind();
+        if (host.contains(":") && !host.startsWith("[")) {
+            host = "[" + host + "]";
+        }
+        return "http://" + host + ":" + port;
+    }
 }
