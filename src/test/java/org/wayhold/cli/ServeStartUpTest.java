@@ -15,12 +15,12 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
-import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.wayhold.journal.Journal;
 import org.wayhold.sample.Sample;
 import org.wayhold.settings.JournalSettings;
+import org.wayhold.testing.JournalFixtures;
 import org.wayhold.testing.ServeChild;
 import org.wayhold.testing.SessionSurgery;
 import picocli.CommandLine;
@@ -72,27 +72,12 @@ class ServeStartUpTest {
         Path data = tmp.resolve("data");
         List<List<Sample>> drive = SessionSurgery.batches(111L, 1.0);
         try (Journal j = Journal.open(data, new JournalSettings(true, 0.0, 4096, 3600.0, 1L << 30, 60.0))) {
-            j.recover(new Journal.RecoveryTarget() {
-                @Override
-                public void restore(String vehicleId, byte[] snapshot) {
-                }
-
-                @Override
-                public void replay(String vehicleId, List<Sample> batch, long seq) {
-                }
-
-                @Override
-                public void delete(String vehicleId, long seq) {
-                }
-            });
+            j.recover(JournalFixtures.KEEP_NOTHING);
             for (List<Sample> b : drive) {
                 Journal.await(j.append("van-a", b));
             }
         }
-        Path second;
-        try (Stream<Path> files = Files.list(data)) {
-            second = files.filter(p -> p.toString().endsWith(".wal")).sorted().toList().get(1);
-        }
+        Path second = JournalFixtures.segments(data).get(1);
         long seq = ByteBuffer.wrap(Files.readAllBytes(second)).getLong(8);
         try (RandomAccessFile f = new RandomAccessFile(second.toFile(), "rw")) {
             f.seek(30);

@@ -17,7 +17,6 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
-import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.wayhold.journal.Journal;
@@ -26,6 +25,7 @@ import org.wayhold.sample.Sample;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.Settings;
 import org.wayhold.testing.FaultyFiles;
+import org.wayhold.testing.JournalFixtures;
 import org.wayhold.testing.SessionSurgery;
 
 /**
@@ -141,19 +141,7 @@ class JournalFaultsOverHttpTest {
     void aQuarantinedVehicleGets503WhileTheOthersAreServed() throws Exception {
         int n = 30;
         try (Journal j = Journal.open(dir, SETTINGS.journal())) {
-            j.recover(new Journal.RecoveryTarget() {
-                @Override
-                public void restore(String vehicleId, byte[] snapshot) {
-                }
-
-                @Override
-                public void replay(String vehicleId, List<Sample> batch, long seq) {
-                }
-
-                @Override
-                public void delete(String vehicleId, long seq) {
-                }
-            });
+            j.recover(JournalFixtures.KEEP_NOTHING);
             j.writeSnapshot(0, List.of(
                     new Journal.SessionSnapshot("van-a", -1, SessionSurgery.historyAheadOfFilter("van-a", SETTINGS, A, n, n + 4)),
                     new Journal.SessionSnapshot("van-b", -1, SessionSurgery.state("van-b", SETTINGS, B, n))));
@@ -203,27 +191,12 @@ class JournalFaultsOverHttpTest {
     void lostRecordsMakeTheHealthDegradedAndAreListed() throws Exception {
         JournalSettings small = new JournalSettings(true, 0.0, 4096, 3600.0, 1L << 30, 60.0);
         try (Journal j = Journal.open(dir, small)) {
-            j.recover(new Journal.RecoveryTarget() {
-                @Override
-                public void restore(String vehicleId, byte[] snapshot) {
-                }
-
-                @Override
-                public void replay(String vehicleId, List<Sample> batch, long seq) {
-                }
-
-                @Override
-                public void delete(String vehicleId, long seq) {
-                }
-            });
+            j.recover(JournalFixtures.KEEP_NOTHING);
             for (List<Sample> b : A) {
                 Journal.await(j.append("van-a", b));
             }
         }
-        Path second;
-        try (Stream<Path> files = Files.list(dir)) {
-            second = files.filter(p -> p.toString().endsWith(".wal")).sorted().toList().get(1);
-        }
+        Path second = JournalFixtures.segments(dir).get(1);
         ByteBuffer head = ByteBuffer.wrap(Files.readAllBytes(second));
         long seq = head.getLong(8);
         try (RandomAccessFile f = new RandomAccessFile(second.toFile(), "rw")) {

@@ -9,6 +9,7 @@ import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.wayhold.settings.JournalSettings;
+import org.wayhold.testing.JournalFixtures;
 
 /**
  * One journal per data directory. Expected values: this process's own id (ProcessHandle) and the
@@ -40,19 +41,7 @@ class DataDirectoryLockTest {
     @Test
     void theLockFileIsNotAStrayFile(@TempDir Path dir) throws IOException {
         try (Journal j = Journal.open(dir, JournalSettings.defaults())) {
-            assertThat(j.recover(new Journal.RecoveryTarget() {
-                @Override
-                public void restore(String vehicleId, byte[] snapshot) {
-                }
-
-                @Override
-                public void replay(String vehicleId, java.util.List<org.wayhold.sample.Sample> batch, long seq) {
-                }
-
-                @Override
-                public void delete(String vehicleId, long seq) {
-                }
-            }).notes()).isEmpty();
+            assertThat(j.recover(JournalFixtures.KEEP_NOTHING).notes()).isEmpty();
         }
         assertThat(dir.resolve("wayhold.lock")).exists();
     }

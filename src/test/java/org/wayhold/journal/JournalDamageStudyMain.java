@@ -17,6 +17,7 @@ import org.wayhold.session.SessionStats;
 import org.wayhold.session.VehicleSession;
 import org.wayhold.settings.JournalSettings;
 import org.wayhold.settings.Settings;
+import org.wayhold.testing.JournalFixtures;
 import org.wayhold.testing.SessionSurgery;
 
 /**
@@ -116,19 +117,7 @@ public final class JournalDamageStudyMain {
         Map<String, VehicleSession> live = new LinkedHashMap<>();
         long floor = -1;
         try (Journal j = Journal.open(dir, SMALL)) {
-            j.recover(new Journal.RecoveryTarget() {
-                @Override
-                public void restore(String vehicleId, byte[] snapshot) {
-                }
-
-                @Override
-                public void replay(String vehicleId, List<Sample> batch, long seq) {
-                }
-
-                @Override
-                public void delete(String vehicleId, long seq) {
-                }
-            });
+            j.recover(JournalFixtures.KEEP_NOTHING);
             for (int second = 0; second < SECONDS; second++) {
                 for (Map.Entry<String, List<List<Sample>>> e : drives.entrySet()) {
                     if (second >= e.getValue().size()) {
