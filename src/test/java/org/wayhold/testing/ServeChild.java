@@ -1,7 +1,6 @@
 package org.wayhold.testing;
 
 import java.io.IOException;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -30,29 +29,15 @@ public record ServeChild(Process process, String baseUrl, Path output) {
      */
     public static ServeChild start(Path output, List<String> serveArgs, String alsoWaitFor, long timeoutS)
             throws IOException, InterruptedException {
-        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
-        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
-        List<String> command = new ArrayList<>(List.of(java, "-Xmx256m", "-XX:TieredStopAtLevel=1",
-                "-XX:+UseSerialGC", "-cp", classPath, "org.wayhold.cli.Main", "serve", "--port", "0"));
-        command.addAll(serveArgs);
-        ProcessBuilder pb = new ProcessBuilder(command);
-        pb.redirectErrorStream(true);
-        pb.redirectOutput(output.toFile());
-        Process p = pb.start();
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutS);
-        while (System.nanoTime() < deadline) {
-            String text = Files.exists(output) ? Files.readString(output) : "";
-            Matcher m = SERVING.matcher(text);
-            if (m.find() && (alsoWaitFor == null || text.contains(alsoWaitFor))) {
-                return new ServeChild(p, m.group(1), output);
-            }
-            if (!p.isAlive()) {
-                throw new AssertionError("serve exited with " + p.exitValue() + ":\n" + text);
-            }
-            Thread.sleep(20);
-        }
-        p.destroyForcibly();
-        throw new AssertionError("serve did not start within " + timeoutS + " s:\n" + Files.readString(output));
+        List<String> args = new ArrayList<>(List.of("serve", "--port", "0"));
+        args.addAll(serveArgs);
+        Process p = ChildJvm.launch(List.of("-Xmx256m", "-XX:TieredStopAtLevel=1", "-XX:+UseSerialGC"), args,
+                output);
+        String text = ChildJvm.awaitOutput(p, output,
+                t -> SERVING.matcher(t).find() && (alsoWaitFor == null || t.contains(alsoWaitFor)), timeoutS, "serve");
+        Matcher m = SERVING.matcher(text);
+        m.find();
+        return new ServeChild(p, m.group(1), output);
     }
 
     /** SIGTERM (a graceful stop), and SIGKILL after 30 s. */

@@ -1,7 +1,6 @@
 package org.wayhold.testing;
 
 import java.io.IOException;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -26,28 +25,11 @@ public record WorkerChild(Process process, Path output) {
      */
     public static WorkerChild start(Path output, List<String> workerArgs, long timeoutS)
             throws IOException, InterruptedException {
-        String classPath = System.getProperty("surefire.test.class.path", System.getProperty("java.class.path"));
-        String java = Path.of(System.getProperty("java.home"), "bin", "java").toString();
-        List<String> command = new ArrayList<>(List.of(java, "-Xmx256m", "-XX:+UseSerialGC", "-cp", classPath,
-                "org.wayhold.cli.Main", "worker"));
-        command.addAll(workerArgs);
-        ProcessBuilder pb = new ProcessBuilder(command);
-        pb.redirectErrorStream(true);
-        pb.redirectOutput(output.toFile());
-        Process p = pb.start();
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutS);
-        while (System.nanoTime() < deadline) {
-            String text = Files.exists(output) ? Files.readString(output) : "";
-            if (text.contains(RUNNING)) {
-                return new WorkerChild(p, output);
-            }
-            if (!p.isAlive()) {
-                throw new AssertionError("worker exited with " + p.exitValue() + ":\n" + text);
-            }
-            Thread.sleep(20);
-        }
-        p.destroyForcibly();
-        throw new AssertionError("worker did not run within " + timeoutS + " s:\n" + Files.readString(output));
+        List<String> args = new ArrayList<>(List.of("worker"));
+        args.addAll(workerArgs);
+        Process p = ChildJvm.launch(List.of("-Xmx256m", "-XX:+UseSerialGC"), args, output);
+        ChildJvm.awaitOutput(p, output, text -> text.contains(RUNNING), timeoutS, "worker");
+        return new WorkerChild(p, output);
     }
 
     /** SIGKILL, as a machine that dies: no clean leave of the group, no commit of the open transaction. */
